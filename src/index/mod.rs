@@ -1,0 +1,638 @@
+//! Index files: a cheap, zero-copy [`Index::open`] over bytes, an explicit
+//! [`Index::verify`] of the checksum, and a [`View`] with the lookups the
+//! checker needs (code to ordinal through an `fst` map, side tables by ordinal).
+
+mod bytes;
+pub mod write;
+
+use crate::date::Date;
+use crate::model::{
+    Chapter, CodeEntry, Meta, Period, Release, Section, SeventhRule, Source, Successor,
+};
+use crate::sha256;
+use bytes::{u32_at, In};
+use std::fmt;
+
+/// First bytes of every index file.
+pub const MAGIC: &[u8; 8] = b"RCALLIX\x1a";
+/// The index format this build reads and writes.
+pub const FORMAT_VERSION: u32 = 1;
+pub(crate) const HEADER_LEN: usize = 56;
+/// Records per block of the span and successor offset tables.
+pub(crate) const REC_BLOCK: usize = 64;
+
+/// Why index bytes cannot be used. Each message says what to do.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum IndexError {
+    /// Not an index file at all.
+    NotAnIndex,
+    /// Written by another format version.
+    Version {
+        /// The version this build reads.
+        expected: u32,
+        /// The version in the file.
+        got: u32,
+    },
+    /// Shorter than its header says.
+    Truncated {
+        /// Length stated in the header.
+        expected: u64,
+        /// Bytes present.
+        got: u64,
+    },
+    /// A part of the file is missing or out of bounds.
+    Corrupt(&'static str),
+    /// The content does not match its checksum.
+    ChecksumMismatch {
+        /// Checksum in the header.
+        expected: String,
+        /// Checksum of the content.
+        got: String,
+    },
+}
+
+impl fmt::Display for IndexError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            IndexError::NotAnIndex => write!(
+                f,
+                "this is not a rollcall index file (its first bytes are wrong); \
+                 point to a file written by vocab-build"
+            ),
+            IndexError::Version { expected, got } => write!(
+                f,
+                "the index file has format version {got}, but this rollcall reads version \
+                 {expected}; rebuild the index with the matching vocab-build"
+            ),
+            IndexError::Truncated { expected, got } => write!(
+                f,
+                "the index file is truncated: {got} of {expected} bytes are present; \
+                 copy or download it again"
+            ),
+            IndexError::Corrupt(what) => write!(
+                f,
+                "the index file is damaged ({what}); rebuild it with vocab-build or copy it again"
+            ),
+            IndexError::ChecksumMismatch { expected, got } => write!(
+                f,
+                "the index file is corrupted: its checksum is {got} but should be {expected}; \
+                 copy or download it again"
+            ),
+        }
+    }
+}
+
+impl std::error::Error for IndexError {}
+
+type Range = (usize, usize);
+
+struct Layout {
+    fst: Range,
+    pard: Range,
+    subt: Range,
+    cnts: Range,
+    spbk: Range,
+    scbk: Range,
+    span: Range,
+    succ: Range,
+    doff: Range,
+    desc: Range,
+    len: usize,
+}
+
+/// Chapters, sections and 7th-character rules, decoded on open (they are small).
+struct Tree {
+    chapters: Vec<Chapter>,
+    sections: Vec<Section>,
+    seventh: Vec<SeventhRule>,
+}
+
+/// An opened index over bytes the caller owns (`Vec<u8>`, `&[u8]`, a static).
+///
+/// ```no_run
+/// let bytes = std::fs::read("vocab/icd10cm.rcx").unwrap();
+/// let index = rollcall::Index::open(bytes).unwrap();
+/// index.verify().unwrap();
+/// let view = index.view();
+/// let e119 = view.ordinal("E119").unwrap();
+/// assert_eq!(view.display(&view.code(e119)), "E11.9");
+/// ```
+pub struct Index<D> {
+    data: D,
+    layout: Layout,
+    meta: Meta,
+    tree: Tree,
+}
+
+impl<D: AsRef<[u8]>> Index<D> {
+    /// Checks the header, directory and code map, and decodes the small
+    /// tables. No copy of the large tables; the checksum is left to [`verify`](Self::verify).
+    pub fn open(data: D) -> Result<Index<D>, IndexError> {
+        let bytes = data.as_ref();
+        if bytes.len() < 12 || &bytes[..8] != MAGIC {
+            return Err(IndexError::NotAnIndex);
+        }
+        let version = u32_at(bytes, 8).unwrap_or(0);
+        if version != FORMAT_VERSION {
+            return Err(IndexError::Version {
+                expected: FORMAT_VERSION,
+                got: version,
+            });
+        }
+        let mut r = In::new(bytes);
+        r.pos = 12;
+        let count = r.u32().ok_or(IndexError::Corrupt("header"))? as usize;
+        let total = r
+            .take(8)
+            .map(|b| u64::from_le_bytes(b.try_into().unwrap_or([0; 8])))
+            .ok_or(IndexError::Truncated {
+                expected: HEADER_LEN as u64,
+                got: bytes.len() as u64,
+            })?;
+        if (bytes.len() as u64) < total || bytes.len() < HEADER_LEN {
+            return Err(IndexError::Truncated {
+                expected: total.max(HEADER_LEN as u64),
+                got: bytes.len() as u64,
+            });
+        }
+        if bytes.len() as u64 != total {
+            return Err(IndexError::Corrupt("extra bytes after the end"));
+        }
+        r.pos = HEADER_LEN;
+        let mut find = std::collections::HashMap::new();
+        for _ in 0..count.min(64) {
+            let tag = r.take(4).ok_or(IndexError::Corrupt("directory"))?;
+            let off = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
+            let len = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
+            if off.checked_add(len).is_none_or(|end| end > bytes.len()) {
+                return Err(IndexError::Corrupt("a section lies outside the file"));
+            }
+            find.insert(tag.to_vec(), (off, len));
+        }
+        let sec = |tag: &[u8; 4], what: &'static str| {
+            find.get(&tag[..]).copied().ok_or(IndexError::Corrupt(what))
+        };
+        let meta_at = sec(b"META", "header facts missing")?;
+        let meta =
+            read_meta(&bytes[meta_at.0..meta_at.0 + meta_at.1]).ok_or(IndexError::Corrupt("header facts"))?;
+        let tree_at = sec(b"TREE", "chapters missing")?;
+        let tree =
+            read_tree(&bytes[tree_at.0..tree_at.0 + tree_at.1]).ok_or(IndexError::Corrupt("chapters"))?;
+        let fst = sec(b"CFST", "code map missing")?;
+        let map = fst::Map::new(&bytes[fst.0..fst.0 + fst.1])
+            .map_err(|_| IndexError::Corrupt("code map"))?;
+        let len = map.len();
+        let pard = sec(b"PARD", "parents missing")?;
+        let subt = sec(b"SUBT", "subtrees missing")?;
+        let cnts = sec(b"CNTS", "counts missing")?;
+        let spbk = sec(b"SPBK", "span blocks missing")?;
+        let scbk = sec(b"SCBK", "successor blocks missing")?;
+        let span = sec(b"SPAN", "date spans missing")?;
+        let succ = sec(b"SUCC", "successors missing")?;
+        let doff = sec(b"DOFF", "descriptions missing")?;
+        let desc = sec(b"DESC", "descriptions missing")?;
+        let rec_blocks = len.div_ceil(REC_BLOCK);
+        if pard.1 != len * 2
+            || subt.1 != len * 2
+            || cnts.1 != len * 4
+            || spbk.1 != rec_blocks * 4
+            || scbk.1 != rec_blocks * 4
+            || span.1 % 8 != 0
+            || succ.1 % 8 != 0
+            || doff.1 != len.div_ceil(write::DESC_BLOCK) * 4
+        {
+            return Err(IndexError::Corrupt("table sizes disagree"));
+        }
+        let layout = Layout {
+            fst,
+            pard,
+            subt,
+            cnts,
+            spbk,
+            scbk,
+            span,
+            succ,
+            doff,
+            desc,
+            len,
+        };
+        Ok(Index {
+            data,
+            layout,
+            meta,
+            tree,
+        })
+    }
+
+    /// Recomputes the content checksum and compares it with the header's.
+    pub fn verify(&self) -> Result<(), IndexError> {
+        let bytes = self.data.as_ref();
+        let got = sha256::digest(&bytes[HEADER_LEN..]);
+        if got[..] != bytes[24..56] {
+            return Err(IndexError::ChecksumMismatch {
+                expected: sha256::hex(&bytes[24..56]),
+                got: sha256::hex(&got),
+            });
+        }
+        Ok(())
+    }
+
+    /// The content checksum stated in the header, lower-case hex.
+    pub fn checksum(&self) -> String {
+        sha256::hex(&self.data.as_ref()[24..56])
+    }
+
+    /// What the index says about itself.
+    pub fn meta(&self) -> &Meta {
+        &self.meta
+    }
+
+    /// The raw bytes.
+    pub fn bytes(&self) -> &[u8] {
+        self.data.as_ref()
+    }
+
+    /// A borrowed view with all lookups.
+    pub fn view(&self) -> View<'_> {
+        let b = self.data.as_ref();
+        let l = &self.layout;
+        let s = |(o, n): (usize, usize)| &b[o..o + n];
+        View {
+            map: fst::Map::new(s(l.fst)).expect("checked on open"),
+            pard: s(l.pard),
+            subt: s(l.subt),
+            cnts: s(l.cnts),
+            spbk: s(l.spbk),
+            scbk: s(l.scbk),
+            spans: s(l.span),
+            succ: s(l.succ),
+            doff: s(l.doff),
+            desc: s(l.desc),
+            len: l.len,
+            meta: &self.meta,
+            tree: &self.tree,
+        }
+    }
+
+    /// Reads the whole index back into a [`Release`] (for tests and tools).
+    pub fn to_release(&self) -> Release {
+        let v = self.view();
+        let codes = (0..v.len() as u32)
+            .map(|o| CodeEntry {
+                code: v.code(o),
+                description: v.description(o),
+                billable: v.billable(o).collect(),
+                header: v.header(o).collect(),
+                successors: v
+                    .successors(o)
+                    .map(|(s, effective)| Successor {
+                        code: v.code(s),
+                        effective,
+                    })
+                    .collect(),
+                seventh: v.own_seventh(o),
+            })
+            .collect();
+        Release {
+            meta: self.meta.clone(),
+            codes,
+            chapters: self.tree.chapters.clone(),
+            sections: self.tree.sections.clone(),
+            seventh: self.tree.seventh.clone(),
+        }
+    }
+}
+
+fn read_meta(b: &[u8]) -> Option<Meta> {
+    let mut r = In::new(b);
+    let vocabulary = r.str()?.to_string();
+    let title = r.str()?.to_string();
+    let release = r.str()?.to_string();
+    let coverage_from = Date::from_days(r.i32()?);
+    let coverage_to = Date::from_days(r.i32()?);
+    let dot_after = r.u8()?;
+    let n = r.varint()?;
+    let mut sources = Vec::new();
+    for _ in 0..n.min(1000) {
+        sources.push(Source {
+            file: r.str()?.to_string(),
+            sha256: r.str()?.to_string(),
+            role: r.str()?.to_string(),
+        });
+    }
+    let n = r.varint()?;
+    let mut shapes = Vec::new();
+    for _ in 0..n.min(10_000) {
+        shapes.push(r.str()?.to_string());
+    }
+    Some(Meta {
+        vocabulary,
+        title,
+        release,
+        coverage_from,
+        coverage_to,
+        sources,
+        dot_after,
+        shapes,
+    })
+}
+
+fn read_tree(b: &[u8]) -> Option<Tree> {
+    let mut r = In::new(b);
+    let mut chapters = Vec::new();
+    for _ in 0..r.varint()?.min(10_000) {
+        chapters.push(Chapter {
+            name: r.str()?.to_string(),
+            title: r.str()?.to_string(),
+        });
+    }
+    let mut sections = Vec::new();
+    for _ in 0..r.varint()?.min(100_000) {
+        sections.push(Section {
+            first: r.str()?.to_string(),
+            last: r.str()?.to_string(),
+            title: r.str()?.to_string(),
+            chapter: r.u16()?,
+        });
+    }
+    let mut seventh = Vec::new();
+    for _ in 0..r.varint()?.min(100_000) {
+        let mut extensions = Vec::new();
+        for _ in 0..r.varint()?.min(64) {
+            let ch = char::from_u32(r.varint()?)?;
+            extensions.push((ch, r.str()?.to_string()));
+        }
+        seventh.push(SeventhRule { extensions });
+    }
+    Some(Tree {
+        chapters,
+        sections,
+        seventh,
+    })
+}
+
+/// Lookups over an opened index. Every accessor tolerates a damaged file
+/// (out-of-range reads give empty answers), so an unverified index cannot panic.
+pub struct View<'a> {
+    map: fst::Map<&'a [u8]>,
+    pard: &'a [u8],
+    subt: &'a [u8],
+    cnts: &'a [u8],
+    spbk: &'a [u8],
+    scbk: &'a [u8],
+    spans: &'a [u8],
+    succ: &'a [u8],
+    doff: &'a [u8],
+    desc: &'a [u8],
+    len: usize,
+    meta: &'a Meta,
+    tree: &'a Tree,
+}
+
+impl<'a> View<'a> {
+    /// Number of codes and header nodes.
+    pub fn len(&self) -> usize {
+        self.len
+    }
+
+    /// Whether the index holds no codes.
+    pub fn is_empty(&self) -> bool {
+        self.len == 0
+    }
+
+    /// The index's header facts.
+    pub fn meta(&self) -> &'a Meta {
+        self.meta
+    }
+
+    /// The code map, for automaton searches.
+    pub fn map(&self) -> &fst::Map<&'a [u8]> {
+        &self.map
+    }
+
+    /// Ordinal of an undotted, upper-case code.
+    #[inline]
+    pub fn ordinal(&self, code: &str) -> Option<u32> {
+        self.map.get(code).map(|o| o as u32)
+    }
+
+    /// The undotted code at an ordinal, read back from the fst: outputs are
+    /// ranks, so at each node the path to take is the last transition whose
+    /// output does not pass the ordinal.
+    pub fn code(&self, ord: u32) -> String {
+        let fst = self.map.as_fst();
+        let target = ord as u64;
+        let mut node = fst.root();
+        let mut acc = 0u64;
+        let mut key = Vec::with_capacity(8);
+        for _ in 0..64 {
+            if node.is_final() && acc + node.final_output().value() == target {
+                return String::from_utf8(key).unwrap_or_default();
+            }
+            let mut pick = None;
+            for t in node.transitions() {
+                if acc + t.out.value() <= target {
+                    pick = Some(t);
+                } else {
+                    break;
+                }
+            }
+            let Some(t) = pick else { break };
+            acc += t.out.value();
+            key.push(t.inp);
+            node = fst.node(t.addr);
+        }
+        String::new()
+    }
+
+    /// The display form of an undotted code (`E119` → `E11.9`).
+    pub fn display(&self, code: &str) -> String {
+        let n = self.meta.dot_after as usize;
+        if n > 0 && code.len() > n && code.is_char_boundary(n) {
+            format!("{}.{}", &code[..n], &code[n..])
+        } else {
+            code.to_string()
+        }
+    }
+
+    fn u16_at(data: &[u8], i: usize) -> u16 {
+        data.get(i * 2..i * 2 + 2)
+            .map_or(0, |b| u16::from_le_bytes([b[0], b[1]]))
+    }
+
+    #[inline]
+    fn count(&self, ord: u32, field: usize) -> usize {
+        self.cnts.get(ord as usize * 4 + field).copied().unwrap_or(0) as usize
+    }
+
+    /// The parent node, if any.
+    pub fn parent(&self, ord: u32) -> Option<u32> {
+        let d = Self::u16_at(self.pard, ord as usize) as u32;
+        (d != 0 && d <= ord).then(|| ord - d)
+    }
+
+    /// Ancestors, nearest first.
+    pub fn ancestors(&self, ord: u32) -> impl Iterator<Item = u32> + '_ {
+        let mut cur = self.parent(ord);
+        let mut guard = 0;
+        std::iter::from_fn(move || {
+            let c = cur?;
+            guard += 1;
+            cur = if guard > 64 { None } else { self.parent(c) };
+            Some(c)
+        })
+    }
+
+    /// One past the last descendant: the subtree of `ord` is `ord..end`.
+    pub fn subtree_end(&self, ord: u32) -> u32 {
+        let size = Self::u16_at(self.subt, ord as usize).max(1) as u32;
+        (ord + size).min(self.len as u32).max(ord + 1)
+    }
+
+    /// Direct children, in code order.
+    pub fn children(&self, ord: u32) -> impl Iterator<Item = u32> + '_ {
+        let end = self.subtree_end(ord);
+        let mut next = ord + 1;
+        std::iter::from_fn(move || {
+            if next >= end {
+                return None;
+            }
+            let c = next;
+            next = self.subtree_end(c);
+            Some(c)
+        })
+    }
+
+    /// Start of this record's run in a table whose block starts are in
+    /// `blocks`, given the run length of each record.
+    fn run_start(&self, blocks: &[u8], ord: u32, len_of: impl Fn(u32) -> usize) -> usize {
+        let block = ord as usize / REC_BLOCK;
+        let first = (block * REC_BLOCK) as u32;
+        let base = u32_at(blocks, block * 4).unwrap_or(0) as usize;
+        base + (first..ord).map(len_of).sum::<usize>()
+    }
+
+    fn spans_of(&self, ord: u32) -> (usize, usize, usize) {
+        let nb = self.count(ord, 0);
+        let nh = self.count(ord, 1);
+        let start = self.run_start(self.spbk, ord, |o| self.count(o, 0) + self.count(o, 1));
+        let total = self.spans.len() / 8;
+        let s = start.min(total);
+        (s, (s + nb).min(total), (s + nb + nh).min(total))
+    }
+
+    fn period_at(&self, i: usize) -> Period {
+        let f = u32_at(self.spans, i * 8).unwrap_or(0) as i32;
+        let t = u32_at(self.spans, i * 8 + 4).unwrap_or(0) as i32;
+        Period::new(Date::from_days(f), Date::from_days(t))
+    }
+
+    /// Periods in which the code was billable.
+    pub fn billable(&self, ord: u32) -> impl Iterator<Item = Period> + '_ {
+        let (s, m, _) = self.spans_of(ord);
+        (s..m).map(move |i| self.period_at(i))
+    }
+
+    /// Periods in which the code was a header.
+    pub fn header(&self, ord: u32) -> impl Iterator<Item = Period> + '_ {
+        let (_, m, e) = self.spans_of(ord);
+        (m..e).map(move |i| self.period_at(i))
+    }
+
+    /// Whether the code was billable on any day of `period`.
+    #[inline]
+    pub fn billable_in(&self, ord: u32, period: &Period) -> bool {
+        self.billable(ord).any(|p| p.overlaps(period))
+    }
+
+    fn succ_of(&self, ord: u32) -> (usize, usize) {
+        let start = self.run_start(self.scbk, ord, |o| self.count(o, 2));
+        let total = self.succ.len() / 8;
+        (start.min(total), (start + self.count(ord, 2)).min(total))
+    }
+
+    /// Successors and the day each took over.
+    pub fn successors(&self, ord: u32) -> impl Iterator<Item = (u32, Date)> + '_ {
+        let (start, end) = self.succ_of(ord);
+        (start..end).map(move |i| {
+            (
+                u32_at(self.succ, i * 8).unwrap_or(0).min(self.len.saturating_sub(1) as u32),
+                Date::from_days(u32_at(self.succ, i * 8 + 4).unwrap_or(0) as i32),
+            )
+        })
+    }
+
+    /// Codes whose successors include `ord` (a scan of the records that
+    /// have successors; the table is small).
+    pub fn predecessors(&self, ord: u32) -> Vec<(u32, Date)> {
+        let mut out = Vec::new();
+        for o in 0..self.len as u32 {
+            if self.count(o, 2) > 0 {
+                out.extend(self.successors(o).filter(|(s, _)| *s == ord).map(|(_, d)| (o, d)));
+            }
+        }
+        out
+    }
+
+    /// The official description (empty when the release gave none).
+    pub fn description(&self, ord: u32) -> String {
+        if ord as usize >= self.len {
+            return String::new();
+        }
+        let block = ord as usize / write::DESC_BLOCK;
+        let Some(off) = u32_at(self.doff, block * 4) else {
+            return String::new();
+        };
+        let mut r = In::new(self.desc);
+        r.pos = off as usize;
+        let mut cur = match r.str() {
+            Some(s) => s.to_string(),
+            None => return String::new(),
+        };
+        for _ in 0..ord as usize % write::DESC_BLOCK {
+            let (Some(shared), Some(rest)) = (r.varint(), r.str()) else {
+                return String::new();
+            };
+            let keep = (shared as usize).min(cur.len());
+            if !cur.is_char_boundary(keep) {
+                return String::new();
+            }
+            cur.truncate(keep);
+            cur.push_str(rest);
+        }
+        cur
+    }
+
+    fn own_seventh(&self, ord: u32) -> Option<u16> {
+        (self.count(ord, 3) as u16).checked_sub(1)
+    }
+
+    /// The 7th-character rule in force at this node (its own or an ancestor's).
+    pub fn seventh_rule(&self, ord: u32) -> Option<&'a SeventhRule> {
+        std::iter::once(ord)
+            .chain(self.ancestors(ord))
+            .find_map(|o| self.own_seventh(o))
+            .and_then(|i| self.tree.seventh.get(i as usize))
+    }
+
+    /// The section whose category range holds this code, and its chapter.
+    pub fn section_of(&self, code: &str) -> Option<(&'a Section, Option<&'a Chapter>)> {
+        let cat = code.get(..3.min(code.len()))?;
+        let i = self
+            .tree
+            .sections
+            .partition_point(|s| s.first.as_str() <= cat);
+        let s = self.tree.sections.get(i.checked_sub(1)?)?;
+        (cat <= s.last.as_str()).then(|| (s, self.tree.chapters.get(s.chapter as usize)))
+    }
+
+    /// All chapters.
+    pub fn chapters(&self) -> &'a [Chapter] {
+        &self.tree.chapters
+    }
+
+    /// All sections.
+    pub fn sections(&self) -> &'a [Section] {
+        &self.tree.sections
+    }
+}

@@ -1,0 +1,36 @@
+//! rollcall checks clinical code lists against dated vocabulary releases.
+//!
+//! The core knows nothing of files or browsers: it takes index bytes and list
+//! text and returns a [`Report`].
+//!
+//! - [`Index`] opens an index file written by `vocab-build` (zero-copy; the
+//!   large tables stay in the caller's bytes) and [`View`] answers lookups:
+//!   code to ordinal through an `fst` map, then side tables by ordinal
+//!   (billable and header spans, parent and subtree, successors, descriptions).
+//! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
+//! - [`check`] runs the per-entry and whole-list checks for a study period.
+//! - [`model`] holds the owned release model that indexes are written from.
+//!
+//! Memory: an opened index borrows its bytes; the only allocations on open are
+//! the header facts and the chapter/section tables (a few kilobytes).
+
+#![deny(missing_docs)]
+
+pub mod check;
+pub mod code;
+pub mod date;
+pub mod index;
+pub mod input;
+pub mod listcheck;
+pub mod model;
+pub mod pattern;
+pub mod render;
+pub mod report;
+pub mod sha256;
+
+
+pub use date::{Date, DateError};
+pub use index::{Index, IndexError, View};
+
+pub use model::{Meta, Period, Release, Source, Span, SpanKind};
+

@@ -1,0 +1,198 @@
+//! The in-memory release model: what `vocab-build` assembles from release files
+//! and what an index file holds, in plain owned types.
+//!
+//! The index writer takes a [`Release`]; [`crate::Index::to_release`] gives one
+//! back, so building then reading an index can be compared with its input.
+
+use crate::date::Date;
+use serde::Serialize;
+
+/// An inclusive range of days.
+#[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Debug, Serialize)]
+pub struct Period {
+    /// First day.
+    pub from: Date,
+    /// Last day (inclusive).
+    pub to: Date,
+}
+
+impl Period {
+    /// The period from `from` to `to`, both inclusive.
+    pub fn new(from: Date, to: Date) -> Period {
+        Period { from, to }
+    }
+
+    /// Whether `day` falls in the period.
+    pub fn contains(&self, day: Date) -> bool {
+        self.from <= day && day <= self.to
+    }
+
+    /// Whether the two periods share a day.
+    pub fn overlaps(&self, other: &Period) -> bool {
+        self.from <= other.to && other.from <= self.to
+    }
+
+    /// Whether `other` lies wholly inside this period.
+    pub fn covers(&self, other: &Period) -> bool {
+        self.from <= other.from && other.to <= self.to
+    }
+
+    /// The days both periods share, if any.
+    pub fn intersect(&self, other: &Period) -> Option<Period> {
+        let from = self.from.max(other.from);
+        let to = self.to.min(other.to);
+        (from <= to).then_some(Period { from, to })
+    }
+}
+
+/// What a code was on a span of days.
+#[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Debug, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum SpanKind {
+    /// Valid for submission (a leaf of the release).
+    Billable,
+    /// A node of the hierarchy with billable codes under it.
+    Header,
+}
+
+/// A span of days on which a code had one status.
+#[derive(Clone, Copy, PartialEq, Eq, Debug, Serialize)]
+pub struct Span {
+    /// Billable or header.
+    pub kind: SpanKind,
+    /// First day.
+    pub from: Date,
+    /// Last day (inclusive).
+    pub to: Date,
+}
+
+/// A later code that data under a retired code is now coded as.
+#[derive(Clone, PartialEq, Eq, PartialOrd, Ord, Debug)]
+pub struct Successor {
+    /// The successor, undotted.
+    pub code: String,
+    /// The day the successor took over (the retired code's data up to the day
+    /// before is now coded as the successor).
+    pub effective: Date,
+}
+
+/// One code or header node of the vocabulary, across all releases.
+#[derive(Clone, PartialEq, Eq, Debug)]
+pub struct CodeEntry {
+    /// The code without a dot, upper case (`E119`).
+    pub code: String,
+    /// The newest official description (may be empty).
+    pub description: String,
+    /// Days on which the code was billable, sorted and disjoint.
+    pub billable: Vec<Period>,
+    /// Days on which the code was a header, sorted and disjoint.
+    pub header: Vec<Period>,
+    /// Successors from the conversion table, sorted.
+    pub successors: Vec<Successor>,
+    /// Index into [`Release::seventh`] of the 7th-character rule that the
+    /// tabular list states at this node, if any.
+    pub seventh: Option<u16>,
+}
+
+/// A chapter of the classification.
+#[derive(Clone, PartialEq, Eq, Debug, Serialize)]
+pub struct Chapter {
+    /// Its number as printed (`4`).
+    pub name: String,
+    /// Its title, with the code range (`Endocrine, nutritional ... (E00-E89)`).
+    pub title: String,
+}
+
+/// A section (block) of categories.
+#[derive(Clone, PartialEq, Eq, Debug, Serialize)]
+pub struct Section {
+    /// First category, undotted (`E08`).
+    pub first: String,
+    /// Last category, undotted (`E13`).
+    pub last: String,
+    /// Title (`Diabetes mellitus`).
+    pub title: String,
+    /// Index into [`Release::chapters`].
+    pub chapter: u16,
+}
+
+/// A 7th-character rule: the characters allowed in the 7th place and what each means.
+#[derive(Clone, PartialEq, Eq, Debug, Serialize)]
+pub struct SeventhRule {
+    /// Pairs of character and meaning (`A`, `initial encounter`).
+    pub extensions: Vec<(char, String)>,
+}
+
+/// One source file an index was built from.
+#[derive(Clone, PartialEq, Eq, Debug, Serialize)]
+pub struct Source {
+    /// File name.
+    pub file: String,
+    /// SHA-256 of the file as read, lower-case hex.
+    pub sha256: String,
+    /// What the build took from it.
+    pub role: String,
+}
+
+/// What an index says about itself.
+#[derive(Clone, PartialEq, Eq, Debug, Serialize)]
+pub struct Meta {
+    /// Vocabulary id (`icd10cm`).
+    pub vocabulary: String,
+    /// Display name (`ICD-10-CM`).
+    pub title: String,
+    /// Release tag naming the newest data included.
+    pub release: String,
+    /// First day the index knows about.
+    pub coverage_from: Date,
+    /// Last day the index knows about.
+    pub coverage_to: Date,
+    /// Files the index was built from.
+    pub sources: Vec<Source>,
+    /// Where the dot goes in the display form (3 for ICD-10-CM: `E11.9`).
+    pub dot_after: u8,
+    /// Code shapes seen in the data, one letter per character:
+    /// `A` a letter, `9` a digit (`A99.9A` style is written without the dot).
+    pub shapes: Vec<String>,
+}
+
+/// A whole vocabulary, ready to be written as an index.
+#[derive(Clone, PartialEq, Eq, Debug)]
+pub struct Release {
+    /// Header facts.
+    pub meta: Meta,
+    /// Every code and header node, sorted by code.
+    pub codes: Vec<CodeEntry>,
+    /// Chapters in order.
+    pub chapters: Vec<Chapter>,
+    /// Sections in order.
+    pub sections: Vec<Section>,
+    /// Distinct 7th-character rules.
+    pub seventh: Vec<SeventhRule>,
+}
+
+/// The shape letters of an undotted code: `A` for a letter, `9` for a digit.
+pub fn shape_of(code: &str) -> String {
+    code.chars()
+        .map(|c| if c.is_ascii_digit() { '9' } else { 'A' })
+        .collect()
+}
+
+/// For codes sorted in byte order, one past the last position whose code
+/// starts with the code at each position. With parents taken as the longest
+/// code that is a proper prefix, this is the end of each subtree.
+pub fn subtree_ends<S: AsRef<str>>(codes: &[S]) -> Vec<usize> {
+    let mut ends = vec![codes.len(); codes.len()];
+    let mut open: Vec<usize> = Vec::new();
+    for (i, c) in codes.iter().enumerate() {
+        while let Some(&top) = open.last() {
+            if c.as_ref().starts_with(codes[top].as_ref()) {
+                break;
+            }
+            ends[top] = i;
+            open.pop();
+        }
+        open.push(i);
+    }
+    ends
+}

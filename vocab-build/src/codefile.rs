@@ -1,0 +1,35 @@
+//! The CMS code-description file: billable codes only, `code`, spaces,
+//! description.
+
+use crate::error::BuildError;
+
+/// Reads `(code, description)` pairs.
+pub fn parse(file: &str, text: &str) -> Result<Vec<(String, String)>, BuildError> {
+    let mut out = Vec::new();
+    for (i, line) in text.lines().enumerate() {
+        let line = line.trim_end_matches('\r');
+        if line.trim().is_empty() {
+            continue;
+        }
+        let (code, desc) = line.split_once(char::is_whitespace).unwrap_or((line, ""));
+        if code.is_empty() || !code.bytes().all(|b| b.is_ascii_alphanumeric()) {
+            return Err(BuildError::at(
+                file,
+                i + 1,
+                "expected a code (letters and digits, no dot) at the start of the line",
+            ));
+        }
+        out.push((code.to_ascii_uppercase(), desc.trim().to_string()));
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn reads_code_and_description() {
+        let rows = super::parse("c.txt", "A000    Cholera due to Vibrio cholerae 01, biovar cholerae\n").unwrap();
+        assert_eq!(rows[0].0, "A000");
+        assert!(super::parse("c.txt", "A0.00 x\n").is_err());
+    }
+}

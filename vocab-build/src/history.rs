@@ -1,0 +1,64 @@
+//! The release-history TSV: `code`, `valid_from`, `valid_to` (YYYYMMDD,
+//! inclusive), `description`; one row per code that was ever billable.
+
+use crate::error::BuildError;
+use rollcall::{Date, Period};
+
+/// One history row.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Row {
+    pub code: String,
+    pub valid: Period,
+    pub description: String,
+}
+
+/// Reads the TSV; the first line must be the column header.
+pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
+    let mut lines = text.lines().enumerate();
+    let header = lines.next().map(|(_, l)| l).unwrap_or("");
+    let cols: Vec<&str> = header.trim_end_matches('\r').split('\t').collect();
+    if cols.get(..3) != Some(&["code", "valid_from", "valid_to"][..]) {
+        return Err(BuildError::at(
+            file,
+            1,
+            "expected the header `code<TAB>valid_from<TAB>valid_to<TAB>description`",
+        ));
+    }
+    let mut out = Vec::new();
+    for (i, line) in lines {
+        let line = line.trim_end_matches('\r');
+        if line.is_empty() {
+            continue;
+        }
+        let f: Vec<&str> = line.split('\t').collect();
+        if f.len() < 3 {
+            return Err(BuildError::at(file, i + 1, "expected at least 3 tab-separated columns"));
+        }
+        let date = |s: &str| {
+            Date::parse(s).map_err(|e| BuildError::at(file, i + 1, e.to_string()))
+        };
+        let (from, to) = (date(f[1])?, date(f[2])?);
+        if to < from {
+            return Err(BuildError::at(file, i + 1, "valid_to is before valid_from"));
+        }
+        out.push(Row {
+            code: f[0].trim().replace('.', "").to_ascii_uppercase(),
+            valid: Period::new(from, to),
+            description: f.get(3).unwrap_or(&"").trim().to_string(),
+        });
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn reads_rows_and_names_bad_lines() {
+        let t = "code\tvalid_from\tvalid_to\tdescription\nA000\t20151001\t20270331\tCholera\nB\t2015\t20160101\tx\n";
+        let e = super::parse("h.tsv", t).unwrap_err();
+        assert_eq!(e.line, Some(3));
+        let ok = super::parse("h.tsv", &t.lines().take(2).collect::<Vec<_>>().join("\n")).unwrap();
+        assert_eq!(ok[0].code, "A000");
+        assert_eq!(ok[0].valid.to.to_string(), "2027-03-31");
+    }
+}

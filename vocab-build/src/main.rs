@@ -1,0 +1,292 @@
+//! vocab-build: reads official release files and writes a rollcall index.
+//!
+//! With no arguments it builds the bundled ICD-10-CM index from
+//! `vocab-build/sources/` into `vocab/icd10cm.rcx`. With arguments it builds
+//! from any year's official files (see `--help`).
+
+mod assemble;
+mod codefile;
+mod conversion;
+mod error;
+mod history;
+mod order;
+mod tabular;
+mod xml;
+
+use assemble::Inputs;
+use error::BuildError;
+use rollcall::model::Source;
+use rollcall::{Date, Period};
+use std::io::Read;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+const HELP: &str = "\
+vocab-build: write a rollcall index from official ICD-10-CM release files
+
+usage:
+  vocab-build                      build the bundled index (vocab-build/sources -> vocab/icd10cm.rcx)
+  vocab-build [FILES...] --out PATH
+
+files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in force):
+  --history FILE               release-history TSV (code, valid_from, valid_to, description)
+  --tabular FILE@PERIOD        CDC tabular XML (hierarchy, chapters, sections, 7th characters)
+  --order FILE@PERIOD          CMS order file (fixed width; flag 1 billable, 0 header)
+  --codes FILE@PERIOD          CMS code-description file (billable codes)
+  --conversion FILE            CMS conversion table (effective_date, current_code, previous_code)
+
+Without --history, billable dates come from the order and code files' periods.
+";
+
+struct Loaded {
+    name: String,
+    text: String,
+    source: Source,
+}
+
+fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildError> {
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().to_string())
+        .unwrap_or_default();
+    let raw = std::fs::read(path).map_err(|e| {
+        BuildError::file(&path.display().to_string(), format!("cannot be read ({e}); check the path"))
+    })?;
+    let sha = rollcall::sha256::hex(&rollcall::sha256::digest(&raw));
+    if let Some(sums) = sums {
+        let want = sums
+            .lines()
+            .find_map(|l| l.split_once("  ").filter(|(_, f)| *f == name).map(|(h, _)| h));
+        match want {
+            Some(h) if h == sha => {}
+            Some(h) => {
+                return Err(BuildError::file(
+                    &name,
+                    format!("SHA-256 is {sha} but SHA256SUMS says {h}; restore the file from ../shared/vocab or from git"),
+                ))
+            }
+            None => return Err(BuildError::file(&name, "is not listed in SHA256SUMS")),
+        }
+    }
+    let text = if name.ends_with(".gz") {
+        let mut s = String::new();
+        flate2::read::MultiGzDecoder::new(&raw[..])
+            .read_to_string(&mut s)
+            .map_err(|e| BuildError::file(&name, format!("is not valid gzip-compressed UTF-8 text ({e})")))?;
+        s
+    } else {
+        String::from_utf8(raw).map_err(|_| BuildError::file(&name, "is not UTF-8 text"))?
+    };
+    Ok(Loaded {
+        source: Source {
+            file: name.clone(),
+            sha256: sha,
+            role: role.to_string(),
+        },
+        name,
+        text,
+    })
+}
+
+fn period(s: &str) -> Result<Period, String> {
+    let (a, b) = s
+        .split_once("..")
+        .ok_or_else(|| format!("\"{s}\" is not a period; write FROM..TO, e.g. 2025-10-01..2026-09-30"))?;
+    let (a, b) = (Date::parse(a).map_err(|e| e.to_string())?, Date::parse(b).map_err(|e| e.to_string())?);
+    if b < a {
+        return Err(format!("period {s} ends before it starts"));
+    }
+    Ok(Period::new(a, b))
+}
+
+enum Arg {
+    History(PathBuf),
+    Tabular(PathBuf, Period),
+    Order(PathBuf, Period),
+    Codes(PathBuf, Period),
+    Conversion(PathBuf),
+}
+
+fn bundled(dir: &Path) -> Vec<Arg> {
+    let p = |a: &str, b: &str| Period::new(Date::parse(a).unwrap(), Date::parse(b).unwrap());
+    let f = |n: &str| dir.join(n);
+    vec![
+        Arg::History(f("icd10cm-history-FY2016-FY2027.tsv.gz")),
+        Arg::Tabular(f("icd10cm-tabular-2021.xml.gz"), p("2020-10-01", "2020-12-31")),
+        Arg::Order(f("icd10cm-order-2021-01.txt.gz"), p("2021-01-01", "2021-09-30")),
+        Arg::Codes(f("icd10cm-codes-FY2024.txt.gz"), p("2023-10-01", "2024-09-30")),
+        Arg::Tabular(f("icd10cm-tabular-2025-04-01.xml.gz"), p("2025-04-01", "2025-09-30")),
+        Arg::Tabular(f("icd10cm-tabular-2026-04-01.xml.gz"), p("2026-04-01", "2026-09-30")),
+        Arg::Conversion(f("icd10cm-conversion-FY2017-FY2026.tsv.gz")),
+    ]
+}
+
+fn parse_args(args: &[String]) -> Result<(Vec<Arg>, Option<PathBuf>, Option<String>), String> {
+    let mut out = Vec::new();
+    let mut dest = None;
+    let mut it = args.iter();
+    while let Some(a) = it.next() {
+        let mut val = || it.next().cloned().ok_or_else(|| format!("{a} needs a value"));
+        let dated = |v: String| -> Result<(PathBuf, Period), String> {
+            let (f, p) = v
+                .rsplit_once('@')
+                .ok_or_else(|| format!("{a} takes FILE@FROM..TO, e.g. order.txt@2024-10-01..2025-09-30"))?;
+            Ok((PathBuf::from(f), period(p)?))
+        };
+        match a.as_str() {
+            "-h" | "--help" => return Ok((Vec::new(), None, Some(HELP.to_string()))),
+            "--history" => out.push(Arg::History(val()?.into())),
+            "--conversion" => out.push(Arg::Conversion(val()?.into())),
+            "--tabular" => {
+                let (f, p) = dated(val()?)?;
+                out.push(Arg::Tabular(f, p))
+            }
+            "--order" => {
+                let (f, p) = dated(val()?)?;
+                out.push(Arg::Order(f, p))
+            }
+            "--codes" => {
+                let (f, p) = dated(val()?)?;
+                out.push(Arg::Codes(f, p))
+            }
+            "--out" => dest = Some(PathBuf::from(val()?)),
+            other => return Err(format!("unknown argument \"{other}\"; see vocab-build --help")),
+        }
+    }
+    Ok((out, dest, None))
+}
+
+fn run(args: &[String]) -> Result<(), String> {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let (mut files, dest, help) = parse_args(args)?;
+    if let Some(h) = help {
+        print!("{h}");
+        return Ok(());
+    }
+    let mut sums = None;
+    if files.is_empty() {
+        let dir = root.join("sources");
+        sums = Some(
+            std::fs::read_to_string(dir.join("SHA256SUMS"))
+                .map_err(|e| format!("{}: {e}", dir.join("SHA256SUMS").display()))?,
+        );
+        files = bundled(&dir);
+    }
+    let dest = dest.unwrap_or_else(|| root.join("..").join("vocab").join("icd10cm.rcx"));
+    let started = std::time::Instant::now();
+    let mut inp = Inputs::default();
+    let e = |e: BuildError| e.to_string();
+    for a in &files {
+        match a {
+            Arg::History(f) => {
+                let l = load(f, "billable dates and descriptions", sums.as_deref()).map_err(e)?;
+                inp.history = history::parse(&l.name, &l.text).map_err(e)?;
+                eprintln!("read {}: {} history rows", l.name, inp.history.len());
+                inp.sources.push(l.source);
+            }
+            Arg::Tabular(f, p) => {
+                let l = load(f, &format!("hierarchy in force {}..{}", p.from, p.to), sums.as_deref()).map_err(e)?;
+                let t = tabular::parse(&l.text).map_err(|x| format!("{}: {x}", l.name))?;
+                eprintln!(
+                    "read {}: version {}, {} chapters, {} sections, {} nodes, {} with 7th-character rules",
+                    l.name,
+                    t.version,
+                    t.chapters.len(),
+                    t.sections.len(),
+                    t.nodes.len(),
+                    t.nodes.iter().filter(|n| n.seventh.is_some()).count()
+                );
+                inp.tabulars.push((*p, t));
+                inp.sources.push(l.source);
+            }
+            Arg::Order(f, p) => {
+                let l = load(f, &format!("hierarchy and billable flags in force {}..{}", p.from, p.to), sums.as_deref())
+                    .map_err(e)?;
+                let rows = order::parse(&l.name, &l.text).map_err(e)?;
+                let b = rows.iter().filter(|r| r.billable).count();
+                eprintln!("read {}: {} rows, {b} billable, {} headers", l.name, rows.len(), rows.len() - b);
+                inp.orders.push((*p, rows));
+                inp.sources.push(l.source);
+            }
+            Arg::Codes(f, p) => {
+                let l = load(f, &format!("billable codes in force {}..{}", p.from, p.to), sums.as_deref()).map_err(e)?;
+                let rows = codefile::parse(&l.name, &l.text).map_err(e)?;
+                eprintln!("read {}: {} billable codes", l.name, rows.len());
+                inp.codefiles.push((*p, rows));
+                inp.sources.push(l.source);
+            }
+            Arg::Conversion(f) => {
+                let l = load(f, "successors of retired codes", sums.as_deref()).map_err(e)?;
+                inp.conversion = conversion::parse(&l.name, &l.text).map_err(e)?;
+                eprintln!("read {}: {} conversion pairs", l.name, inp.conversion.len());
+                inp.sources.push(l.source);
+            }
+        }
+    }
+    cross_check(&inp);
+    let release = assemble::assemble(inp, &mut |line| eprintln!("  {line}"));
+    let bytes = rollcall::index::write::write(&release).map_err(|x| x.to_string())?;
+    if let Some(dir) = dest.parent() {
+        std::fs::create_dir_all(dir).map_err(|x| format!("{}: {x}", dir.display()))?;
+    }
+    std::fs::write(&dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
+    eprintln!(
+        "wrote {} ({} bytes, {} entries, release {}, coverage {} to {}) in {:.1} s",
+        dest.display(),
+        bytes.len(),
+        release.codes.len(),
+        release.meta.release,
+        release.meta.coverage_from,
+        release.meta.coverage_to,
+        started.elapsed().as_secs_f64()
+    );
+    Ok(())
+}
+
+/// When the history and a dated file both say what was billable on a day,
+/// print whether they agree (they should; a difference means a wrong period).
+fn cross_check(inp: &Inputs) {
+    if inp.history.is_empty() {
+        return;
+    }
+    let on = |d: Date| -> std::collections::HashSet<&str> {
+        inp.history
+            .iter()
+            .filter(|r| r.valid.contains(d))
+            .map(|r| r.code.as_str())
+            .collect()
+    };
+    let report = |what: &str, p: &Period, file: std::collections::HashSet<&str>| {
+        let hist = on(p.from);
+        let missing = file.difference(&hist).count();
+        let extra = hist.difference(&file).count();
+        eprintln!(
+            "  cross-check {what} on {}: file {} billable, history {} ({})",
+            p.from,
+            file.len(),
+            hist.len(),
+            if missing + extra == 0 {
+                "same codes".to_string()
+            } else {
+                format!("{missing} only in the file, {extra} only in the history")
+            }
+        );
+    };
+    for (p, rows) in &inp.orders {
+        report("order file", p, rows.iter().filter(|r| r.billable).map(|r| r.code.as_str()).collect());
+    }
+    for (p, rows) in &inp.codefiles {
+        report("code file", p, rows.iter().map(|(c, _)| c.as_str()).collect());
+    }
+}
+
+fn main() -> ExitCode {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    match run(&args) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(msg) => {
+            eprintln!("vocab-build: {msg}");
+            ExitCode::from(2)
+        }
+    }
+}

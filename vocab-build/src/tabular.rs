@@ -1,0 +1,167 @@
+//! The CDC ICD-10-CM Tabular List XML: chapters, sections with their
+//! category ranges, and every `diag` node (categories, subcategories, codes)
+//! with its description and any 7th-character rule stated at it.
+
+use crate::xml::{Event, Reader, XmlError};
+use rollcall::model::{Chapter, Section};
+
+/// One `diag` element.
+#[derive(Debug, Clone)]
+pub struct Node {
+    /// Undotted code (`H211X` for `H21.1X`).
+    pub code: String,
+    /// Its `desc`.
+    pub description: String,
+    /// `sevenChrDef` extensions stated at this node.
+    pub seventh: Option<Vec<(char, String)>>,
+}
+
+/// A whole tabular file.
+#[derive(Debug, Default)]
+pub struct Tabular {
+    /// The `version` element.
+    pub version: String,
+    /// Chapters in order.
+    pub chapters: Vec<Chapter>,
+    /// Sections in order (from each chapter's section index).
+    pub sections: Vec<Section>,
+    /// Every diag node, in document order.
+    pub nodes: Vec<Node>,
+}
+
+/// Reads the tabular XML.
+pub fn parse(text: &str) -> Result<Tabular, XmlError> {
+    let mut r = Reader::new(text);
+    let mut out = Tabular::default();
+    let mut path: Vec<String> = Vec::new();
+    // Open diag nodes (index into out.nodes).
+    let mut diags: Vec<usize> = Vec::new();
+    let mut text_buf = String::new();
+    let mut section_ref: Option<(String, String)> = None;
+    let mut extension: Option<char> = None;
+    while let Some(ev) = r.next()? {
+        match ev {
+            Event::Start(name, attrs) => {
+                text_buf.clear();
+                match name {
+                    "chapter" => out.chapters.push(Chapter {
+                        name: String::new(),
+                        title: String::new(),
+                    }),
+                    "diag" => {
+                        out.nodes.push(Node {
+                            code: String::new(),
+                            description: String::new(),
+                            seventh: None,
+                        });
+                        diags.push(out.nodes.len() - 1);
+                    }
+                    "sectionRef" => {
+                        let get = |k: &str| {
+                            attrs
+                                .iter()
+                                .find(|(n, _)| *n == k)
+                                .map(|(_, v)| v.replace('.', ""))
+                                .unwrap_or_default()
+                        };
+                        section_ref = Some((get("first"), get("last")));
+                    }
+                    "sevenChrDef" => {
+                        if let Some(&d) = diags.last() {
+                            out.nodes[d].seventh = Some(Vec::new());
+                        }
+                    }
+                    "extension" => {
+                        extension = attrs
+                            .iter()
+                            .find(|(n, _)| *n == "char")
+                            .and_then(|(_, v)| v.chars().next());
+                    }
+                    _ => {}
+                }
+                path.push(name.to_string());
+            }
+            Event::Text(t) => text_buf.push_str(&t),
+            Event::End(name) => {
+                path.pop();
+                let parent = path.last().map(String::as_str);
+                let value = text_buf.split_whitespace().collect::<Vec<_>>().join(" ");
+                match (name, parent) {
+                    ("version", Some("ICD10CM.tabular")) => out.version = value,
+                    ("name", Some("chapter")) => {
+                        if let Some(c) = out.chapters.last_mut() {
+                            c.name = value;
+                        }
+                    }
+                    ("desc", Some("chapter")) => {
+                        if let Some(c) = out.chapters.last_mut() {
+                            c.title = value;
+                        }
+                    }
+                    ("name", Some("diag")) => {
+                        if let Some(&d) = diags.last() {
+                            out.nodes[d].code = value.replace('.', "").to_ascii_uppercase();
+                        }
+                    }
+                    ("desc", Some("diag")) => {
+                        if let Some(&d) = diags.last() {
+                            out.nodes[d].description = value;
+                        }
+                    }
+                    ("extension", _) => {
+                        if let (Some(ch), Some(&d)) = (extension.take(), diags.last()) {
+                            if let Some(rule) = out.nodes[d].seventh.as_mut() {
+                                rule.push((ch, value));
+                            }
+                        }
+                    }
+                    ("sectionRef", _) => {
+                        if let Some((first, last)) = section_ref.take() {
+                            out.sections.push(Section {
+                                first,
+                                last,
+                                title: value,
+                                chapter: out.chapters.len().saturating_sub(1) as u16,
+                            });
+                        }
+                    }
+                    ("diag", _) => {
+                        diags.pop();
+                    }
+                    _ => {}
+                }
+                text_buf.clear();
+            }
+        }
+    }
+    out.nodes.retain(|n| !n.code.is_empty());
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn reads_a_small_tabular() {
+        let t = parse(
+            r#"<ICD10CM.tabular><version>2026</version>
+            <chapter><name>19</name><desc>Injury (S00-T88)</desc>
+            <sectionIndex><sectionRef first="S00" last="S09" id="S00-S09">Injuries to the head</sectionRef></sectionIndex>
+            <section id="S00-S09"><desc>Injuries to the head (S00-S09)</desc>
+            <diag><name>S06</name><desc>Intracranial injury</desc>
+              <sevenChrDef><extension char="A">initial encounter</extension><extension char="S">sequela</extension></sevenChrDef>
+              <diag><name>S06.0X</name><desc>Concussion</desc></diag>
+            </diag></section></chapter></ICD10CM.tabular>"#,
+        )
+        .unwrap();
+        assert_eq!(t.version, "2026");
+        assert_eq!(t.chapters[0].name, "19");
+        assert_eq!(t.sections[0].first, "S00");
+        assert_eq!(t.sections[0].title, "Injuries to the head");
+        assert_eq!(t.nodes.len(), 2);
+        assert_eq!(t.nodes[1].code, "S060X");
+        let rule = t.nodes[0].seventh.as_ref().unwrap();
+        assert_eq!(rule[1], ('S', "sequela".to_string()));
+    }
+}
