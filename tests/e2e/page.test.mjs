@@ -1,0 +1,446 @@
+// End-to-end tests of the built page (web/dist) in Debian's Chromium via
+// playwright-core. Run through run.sh, which builds dist and the CLI first.
+//
+// Environment: DIST (built page), CLI (rollcall binary), DEMO (demo list),
+// CHROMIUM (browser path).
+import { test, before, after } from "node:test";
+import assert from "node:assert/strict";
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { chromium } from "playwright-core";
+import { serve } from "./serve.mjs";
+
+const HERE = path.dirname(new URL(import.meta.url).pathname);
+const ROOT = path.resolve(HERE, "../..");
+const DIST = process.env.DIST || path.join(ROOT, "web/dist");
+const CLI = process.env.CLI || path.join(ROOT, "target/release/rollcall");
+const DEMO = process.env.DEMO || path.join(ROOT, "demo-data/demo-list.tsv");
+const CHROMIUM = process.env.CHROMIUM || "/usr/bin/chromium";
+const OUT = path.join(HERE, "out");
+
+export const BROWSER_ARGS = [
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+  '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1',
+];
+
+let server;
+let origin;
+let context;
+let profileDir;
+const requests = [];
+
+before(async () => {
+  assert.ok(fs.existsSync(path.join(DIST, "index.html")), `no built page at ${DIST}`);
+  assert.ok(fs.existsSync(CLI), `no CLI at ${CLI}`);
+  fs.mkdirSync(OUT, { recursive: true });
+  server = await serve(DIST, 0);
+  origin = `http://127.0.0.1:${server.address().port}`;
+  profileDir = fs.mkdtempSync(path.join(os.tmpdir(), "rollcall-e2e-"));
+  context = await chromium.launchPersistentContext(profileDir, {
+    executablePath: CHROMIUM,
+    headless: true,
+    args: BROWSER_ARGS,
+    acceptDownloads: true,
+    viewport: { width: 1280, height: 1000 },
+  });
+  context.on("request", (r) => requests.push(r.url()));
+});
+
+after(async () => {
+  if (context) await context.close();
+  if (server) server.close();
+  if (profileDir) fs.rmSync(profileDir, { recursive: true, force: true });
+});
+
+// ------------------------------------------------------------- helpers --
+
+function cli(file, args) {
+  const out = execFileSync(CLI, ["check", file, "--format", "json", ...args], { encoding: "utf8", maxBuffer: 1 << 28 });
+  return JSON.parse(out);
+}
+
+/** Each finding as "line kind severity", sorted, the way the page lists them. */
+function findingKeys(report) {
+  const keys = [];
+  for (const e of report.entries) for (const f of e.findings) keys.push(`${e.line} ${f.kind} ${f.severity}`);
+  for (const f of report.list_findings) keys.push(`${f.lines[0] ?? 0} ${f.kind} ${f.severity}`);
+  return keys.sort();
+}
+
+async function openPage(query = "", fragment = "") {
+  const page = await context.newPage();
+  const errors = [];
+  page.on("pageerror", (e) => errors.push(e.message));
+  page.errors = errors;
+  await page.goto(`${origin}/${query}${fragment}`);
+  return page;
+}
+
+async function waitReady(page) {
+  await page.waitForFunction(() => ["ready", "index-error"].includes(document.body.dataset.state), null, { timeout: 30_000 });
+  const st = await page.evaluate(() => document.body.dataset.state);
+  if (st !== "ready") throw new Error(`index did not load: ${await page.textContent("#index-error")}`);
+}
+
+/** Start a check (or let typing start one) and wait until its result is shown. */
+async function checkNow(page) {
+  const before = await page.evaluate(() => Number(document.body.dataset.checked || 0));
+  await page.click("#check-now");
+  await page.waitForFunction(
+    (n) => Number(document.body.dataset.checked || 0) > n && document.body.dataset.checking === "false",
+    before,
+    { timeout: 60_000 },
+  );
+}
+
+async function setOptions(page, o) {
+  if (o.from || o.to) {
+    await page.check("#when-period");
+    await page.fill("#opt-from", o.from || "");
+    await page.fill("#opt-to", o.to || "");
+  } else {
+    await page.check("#when-on");
+    await page.fill("#opt-on", o.on || "");
+  }
+  await page.setChecked("#opt-billable", !!o.billable);
+}
+
+async function pageFindingKeys(page) {
+  // Show every row: all severities, all kinds, every page of rows.
+  await page.selectOption("#kind-filter", "");
+  for (;;) {
+    const more = await page.$("#show-more");
+    if (!more) break;
+    await more.click();
+  }
+  return (
+    await page.$$eval("#findings tbody tr[data-row]", (rows) =>
+      rows.map((r) => `${r.dataset.line} ${r.dataset.kind} ${r.dataset.severity}`),
+    )
+  ).sort();
+}
+
+async function downloadText(page, buttonId) {
+  const [dl] = await Promise.all([page.waitForEvent("download"), page.click(`#${buttonId}`)]);
+  const file = await dl.path();
+  return { name: dl.suggestedFilename(), text: fs.readFileSync(file, "utf8") };
+}
+
+function demoText() {
+  assert.ok(fs.existsSync(DEMO), `no demo list at ${DEMO}`);
+  return fs.readFileSync(DEMO, "utf8");
+}
+
+// ---------------------------------------------------------------- tests --
+
+test("the page names its caution and its source", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  const text = await page.textContent("body");
+  assert.match(
+    text.replace(/\s+/g, " "),
+    /rollcall helps assemble research code lists; it is not coding or billing advice; official coding guidelines and local policy prevail/,
+  );
+  assert.match(text, /CMS/);
+  assert.match(text, /CDC\/NCHS/);
+  assert.match(text, /public domain/);
+  const manifest = JSON.parse(fs.readFileSync(path.join(DIST, "index-manifest.json"), "utf8"));
+  assert.equal(await page.textContent("#index-release"), manifest.release);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
+
+const OPTION_SETS = [
+  { name: "default options", page: {}, cli: null },
+  { name: "a study period, billable required", page: { from: "2016-01-01", to: "2024-12-31", billable: true }, cli: ["--from", "2016-01-01", "--to", "2024-12-31", "--billable"] },
+  { name: "one day", page: { on: "2018-06-30" }, cli: ["--on", "2018-06-30"] },
+];
+
+for (const set of OPTION_SETS) {
+  test(`demo list findings equal the CLI's (${set.name})`, async () => {
+    const page = await openPage();
+    await waitReady(page);
+    await page.fill("#list", demoText());
+    await setOptions(page, set.page);
+    await checkNow(page);
+    // The default options are the index's last day; tell the CLI the same.
+    const manifest = JSON.parse(fs.readFileSync(path.join(DIST, "index-manifest.json"), "utf8"));
+    const expected = cli(DEMO, set.cli ?? ["--on", manifest.coverage_to]);
+    const summary = await page.$eval("#summary", (s) => ({ ...s.dataset }));
+    assert.deepEqual(
+      { errors: Number(summary.errors), warnings: Number(summary.warnings), infos: Number(summary.infos) },
+      { errors: expected.summary.errors, warnings: expected.summary.warnings, infos: expected.summary.infos },
+    );
+    assert.deepEqual(await pageFindingKeys(page), findingKeys(expected));
+    // The JSON download is the CLI's report, field for field.
+    const { text } = await downloadText(page, "download-json");
+    assert.deepEqual(JSON.parse(text), expected);
+    assert.deepEqual(page.errors, []);
+    if (set.name === "default options") {
+      await page.screenshot({ path: path.join(OUT, "demo.png"), fullPage: false });
+      fs.copyFileSync(path.join(OUT, "demo.png"), path.join(ROOT, "web/screenshot.png"));
+    }
+    await page.close();
+  });
+}
+
+test("a suggestion applied with one click replaces the code and the finding goes", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", demoText());
+  await checkNow(page);
+  const target = await page.$eval("#findings tbody tr[data-row]:has(button.suggestion)", (r) => ({
+    line: r.dataset.line,
+    kind: r.dataset.kind,
+    code: r.querySelector("button.suggestion code").textContent,
+  }));
+  const beforeChecked = await page.evaluate(() => Number(document.body.dataset.checked));
+  await page.click(`#findings tbody tr[data-line="${target.line}"][data-kind="${target.kind}"] button.suggestion`);
+  await page.waitForFunction((n) => Number(document.body.dataset.checked) > n && document.body.dataset.checking === "false", beforeChecked);
+  const line = (await page.inputValue("#list")).split("\n")[Number(target.line) - 1];
+  assert.ok(line.includes(target.code), `line ${target.line} is now “${line}”, without ${target.code}`);
+  const still = await page.$(`#findings tbody tr[data-line="${target.line}"][data-kind="${target.kind}"]`);
+  assert.equal(still, null, `the ${target.kind} finding on line ${target.line} is still listed`);
+  await page.close();
+});
+
+test("arrow keys move between rows and Enter applies the first suggestion", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", "I10\ne119\nE11.9");
+  await checkNow(page);
+  const rows = await page.$$("#findings tbody tr[data-row]");
+  assert.ok(rows.length >= 1, "expected findings");
+  await rows[0].focus();
+  if (rows.length > 1) {
+    await page.keyboard.press("ArrowDown");
+    assert.equal(await page.evaluate(() => document.activeElement.dataset.row), "1");
+    await page.keyboard.press("ArrowUp");
+  }
+  assert.equal(await page.evaluate(() => document.activeElement.dataset.row), "0");
+  // Go to the normalized finding on line 2 and press Enter.
+  const idx = await page.$eval('#findings tbody tr[data-kind="normalized"]', (r) => r.dataset.row);
+  for (let i = 0; i < Number(idx); i++) await page.keyboard.press("ArrowDown");
+  const n = await page.evaluate(() => Number(document.body.dataset.checked));
+  await page.keyboard.press("Enter");
+  await page.waitForFunction((k) => Number(document.body.dataset.checked) > k && document.body.dataset.checking === "false", n);
+  assert.equal((await page.inputValue("#list")).split("\n")[1], "E11.9");
+  await page.close();
+});
+
+test("apply all safe fixes changes only formatting", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", "e119\ni10\nE11.9\nZZZ99");
+  await checkNow(page);
+  const n = await page.evaluate(() => Number(document.body.dataset.checked));
+  await page.click("#apply-safe");
+  await page.waitForFunction((k) => Number(document.body.dataset.checked) > k && document.body.dataset.checking === "false", n);
+  assert.equal(await page.$('#findings tbody tr[data-kind="normalized"]'), null);
+  const lines = (await page.inputValue("#list")).split("\n");
+  assert.deepEqual([lines[0], lines[1], lines[3]], ["E11.9", "I10", "ZZZ99"]);
+  await page.close();
+});
+
+test("the FHIR ValueSet download has the R4 ValueSet shape", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", demoText());
+  await checkNow(page);
+  const { text, name } = await downloadText(page, "download-fhir");
+  assert.match(name, /\.json$/);
+  const vs = JSON.parse(text);
+  const manifest = JSON.parse(fs.readFileSync(path.join(DIST, "index-manifest.json"), "utf8"));
+  assert.equal(vs.resourceType, "ValueSet");
+  assert.ok(["draft", "active", "retired", "unknown"].includes(vs.status), "status is a ValueSet status code");
+  for (const k of ["name", "title", "description"]) if (k in vs) assert.equal(typeof vs[k], "string");
+  if ("experimental" in vs) assert.equal(typeof vs.experimental, "boolean");
+  assert.ok(Array.isArray(vs.compose.include) && vs.compose.include.length >= 1);
+  for (const inc of vs.compose.include) {
+    assert.equal(inc.system, "http://hl7.org/fhir/sid/icd-10-cm");
+    assert.equal(inc.version, manifest.release);
+    assert.ok(Array.isArray(inc.concept) && inc.concept.length > 0);
+    for (const c of inc.concept) {
+      assert.equal(typeof c.code, "string");
+      assert.match(c.code, /^[A-Z][0-9][0-9A-Z](\.[0-9A-Z]{1,4})?$/);
+      if ("display" in c) assert.equal(typeof c.display, "string");
+      assert.deepEqual(Object.keys(c).filter((k) => !["code", "display"].includes(k)), []);
+    }
+  }
+  // Every usable code the CLI sees is in the ValueSet, once.
+  const manifestDay = manifest.coverage_to;
+  const expected = cli(DEMO, ["--on", manifestDay]);
+  const codes = [...new Set(expected.entries.filter((e) => e.code && e.status !== "pattern" && !["blank", "comment", "column-headings"].includes(e.status)).map((e) => e.code))];
+  assert.deepEqual(vs.compose.include[0].concept.map((c) => c.code), codes);
+  await page.close();
+});
+
+test("the CSV download neutralises formula cells", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", "E11.9\t=HYPERLINK(\"x\")\nI10\t+1\nE10.9\t@sum\nJ45.909\t-2, with comma");
+  await checkNow(page);
+  const { text } = await downloadText(page, "download-csv");
+  const lines = text.trim().split("\r\n");
+  assert.equal(lines[0], "code,label,description,status");
+  const labelCell = (l) => l.split(",")[1];
+  assert.ok(lines[1].startsWith("E11.9,\"'=HYPERLINK(\"\"x\"\")\""), lines[1]);
+  assert.equal(labelCell(lines[2]), "'+1");
+  assert.equal(labelCell(lines[3]), "'@sum");
+  assert.ok(lines[4].startsWith("J45.909,\"'-2, with comma\""), lines[4]);
+  await page.close();
+});
+
+test("a FHIR ValueSet file becomes code and display lines", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  const vs = {
+    resourceType: "ValueSet",
+    status: "draft",
+    compose: { include: [{ system: "http://hl7.org/fhir/sid/icd-10-cm", concept: [{ code: "E11.9", display: "Type 2 diabetes" }, { code: "I10" }] }, { system: "http://snomed.info/sct", concept: [{ code: "44054006" }] }] },
+    expansion: { contains: [{ system: "http://hl7.org/fhir/sid/icd-10-cm", code: "E10.9", display: "Type 1\tdiabetes", contains: [{ code: "E11.9" }] }] },
+  };
+  const before = await page.evaluate(() => Number(document.body.dataset.checked || 0));
+  await page.setInputFiles("#file-input", { name: "list.json", mimeType: "application/json", buffer: Buffer.from(JSON.stringify(vs)) });
+  await page.waitForFunction((n) => Number(document.body.dataset.checked || 0) > n && document.body.dataset.checking === "false", before);
+  assert.equal(await page.inputValue("#list"), "E11.9\tType 2 diabetes\nI10\nE10.9\tType 1 diabetes");
+  assert.match(await page.textContent("#file-message"), /3 concept\(s\).*1 concept\(s\) from other code systems/);
+  // Not a ValueSet: a clear message, the list is left alone.
+  await page.setInputFiles("#file-input", { name: "p.json", mimeType: "application/json", buffer: Buffer.from('{"resourceType":"Patient"}') });
+  await page.waitForFunction(() => document.getElementById("file-message").textContent.includes("Patient"));
+  assert.match(await page.textContent("#file-message"), /not a ValueSet/);
+  // A CSV file with a quoted comma.
+  await page.setInputFiles("#file-input", { name: "l.csv", mimeType: "text/csv", buffer: Buffer.from('code,label\r\nE11.9,"Diabetes, type 2"\r\n') });
+  await page.waitForFunction(() => document.getElementById("list").value.startsWith("code\tlabel"));
+  assert.equal(await page.inputValue("#list"), "code\tlabel\nE11.9\tDiabetes, type 2");
+  await page.close();
+});
+
+test("a permalink restores the list and options", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  await page.fill("#list", "E11.9\tdiabetes\ne10.9\nI10");
+  await setOptions(page, { from: "2017-01-01", to: "2020-12-31", billable: true });
+  await checkNow(page);
+  await page.waitForFunction(() => /^#(z1|v1)=/.test(location.hash));
+  const url = page.url();
+  assert.ok(!url.includes("E11.9"), "the list is encoded, not plain");
+  const summary = await page.textContent("#summary");
+  await page.close();
+
+  const again = await context.newPage();
+  await again.goto(url);
+  await waitReady(again);
+  await again.waitForFunction(() => Number(document.body.dataset.checked || 0) > 0 && document.body.dataset.checking === "false");
+  assert.equal(await again.inputValue("#list"), "E11.9\tdiabetes\ne10.9\nI10");
+  assert.equal(await again.isChecked("#when-period"), true);
+  assert.equal(await again.inputValue("#opt-from"), "2017-01-01");
+  assert.equal(await again.inputValue("#opt-to"), "2020-12-31");
+  assert.equal(await again.isChecked("#opt-billable"), true);
+  assert.equal(await again.textContent("#summary"), summary);
+  await again.close();
+
+  const broken = await context.newPage();
+  await broken.goto(`${origin}/#z1=AAAA$$`);
+  await waitReady(broken);
+  assert.match(await broken.textContent("#link-status"), /could not be restored/);
+  await broken.close();
+});
+
+test("a corrupted index gives a clear message", async () => {
+  const good = fs.readFileSync(path.join(DIST, "icd10cm.rcx"));
+  const page = await context.newPage();
+  await page.route("**/icd10cm.rcx", (route) => {
+    const bad = Buffer.from(good);
+    const at = Math.floor(bad.length * 0.6);
+    bad[at] ^= 0xff;
+    route.fulfill({ status: 200, contentType: "application/octet-stream", body: bad });
+  });
+  await page.goto(`${origin}/`);
+  await page.waitForSelector("#index-error:not([hidden])");
+  const msg = await page.textContent("#index-error");
+  assert.match(msg, /cannot be used/);
+  assert.match(msg, /damaged|does not match/i);
+  assert.equal(await page.isDisabled("#check-now"), true);
+  await page.close();
+});
+
+test("a truncated or wrong index gives a clear message", async () => {
+  const good = fs.readFileSync(path.join(DIST, "icd10cm.rcx"));
+  const page = await context.newPage();
+  await page.route("**/icd10cm.rcx", (route) => route.fulfill({ status: 200, body: good.subarray(0, 100) }));
+  await page.goto(`${origin}/`);
+  await page.waitForSelector("#index-error:not([hidden])");
+  assert.match(await page.textContent("#index-error"), /cannot (be used|open)/);
+  await page.close();
+
+  const notIndex = await context.newPage();
+  await notIndex.route("**/icd10cm.rcx", (route) => route.fulfill({ status: 200, body: Buffer.from("this is not an index file at all, just text ".repeat(20)) }));
+  await notIndex.goto(`${origin}/`);
+  await notIndex.waitForSelector("#index-error:not([hidden])");
+  assert.match(await notIndex.textContent("#index-error"), /cannot open the index/);
+  await notIndex.close();
+});
+
+test("a missing index gives a clear message", async () => {
+  const page = await openPage("?index=no-such-index.rcx");
+  await page.waitForSelector("#index-error:not([hidden])");
+  assert.match(await page.textContent("#index-error"), /no-such-index\.rcx.*missing.*404/);
+  await page.close();
+  const odd = await openPage("?index=../secret");
+  await odd.waitForSelector("#index-error:not([hidden])");
+  assert.match(await odd.textContent("#index-error"), /not an index file name/);
+  await odd.close();
+});
+
+test("100,000 lines are checked while the page keeps answering", async () => {
+  const page = await openPage();
+  await waitReady(page);
+  const base = demoText().split("\n").filter((l) => l.trim() && !l.startsWith("#"));
+  const lines = [];
+  for (let i = 0; lines.length < 100_000; i++) lines.push(base[i % base.length]);
+  await page.evaluate((t) => {
+    document.getElementById("list").value = t;
+  }, lines.join("\n"));
+  // Count main-thread timer ticks while the worker checks.
+  await page.evaluate(() => {
+    window.__ticks = [];
+    window.__tick = setInterval(() => window.__ticks.push(performance.now()), 10);
+  });
+  const t0 = await page.evaluate(() => performance.now());
+  const before = await page.evaluate(() => Number(document.body.dataset.checked || 0));
+  await page.click("#check-now");
+  // While checking, the page still takes input in another field.
+  await page.click("#opt-on");
+  await page.keyboard.type("01012020");
+  const typed = await page.inputValue("#opt-on");
+  await page.waitForFunction((n) => Number(document.body.dataset.checked || 0) > n && document.body.dataset.checking === "false", before, { timeout: 120_000 });
+  const { ticks, checkMs } = await page.evaluate(() => {
+    clearInterval(window.__tick);
+    return { ticks: window.__ticks, checkMs: Number(document.body.dataset.checkMs) };
+  });
+  assert.equal(typed, "2020-01-01");
+  const summary = await page.$eval("#summary", (s) => ({ ...s.dataset }));
+  assert.ok(Number(summary.errors) + Number(summary.warnings) + Number(summary.infos) > 0);
+  assert.match(await page.textContent("#check-status"), /Checked 100,000 lines/);
+  // Ticks kept coming during the worker's check time.
+  const during = ticks.filter((t) => t > t0 && t < t0 + checkMs);
+  assert.ok(during.length >= Math.floor(checkMs / 40), `only ${during.length} timer ticks in ${checkMs.toFixed(0)} ms of checking`);
+  console.log(`# 100,000 lines: ${checkMs.toFixed(0)} ms in the worker, ${during.length} main-thread ticks meanwhile`);
+  await page.close();
+});
+
+test("no request leaves the page's origin", async () => {
+  assert.ok(requests.length > 0);
+  const foreign = requests.filter((u) => !(u.startsWith(origin + "/") || u.startsWith("blob:" + origin) || u.startsWith("data:")));
+  assert.deepEqual(foreign, []);
+});

@@ -1,0 +1,13 @@
+#!/usr/bin/env bash
+# End-to-end tests of the page: build the CLI and the page, then drive the
+# page in Debian's Chromium (playwright-core; no browser download) against a
+# local static server. Exits non-zero on any failure.
+set -euo pipefail
+E2E=$(cd "$(dirname "$0")" && pwd)
+ROOT=$(cd "$E2E/../.." && pwd)
+cd "$E2E"
+[ -d node_modules/playwright-core ] || npm ci --no-audit --no-fund
+(cd "$ROOT" && cargo build --release --quiet -p rollcall --bin rollcall)
+bash "$ROOT/web/build.sh"
+mkdir -p out
+node --test --test-concurrency=1 --test-reporter=spec page.test.mjs

@@ -1,0 +1,621 @@
+// The page: loads the index into the worker, checks the list as you type,
+// shows findings, pictures and exports. Plain DOM, no framework.
+
+import { fileToLines } from "./inputs.js";
+import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
+import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
+import { encodeState, decodeState } from "./permalink.js";
+
+const $ = (id) => document.getElementById(id);
+const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
+const SEVERITY_ICON = { error: "✖", warning: "▲", info: "●" };
+const ROW_PAGE = 500;
+const STRIP_LIMIT = 150;
+const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
+
+// ---------------------------------------------------------------- worker --
+
+const worker = new Worker("./worker.js");
+const pending = new Map();
+let nextId = 1;
+
+worker.onmessage = (event) => {
+  const { id, ok, result, error } = event.data;
+  const p = pending.get(id);
+  if (!p) return;
+  pending.delete(id);
+  if (ok) p.resolve(result);
+  else p.reject(new Error(error));
+};
+worker.onerror = (event) => {
+  const msg = event.message || "the checker could not start";
+  for (const p of pending.values()) p.reject(new Error(msg));
+  pending.clear();
+  showIndexError(`The checker could not start: ${msg}`);
+};
+
+function ask(type, payload, transfer = []) {
+  const id = nextId++;
+  return new Promise((resolve, reject) => {
+    pending.set(id, { resolve, reject });
+    worker.postMessage({ id, type, ...payload }, transfer);
+  });
+}
+
+// ---------------------------------------------------------------- state --
+
+const state = {
+  info: null,
+  report: null,
+  coverage: [],
+  rows: [], // findings rows after filtering
+  shown: ROW_PAGE,
+  seq: 0,
+  timer: 0,
+};
+
+// ----------------------------------------------------------- index load --
+
+function showIndexError(text) {
+  $("index-loading").hidden = true;
+  const box = $("index-error");
+  box.hidden = false;
+  box.innerHTML = `<strong><span aria-hidden="true">✖</span> The index cannot be used.</strong> ${esc(text)}`;
+  document.body.dataset.state = "index-error";
+}
+
+function formatBytes(n) {
+  if (n >= 1e6) return `${(n / 1e6).toFixed(1)} MB`;
+  if (n >= 1e3) return `${(n / 1e3).toFixed(0)} kB`;
+  return `${n} bytes`;
+}
+
+function indexFileName(manifest) {
+  const asked = new URLSearchParams(location.search).get("index");
+  if (asked !== null) {
+    if (!/^[A-Za-z0-9][A-Za-z0-9._-]*\.rcx$/.test(asked)) {
+      throw new Error(`“${asked}” is not an index file name this page will load (expected a name like icd10cm.rcx)`);
+    }
+    return asked;
+  }
+  return manifest.file || "icd10cm.rcx";
+}
+
+async function fetchIndex(name, expected) {
+  let res;
+  try {
+    res = await fetch(name, { cache: "no-cache" });
+  } catch (e) {
+    throw new Error(`the index file “${name}” could not be fetched (${e.message}).`);
+  }
+  if (!res.ok) throw new Error(`the index file “${name}” is missing (the server answered ${res.status}).`);
+  const total = expected || Number(res.headers.get("content-length")) || 0;
+  const bar = $("index-progress");
+  const text = $("index-progress-text");
+  if (!res.body) {
+    const buf = new Uint8Array(await res.arrayBuffer());
+    bar.value = 1;
+    return buf;
+  }
+  const reader = res.body.getReader();
+  const chunks = [];
+  let got = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    chunks.push(value);
+    got += value.length;
+    if (total) bar.value = Math.min(got / total, 1);
+    text.textContent = total ? `${formatBytes(got)} of ${formatBytes(total)}` : formatBytes(got);
+  }
+  const bytes = new Uint8Array(got);
+  let at = 0;
+  for (const c of chunks) {
+    bytes.set(c, at);
+    at += c.length;
+  }
+  return bytes;
+}
+
+async function loadIndex() {
+  let manifest;
+  try {
+    const res = await fetch("index-manifest.json", { cache: "no-cache" });
+    if (!res.ok) throw new Error(`the server answered ${res.status}`);
+    manifest = await res.json();
+  } catch (e) {
+    throw new Error(`the index manifest (index-manifest.json) could not be read: ${e.message}.`);
+  }
+  if (!manifest || typeof manifest.sha256 !== "string" || typeof manifest.byte_length !== "number") {
+    throw new Error("the index manifest (index-manifest.json) is not in the expected form.");
+  }
+  const name = indexFileName(manifest);
+  const bytes = await fetchIndex(name, manifest.byte_length);
+  let info;
+  try {
+    info = await ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
+  } catch (e) {
+    let msg = e.message.replace(/^Error: /, "");
+    if (bytes.byteLength === 0 && manifest.byte_length) msg += ` (the file arrived empty; ${formatBytes(manifest.byte_length)} were expected)`;
+    throw new Error(`${msg.charAt(0).toUpperCase()}${msg.slice(1)}`);
+  }
+  return info;
+}
+
+function showIndexReady(info) {
+  state.info = info;
+  $("index-loading").hidden = true;
+  const p = $("index-ready");
+  p.hidden = false;
+  p.innerHTML =
+    `<span aria-hidden="true">✓</span> ${esc(info.title)} index, release <strong id="index-release">${esc(info.release)}</strong>, ` +
+    `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> ` +
+    `<span class="hint">(${formatBytes(info.byte_length)}, SHA-256 ${esc(info.sha256.slice(0, 12))}…, matches its manifest)</span>`;
+  for (const id of ["opt-on", "opt-from", "opt-to"]) {
+    $(id).min = info.coverage_from;
+    $(id).max = info.coverage_to;
+  }
+  $("on-hint").textContent = `Empty means ${info.coverage_to}, the last day the index covers.`;
+  $("source-files").textContent = info.sources.length
+    ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.`
+    : "";
+  $("check-now").disabled = false;
+  document.body.dataset.state = "ready";
+  performance.mark("rollcall-ready");
+}
+
+// --------------------------------------------------------------- options --
+
+function readOptions() {
+  const mode = $("when-period").checked ? "period" : "on";
+  return {
+    mode,
+    on: $("opt-on").value,
+    from: $("opt-from").value,
+    to: $("opt-to").value,
+    billable: $("opt-billable").checked,
+  };
+}
+
+function checkerOptions(o) {
+  if (o.mode === "period") return { from: o.from || null, to: o.to || null, billable: o.billable };
+  return { on: o.on || null, billable: o.billable };
+}
+
+function writeOptions(o) {
+  $("when-period").checked = o.mode === "period";
+  $("when-on").checked = o.mode !== "period";
+  $("opt-on").value = o.on || "";
+  $("opt-from").value = o.from || "";
+  $("opt-to").value = o.to || "";
+  $("opt-billable").checked = !!o.billable;
+  syncModeFields();
+}
+
+function syncModeFields() {
+  const period = $("when-period").checked;
+  $("on-fields").hidden = period;
+  $("period-fields").hidden = !period;
+}
+
+// ---------------------------------------------------------------- check --
+
+function scheduleCheck() {
+  clearTimeout(state.timer);
+  state.timer = setTimeout(runCheck, 250);
+}
+
+async function runCheck() {
+  clearTimeout(state.timer);
+  if (!state.info) return;
+  const seq = ++state.seq;
+  const text = $("list").value;
+  const opts = readOptions();
+  document.body.dataset.checking = "true";
+  $("check-status").textContent = "Checking…";
+  try {
+    const result = await ask("check", { text, options: checkerOptions(opts) });
+    if (seq !== state.seq) return; // a newer check is on its way
+    $("options-error").hidden = true;
+    state.report = result.report;
+    state.coverage = result.coverage;
+    render();
+    const n = result.report.summary.lines;
+    $("check-status").textContent = `Checked ${n.toLocaleString("en-US")} line${n === 1 ? "" : "s"} in ${result.checkMs.toFixed(0)} ms.`;
+    document.body.dataset.checkMs = String(result.checkMs);
+    updateLink(text, opts);
+    requestStrips(result.report);
+  } catch (e) {
+    if (seq !== state.seq) return;
+    const box = $("options-error");
+    box.hidden = false;
+    box.textContent = `Could not check: ${e.message.replace(/^Error: /, "")}`;
+    $("check-status").textContent = "";
+  } finally {
+    if (seq === state.seq) {
+      document.body.dataset.checking = "false";
+      document.body.dataset.checked = String(seq);
+    }
+  }
+}
+
+// ------------------------------------------------------------- findings --
+
+function findingRows(report) {
+  const rows = [];
+  for (const e of report.entries) {
+    for (const f of e.findings) {
+      rows.push({ line: e.line, lines: [e.line], input: e.input, entry: e, ...pick(f) });
+    }
+  }
+  for (const f of report.list_findings) {
+    rows.push({ line: f.lines[0] ?? 0, lines: f.lines, input: f.codes.join(", "), entry: null, ...pick(f) });
+  }
+  rows.sort((a, b) => a.line - b.line);
+  return rows;
+}
+
+function pick(f) {
+  return { kind: f.kind, severity: f.severity, message: f.message, suggestions: f.suggestions || [] };
+}
+
+function plural(n, word) {
+  return `${n.toLocaleString("en-US")} ${word}${n === 1 ? "" : "s"}`;
+}
+
+function render() {
+  const r = state.report;
+  const s = r.summary;
+  const summary = $("summary");
+  summary.dataset.errors = s.errors;
+  summary.dataset.warnings = s.warnings;
+  summary.dataset.infos = s.infos;
+  summary.innerHTML =
+    `<span class="sev sev-error"><span aria-hidden="true">✖</span> ${plural(s.errors, "error")}</span> · ` +
+    `<span class="sev sev-warning"><span aria-hidden="true">▲</span> ${plural(s.warnings, "warning")}</span> · ` +
+    `<span class="sev sev-info"><span aria-hidden="true">●</span> ${s.infos.toLocaleString("en-US")} info</span>` +
+    ` <span class="hint">in ${s.entries.toLocaleString("en-US")} code ${s.entries === 1 ? "entry" : "entries"} on ${plural(s.lines, "line")}; ` +
+    `checked ${r.options.from === r.options.to ? `on ${esc(r.options.from)}` : `from ${esc(r.options.from)} to ${esc(r.options.to)}`}` +
+    `${r.options.billable ? ", billable codes required" : ""}.</span>`;
+
+  const all = findingRows(r);
+  const kinds = new Map();
+  for (const row of all) kinds.set(row.kind, (kinds.get(row.kind) || 0) + 1);
+  const sel = $("kind-filter");
+  const keep = sel.value;
+  sel.innerHTML =
+    `<option value="">all kinds (${all.length})</option>` +
+    [...kinds].sort().map(([k, n]) => `<option value="${esc(k)}">${esc(k)} (${n})</option>`).join("");
+  sel.value = kinds.has(keep) ? keep : "";
+  state.allRows = all;
+  state.shown = ROW_PAGE;
+  renderRows();
+  $("apply-safe").disabled = !all.some((x) => x.kind === "normalized" && x.entry && x.suggestions.length);
+  renderCleaned();
+  renderCoverage();
+}
+
+function renderRows() {
+  const sevs = new Set([...document.querySelectorAll(".sev-filter")].filter((c) => c.checked).map((c) => c.value));
+  const kind = $("kind-filter").value;
+  const rows = state.allRows.filter((x) => sevs.has(x.severity) && (!kind || x.kind === kind));
+  state.rows = rows;
+  const body = $("findings").tBodies[0];
+  const shown = rows.slice(0, state.shown);
+  body.innerHTML = shown
+    .map((x, i) => {
+      const sugg = x.suggestions
+        .map(
+          (sg, j) =>
+            `<button type="button" class="suggestion" data-row="${i}" data-sugg="${j}" tabindex="-1" ` +
+            `title="${esc(sg.reason)}">Use <code>${esc(sg.code)}</code></button>` +
+            `<span class="sugg-desc">${esc(sg.description)}${sg.reason ? ` — ${esc(sg.reason)}` : ""}</span>`,
+        )
+        .join("");
+      const lines = x.lines.length > 1 ? x.lines.join(", ") : String(x.line);
+      return (
+        `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${x.severity}">` +
+        `<td class="num">${lines}</td><td><code>${esc(x.input)}</code></td>` +
+        `<td><span class="sev sev-${x.severity}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
+        `<td>${esc(x.kind)}</td><td>${esc(x.message)}</td><td class="suggs">${sugg || '<span class="hint">—</span>'}</td></tr>`
+      );
+    })
+    .join("");
+  if (!rows.length) {
+    body.innerHTML = `<tr><td colspan="6" class="hint">${state.allRows.length ? "No findings match the filter." : "No findings: every entry is fine for these options."}</td></tr>`;
+  }
+  const more = $("findings-more");
+  if (rows.length > shown.length) {
+    more.hidden = false;
+    more.innerHTML = `Showing ${shown.length.toLocaleString("en-US")} of ${rows.length.toLocaleString("en-US")} findings. <button type="button" id="show-more">Show ${Math.min(ROW_PAGE, rows.length - shown.length)} more</button>`;
+  } else {
+    more.hidden = true;
+  }
+}
+
+// -------------------------------------------------------- applying fixes --
+
+/** Replace the code on input line `lineNo` (1-based) with `code`. */
+function replaceOnLine(lines, lineNo, input, code) {
+  const i = lineNo - 1;
+  if (i < 0 || i >= lines.length) return false;
+  const line = lines[i];
+  const at = input ? line.indexOf(input) : -1;
+  if (at >= 0) {
+    lines[i] = line.slice(0, at) + code + line.slice(at + input.length);
+  } else {
+    // Fall back to the first cell of the line.
+    const m = /^(\s*)([^\t,;|]*)(.*)$/.exec(line);
+    lines[i] = m[1] + code + m[3];
+  }
+  return true;
+}
+
+function applySuggestion(row, sugg) {
+  const ta = $("list");
+  const lines = ta.value.split("\n");
+  const input = row.entry ? row.entry.input : null;
+  let target = row.line;
+  let from = input;
+  if (!row.entry) {
+    // A finding about several lines: the suggestion takes the first line's place.
+    const first = state.report.entries.find((e) => e.line === row.lines[0]);
+    from = first ? first.input : null;
+    target = row.lines[0];
+  }
+  if (!replaceOnLine(lines, target, from, sugg.code)) return;
+  ta.value = lines.join("\n");
+  $("check-status").textContent = `Line ${target}: now ${sugg.code}. Checking…`;
+  runCheck();
+}
+
+function applySafeFixes() {
+  const ta = $("list");
+  const lines = ta.value.split("\n");
+  let n = 0;
+  for (const row of state.allRows) {
+    if (row.kind !== "normalized" || !row.entry || !row.suggestions.length) continue;
+    if (replaceOnLine(lines, row.line, row.entry.input, row.suggestions[0].code)) n++;
+  }
+  ta.value = lines.join("\n");
+  $("check-status").textContent = `Applied ${plural(n, "formatting fix")}. Checking…`;
+  runCheck();
+}
+
+// ---------------------------------------------------------- cleaned list --
+
+function renderCleaned() {
+  const rows = cleanedRows(state.report);
+  state.cleaned = rows;
+  const body = $("cleaned").tBodies[0];
+  const shown = rows.slice(0, 300);
+  body.innerHTML =
+    shown
+      .map((r) => `<tr><td><code>${esc(r.code)}</code></td><td>${esc(r.label)}</td><td>${esc(r.description)}</td><td>${esc(r.status)}</td></tr>`)
+      .join("") +
+    (rows.length > shown.length ? `<tr><td colspan="4" class="hint">… and ${(rows.length - shown.length).toLocaleString("en-US")} more in the downloads.</td></tr>` : "") +
+    (rows.length ? "" : '<tr><td colspan="4" class="hint">No usable codes yet.</td></tr>');
+  for (const id of ["copy-csv", "download-csv", "download-json", "download-fhir"]) $(id).disabled = false;
+}
+
+function exportStatus(text) {
+  $("export-status").textContent = text;
+}
+
+// --------------------------------------------------------------- pictures --
+
+async function requestStrips(report) {
+  const seq = state.seq;
+  const codes = [];
+  const seen = new Set();
+  for (const e of report.entries) {
+    if (e.code == null || e.status === "pattern" || seen.has(e.code)) continue;
+    seen.add(e.code);
+    codes.push(e.code);
+    if (codes.length >= STRIP_LIMIT) break;
+  }
+  let map = {};
+  try {
+    map = codes.length ? await ask("timelines", { codes }) : {};
+  } catch (e) {
+    $("strips").innerHTML = `<p class="problem">Could not draw the strips: ${esc(e.message)}</p>`;
+    return;
+  }
+  if (seq !== state.seq) return;
+  ensureDefs();
+  const cov = { from: state.info.coverage_from, to: state.info.coverage_to };
+  const period = { from: report.options.from, to: report.options.to };
+  const total = seen.size;
+  $("strips").innerHTML =
+    codes
+      .map((c) => {
+        const spans = map[c] ?? null;
+        const words = stripWords(spans);
+        return `<div class="strip-row" data-code="${esc(c)}" role="img" aria-label="${esc(c)}: ${esc(words)}">` +
+          `<code class="strip-code">${esc(c)}</code>${stripSvg(spans, cov, period)}<span class="strip-words">${esc(words)}</span></div>`;
+      })
+      .join("") +
+    (codes.length === 0 ? '<p class="hint">No codes to draw yet.</p>' : "") +
+    (total > codes.length ? `<p class="hint">The first ${codes.length} codes are drawn.</p>` : "");
+}
+
+function renderCoverage() {
+  const rows = state.coverage || [];
+  $("coverage").innerHTML = rows.length
+    ? rows.map(coverageRow).join("")
+    : '<p class="hint">No categories yet.</p>';
+}
+
+// ---------------------------------------------------------------- link --
+
+async function updateLink(text, opts) {
+  const status = $("link-status");
+  if (text.length > LINK_LIMIT * 4) {
+    status.textContent = "This list is too long to keep in a link.";
+    return;
+  }
+  const frag = await encodeState({ text, options: opts });
+  if (frag.length > LINK_LIMIT) {
+    status.textContent = "This list is too long to keep in a link.";
+    return;
+  }
+  history.replaceState(null, "", `${location.pathname}${location.search}#${frag}`);
+  status.textContent = "";
+}
+
+async function restoreLink() {
+  try {
+    const s = await decodeState(location.hash);
+    if (!s) return false;
+    $("list").value = s.text;
+    writeOptions(s.options);
+    $("link-status").textContent = "List and options restored from the link.";
+    return true;
+  } catch (e) {
+    $("link-status").textContent = `This link's list could not be restored: ${e.message}.`;
+    return false;
+  }
+}
+
+// ---------------------------------------------------------------- files --
+
+async function takeFile(file) {
+  const msg = $("file-message");
+  try {
+    if (file.size > 50 * 1024 * 1024) throw new Error(`“${file.name}” is larger than 50 MB`);
+    const { text, note } = fileToLines(file.name, await file.text());
+    $("list").value = text;
+    msg.className = "file-message";
+    msg.textContent = note;
+    runCheck();
+  } catch (e) {
+    msg.className = "file-message problem";
+    msg.textContent = `Could not read the file: ${e.message}.`;
+  }
+}
+
+// ---------------------------------------------------------------- wiring --
+
+function wire() {
+  $("list").addEventListener("input", scheduleCheck);
+  for (const id of ["opt-on", "opt-from", "opt-to", "opt-billable"]) $(id).addEventListener("change", scheduleCheck);
+  for (const id of ["when-on", "when-period"])
+    $(id).addEventListener("change", () => {
+      syncModeFields();
+      scheduleCheck();
+    });
+  $("check-now").addEventListener("click", runCheck);
+  $("apply-safe").addEventListener("click", applySafeFixes);
+  for (const c of document.querySelectorAll(".sev-filter")) c.addEventListener("change", renderRows);
+  $("kind-filter").addEventListener("change", renderRows);
+  $("findings-more").addEventListener("click", (e) => {
+    if (e.target.id === "show-more") {
+      state.shown += ROW_PAGE;
+      renderRows();
+    }
+  });
+
+  const body = $("findings").tBodies[0];
+  body.addEventListener("click", (e) => {
+    const b = e.target.closest("button.suggestion");
+    if (!b) return;
+    const row = state.rows[Number(b.dataset.row)];
+    if (row) applySuggestion(row, row.suggestions[Number(b.dataset.sugg)]);
+  });
+  body.addEventListener("keydown", (e) => {
+    const tr = e.target.closest("tr[data-row]");
+    if (!tr) return;
+    const rows = [...body.querySelectorAll("tr[data-row]")];
+    const i = rows.indexOf(tr);
+    let next = -1;
+    if (e.key === "ArrowDown") next = Math.min(i + 1, rows.length - 1);
+    else if (e.key === "ArrowUp") next = Math.max(i - 1, 0);
+    else if (e.key === "Home") next = 0;
+    else if (e.key === "End") next = rows.length - 1;
+    else if (e.key === "Enter" && e.target === tr) {
+      const row = state.rows[Number(tr.dataset.row)];
+      if (row && row.suggestions.length) {
+        e.preventDefault();
+        applySuggestion(row, row.suggestions[0]);
+      }
+      return;
+    }
+    if (next >= 0) {
+      e.preventDefault();
+      tr.tabIndex = -1;
+      rows[next].tabIndex = 0;
+      rows[next].focus();
+    }
+  });
+
+  $("copy-csv").addEventListener("click", async () => {
+    try {
+      await navigator.clipboard.writeText(toCsv(state.cleaned));
+      exportStatus(`Copied ${plural(state.cleaned.length, "code")} as CSV.`);
+    } catch (e) {
+      exportStatus(`Could not copy (${e.message}); use Download CSV instead.`);
+    }
+  });
+  $("download-csv").addEventListener("click", () => {
+    download("code-list.csv", "text/csv", toCsv(state.cleaned));
+    exportStatus(`Saved ${plural(state.cleaned.length, "code")} as CSV.`);
+  });
+  $("download-json").addEventListener("click", () => {
+    download("rollcall-report.json", "application/json", toJsonReport(state.report));
+    exportStatus("Saved the JSON report.");
+  });
+  $("download-fhir").addEventListener("click", () => {
+    const { resource, leftOut } = toValueSet(state.cleaned, state.report);
+    download("code-list.valueset.json", "application/fhir+json", JSON.stringify(resource, null, 2) + "\n");
+    exportStatus(`Saved the FHIR ValueSet (${plural(resource.compose.include[0].concept.length, "concept")})${leftOut ? `; ${plural(leftOut, "pattern")} left out` : ""}.`);
+  });
+  $("copy-link").addEventListener("click", async () => {
+    await updateLink($("list").value, readOptions());
+    try {
+      await navigator.clipboard.writeText(location.href);
+      $("link-status").textContent = "Link copied.";
+    } catch {
+      $("link-status").textContent = "Copy the address from the address bar.";
+    }
+  });
+
+  const zone = $("drop-zone");
+  zone.addEventListener("dragover", (e) => {
+    e.preventDefault();
+    zone.classList.add("dragging");
+  });
+  zone.addEventListener("dragleave", () => zone.classList.remove("dragging"));
+  zone.addEventListener("drop", (e) => {
+    e.preventDefault();
+    zone.classList.remove("dragging");
+    const f = e.dataTransfer && e.dataTransfer.files[0];
+    if (f) takeFile(f);
+  });
+  $("file-input").addEventListener("change", (e) => {
+    const f = e.target.files[0];
+    if (f) takeFile(f);
+    e.target.value = "";
+  });
+  window.addEventListener("hashchange", async () => {
+    if (await restoreLink()) runCheck();
+  });
+}
+
+async function main() {
+  document.body.dataset.state = "loading";
+  wire();
+  syncModeFields();
+  const restored = restoreLink();
+  let info;
+  try {
+    info = await loadIndex();
+  } catch (e) {
+    showIndexError(e.message);
+    return;
+  }
+  showIndexReady(info);
+  await restored;
+  if ($("list").value.trim()) runCheck();
+}
+
+main();

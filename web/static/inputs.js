@@ -1,0 +1,135 @@
+// Turning files into the plain lines the checker reads: one entry per line,
+// code first, an optional label after a tab.
+
+export const FHIR_ICD10CM = "http://hl7.org/fhir/sid/icd-10-cm";
+
+/** Parse CSV text (RFC 4180 quoting) into rows of cells. */
+export function parseCsv(text) {
+  const rows = [];
+  let row = [];
+  let cell = "";
+  let quoted = false;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i];
+    if (quoted) {
+      if (ch === '"') {
+        if (text[i + 1] === '"') {
+          cell += '"';
+          i++;
+        } else {
+          quoted = false;
+        }
+      } else {
+        cell += ch;
+      }
+    } else if (ch === '"' && cell === "") {
+      quoted = true;
+    } else if (ch === ",") {
+      row.push(cell);
+      cell = "";
+    } else if (ch === "\n" || ch === "\r") {
+      if (ch === "\r" && text[i + 1] === "\n") i++;
+      row.push(cell);
+      rows.push(row);
+      row = [];
+      cell = "";
+    } else {
+      cell += ch;
+    }
+  }
+  if (quoted) throw new Error("the CSV file ends inside a quoted cell");
+  if (cell !== "" || row.length) {
+    row.push(cell);
+    rows.push(row);
+  }
+  return rows;
+}
+
+/** A cell made safe to sit in a tab-separated line. */
+function flat(value) {
+  return String(value ?? "").replace(/[\t\r\n]+/g, " ").trim();
+}
+
+/**
+ * The concepts of a FHIR ValueSet as "code<TAB>display" lines: those of
+ * compose.include[].concept[] and expansion.contains[] (nested too), each
+ * code once. Concepts of other code systems are left out and counted.
+ */
+export function valueSetToLines(vs) {
+  if (!vs || typeof vs !== "object" || Array.isArray(vs)) {
+    throw new Error("the JSON file is not a FHIR resource");
+  }
+  if (vs.resourceType !== "ValueSet") {
+    throw new Error(`the JSON file is a FHIR ${vs.resourceType ? `“${vs.resourceType}”` : "resource without resourceType"}, not a ValueSet`);
+  }
+  const seen = new Set();
+  const lines = [];
+  const otherSystems = new Set();
+  let skipped = 0;
+  const add = (system, code, display) => {
+    if (system && system !== FHIR_ICD10CM) {
+      otherSystems.add(system);
+      skipped++;
+      return;
+    }
+    const c = flat(code);
+    if (!c || seen.has(c)) return;
+    seen.add(c);
+    const d = flat(display);
+    lines.push(d ? `${c}\t${d}` : c);
+  };
+  const includes = vs.compose && Array.isArray(vs.compose.include) ? vs.compose.include : [];
+  let filtersOnly = 0;
+  for (const inc of includes) {
+    if (!inc || typeof inc !== "object") continue;
+    if (!Array.isArray(inc.concept)) {
+      if (inc.filter || inc.valueSet) filtersOnly++;
+      continue;
+    }
+    for (const c of inc.concept) if (c && typeof c === "object") add(inc.system, c.code, c.display);
+  }
+  const walk = (items) => {
+    if (!Array.isArray(items)) return;
+    for (const c of items) {
+      if (!c || typeof c !== "object") continue;
+      if (c.code !== undefined && !c.abstract) add(c.system, c.code, c.display);
+      walk(c.contains);
+    }
+  };
+  if (vs.expansion) walk(vs.expansion.contains);
+  const notes = [];
+  if (skipped) notes.push(`${skipped} concept(s) from other code systems left out (${[...otherSystems].join(", ")})`);
+  if (filtersOnly) notes.push(`${filtersOnly} include rule(s) given by filter or other value set cannot be read`);
+  if (vs.compose && Array.isArray(vs.compose.exclude) && vs.compose.exclude.length) notes.push("compose.exclude is not applied");
+  if (!lines.length) throw new Error("the ValueSet lists no ICD-10-CM concepts (compose.include[].concept or expansion.contains)");
+  return { text: lines.join("\n"), notes };
+}
+
+/**
+ * Turn the text of a dropped or opened file into checker lines.
+ * Returns {text, note}; throws an Error with a readable message.
+ */
+export function fileToLines(name, raw) {
+  const lower = String(name || "").toLowerCase();
+  const text = String(raw).replace(/^\uFEFF/, "");
+  if (text.includes("\u0000")) throw new Error(`“${name}” is not a text file`);
+  const looksJson = /^\s*[{[]/.test(text);
+  if (lower.endsWith(".json") || (looksJson && !lower.match(/\.(csv|tsv|txt)$/))) {
+    let vs;
+    try {
+      vs = JSON.parse(text);
+    } catch (e) {
+      throw new Error(`“${name}” is not valid JSON: ${e.message}`);
+    }
+    const { text: lines, notes } = valueSetToLines(vs);
+    const count = lines.split("\n").length;
+    return { text: lines, note: `Read ${count} concept(s) from the FHIR ValueSet “${name}”.${notes.length ? " " + notes.join("; ") + "." : ""}` };
+  }
+  if (lower.endsWith(".csv")) {
+    const rows = parseCsv(text);
+    const lines = rows.map((r) => r.map(flat).join("\t").replace(/\t+$/, ""));
+    return { text: lines.join("\n"), note: `Read ${rows.length} row(s) from the CSV file “${name}”.` };
+  }
+  const lines = text.replace(/\r\n?/g, "\n").replace(/\n$/, "");
+  return { text: lines, note: `Read ${lines === "" ? 0 : lines.split("\n").length} line(s) from “${name}”.` };
+}

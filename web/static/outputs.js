@@ -1,0 +1,95 @@
+// What the page hands back: the cleaned list as CSV, the report as JSON (the
+// CLI's schema, untouched) and the list as a FHIR R4 ValueSet.
+
+import { FHIR_ICD10CM } from "./inputs.js";
+
+const SKIPPED = new Set(["blank", "comment", "column-headings"]);
+
+/** Each usable code once, in input order: {code, label, description, status, line}. */
+export function cleanedRows(report) {
+  const seen = new Set();
+  const rows = [];
+  for (const e of report.entries) {
+    if (SKIPPED.has(e.status) || e.code == null) continue;
+    if (seen.has(e.code)) continue;
+    seen.add(e.code);
+    rows.push({
+      code: e.code,
+      label: e.label ?? "",
+      description: e.description ?? "",
+      status: e.status,
+      line: e.line,
+    });
+  }
+  return rows;
+}
+
+/**
+ * One CSV cell. A cell that a spreadsheet would read as a formula (starting
+ * with =, +, -, @, tab or carriage return) gets a leading apostrophe.
+ */
+export function csvCell(value) {
+  let s = String(value ?? "");
+  if (/^[=+\-@\t\r]/.test(s)) s = "'" + s;
+  if (/[",\r\n]/.test(s)) s = '"' + s.replace(/"/g, '""') + '"';
+  return s;
+}
+
+export function toCsv(rows) {
+  const out = ["code,label,description,status"];
+  for (const r of rows) out.push([r.code, r.label, r.description, r.status].map(csvCell).join(","));
+  return out.join("\r\n") + "\r\n";
+}
+
+/** The report exactly as the checker gave it, as the CLI prints it. */
+export function toJsonReport(report) {
+  return JSON.stringify(report, null, 2) + "\n";
+}
+
+/**
+ * The cleaned list as a FHIR R4 ValueSet. Patterns (like E11.*) are not
+ * concepts, so they are left out and counted in `leftOut`.
+ */
+export function toValueSet(rows, report) {
+  const concept = [];
+  let leftOut = 0;
+  for (const r of rows) {
+    if (r.status === "pattern" || !/^[A-Z0-9.]+$/.test(r.code)) {
+      leftOut++;
+      continue;
+    }
+    const c = { code: r.code };
+    const display = r.description || r.label;
+    if (display) c.display = display;
+    concept.push(c);
+  }
+  const o = report.options;
+  const when = o.from === o.to ? `on ${o.from}` : `from ${o.from} to ${o.to}`;
+  const resource = {
+    resourceType: "ValueSet",
+    status: "draft",
+    experimental: true,
+    name: "CheckedCodeList",
+    title: "Code list checked with rollcall",
+    description:
+      `ICD-10-CM codes checked ${when}` +
+      `${o.billable ? ", billable codes required" : ""}, against index release ${report.index.release}.`,
+    compose: {
+      include: [{ system: FHIR_ICD10CM, version: report.index.release, concept }],
+    },
+  };
+  return { resource, leftOut };
+}
+
+/** Offer text as a file download (a local blob: URL; nothing is uploaded). */
+export function download(filename, mime, text) {
+  const blob = new Blob([text], { type: mime });
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = filename;
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}

@@ -1,0 +1,87 @@
+// The page's background worker: it owns the WebAssembly checker so that
+// loading the index and checking long lists never block the page.
+//
+// Protocol (every message carries an `id`; every reply echoes it):
+//   -> {id, type: "load", bytes: ArrayBuffer, manifest: object}
+//   <- {id, ok: true, result: IndexInfo}
+//   -> {id, type: "check", text: string, options: CheckOptionsInput}
+//   <- {id, ok: true, result: {report, coverage, checkMs, totalMs}}
+//   -> {id, type: "timelines", codes: string[]}
+//   <- {id, ok: true, result: {code: Span[] | null}}
+//   any failure: {id, ok: false, error: "readable message"}
+/* global wasm_bindgen */
+"use strict";
+
+importScripts("./rollcall_web.js");
+
+const wasmReady = wasm_bindgen({ module_or_path: "./rollcall_web_bg.wasm" });
+let checker = null;
+
+function load(bytes, manifest) {
+  if (checker) {
+    checker.free();
+    checker = null;
+  }
+  // Opening checks the header (format and version); the constructor then
+  // verifies the index's own checksum. Both throw readable errors.
+  const c = new wasm_bindgen.Checker(new Uint8Array(bytes));
+  const info = c.info();
+  if (manifest) {
+    if (manifest.sha256 !== info.sha256) {
+      c.free();
+      throw new Error(
+        `the index file does not match its manifest: SHA-256 ${info.sha256.slice(0, 12)}… ` +
+          `where ${String(manifest.sha256).slice(0, 12)}… was expected. It may be damaged or from another build.`,
+      );
+    }
+    if (manifest.release !== info.release) {
+      c.free();
+      throw new Error(
+        `the index is release ${info.release} but the manifest names release ${manifest.release}`,
+      );
+    }
+  }
+  checker = c;
+  return info;
+}
+
+function check(text, options) {
+  if (!checker) throw new Error("the index is not loaded");
+  const t0 = performance.now();
+  const report = checker.check(text, options);
+  const t1 = performance.now();
+  const coverage = checker.coverage();
+  const t2 = performance.now();
+  return { report, coverage, checkMs: t1 - t0, totalMs: t2 - t0 };
+}
+
+function timelines(codes) {
+  if (!checker) throw new Error("the index is not loaded");
+  return checker.timelines(codes);
+}
+
+self.onmessage = async (event) => {
+  const msg = event.data || {};
+  const id = msg.id;
+  try {
+    await wasmReady;
+    let result;
+    switch (msg.type) {
+      case "load":
+        result = load(msg.bytes, msg.manifest);
+        break;
+      case "check":
+        result = check(String(msg.text ?? ""), msg.options ?? {});
+        break;
+      case "timelines":
+        result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
+        break;
+      default:
+        throw new Error(`unknown request “${msg.type}”`);
+    }
+    self.postMessage({ id, ok: true, result });
+  } catch (err) {
+    const message = err && err.message ? err.message : String(err);
+    self.postMessage({ id, ok: false, error: message });
+  }
+};

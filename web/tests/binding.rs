@@ -1,0 +1,105 @@
+//! The binding as the page's worker uses it, run inside a dedicated worker in
+//! headless Chromium: `CHROMEDRIVER=/usr/bin/chromedriver cargo test
+//! --target wasm32-unknown-unknown` from `web/` (see .cargo/config.toml).
+#![cfg(target_arch = "wasm32")]
+
+use rollcall_web::Checker;
+use wasm_bindgen::prelude::*;
+use wasm_bindgen::JsCast;
+use wasm_bindgen_test::*;
+
+wasm_bindgen_test_configure!(run_in_dedicated_worker);
+
+/// The bundled index, as the page serves it.
+const INDEX: &[u8] = include_bytes!("../../vocab/icd10cm.rcx");
+
+fn get(v: &JsValue, key: &str) -> JsValue {
+    js_sys::Reflect::get(v, &key.into()).expect("property")
+}
+
+fn options(json: &str) -> rollcall_web::JsCheckOptions {
+    js_sys::JSON::parse(json).expect("json").unchecked_into()
+}
+
+fn message(err: JsValue) -> String {
+    err.dyn_into::<js_sys::Error>().expect("an Error").message().into()
+}
+
+#[wasm_bindgen_test]
+fn opens_the_bundled_index_and_describes_it() {
+    let c = Checker::new(INDEX.to_vec()).expect("index opens");
+    let info: JsValue = c.info().unwrap().into();
+    assert_eq!(get(&info, "vocabulary").as_string().unwrap(), "icd10cm");
+    assert_eq!(get(&info, "byte_length").as_f64().unwrap() as usize, INDEX.len());
+    assert_eq!(get(&info, "sha256").as_string().unwrap(), rollcall_web::sha256_hex(INDEX));
+    let from = get(&info, "coverage_from").as_string().unwrap();
+    let to = get(&info, "coverage_to").as_string().unwrap();
+    assert!(from < to, "{from} < {to}");
+}
+
+#[wasm_bindgen_test]
+fn a_check_gives_the_cli_report_shape() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let report: JsValue = c.check("E11.9\ne119\nnot a code\n", options(r#"{"billable":true}"#)).unwrap().into();
+    // Same JSON as the core's serde output.
+    let idx = rollcall::Index::open(INDEX).unwrap();
+    let meta = idx.meta();
+    let opts = rollcall::CheckOptions { from: meta.coverage_to, to: meta.coverage_to, billable: true };
+    let core = rollcall::check(&idx, "E11.9\ne119\nnot a code\n", &opts);
+    let expected = serde_json::to_string(&core).unwrap();
+    let got: String = js_sys::JSON::stringify(&report).unwrap().into();
+    assert_eq!(
+        serde_json::from_str::<serde_json::Value>(&got).unwrap(),
+        serde_json::from_str::<serde_json::Value>(&expected).unwrap()
+    );
+    let entries = js_sys::Array::from(&get(&report, "entries"));
+    assert_eq!(entries.length(), 3);
+    let cov: JsValue = c.coverage().unwrap().into();
+    assert!(js_sys::Array::is_array(&cov));
+}
+
+#[wasm_bindgen_test]
+fn timelines_know_codes_and_not_nonsense() {
+    let c = Checker::new(INDEX.to_vec()).unwrap();
+    let t: JsValue = c.timeline("E11.9").unwrap().into();
+    let spans = js_sys::Array::from(&t);
+    assert!(spans.length() >= 1);
+    assert_eq!(get(&spans.get(0), "kind").as_string().unwrap(), "billable");
+    let none: JsValue = c.timeline("QQQ.Q").unwrap().into();
+    assert!(none.is_null());
+    let codes: rollcall_web::JsCodes = js_sys::JSON::parse(r#"["E11.9","E11","QQQ"]"#).unwrap().unchecked_into();
+    let map: JsValue = c.timelines(codes).unwrap().into();
+    assert!(get(&map, "QQQ").is_null());
+    assert!(js_sys::Array::is_array(&get(&map, "E11")));
+}
+
+#[wasm_bindgen_test]
+fn bad_options_are_errors_with_messages() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let e = c.check("E11.9", options(r#"{"on":"2020-02-30"}"#)).map(|_| ()).unwrap_err();
+    assert!(message(e).contains("not a date"));
+    let e = c.check("E11.9", options(r#"{"from":"2021-01-01","to":"2020-01-01"}"#)).map(|_| ()).unwrap_err();
+    assert!(message(e).contains("after it ends"));
+    let e = c.check("E11.9", options(r#"{"when":"soon"}"#)).map(|_| ()).unwrap_err();
+    assert!(message(e).starts_with("bad check options"));
+    let fresh = Checker::new(INDEX.to_vec()).unwrap();
+    assert!(message(fresh.coverage().map(|_| ()).unwrap_err()).contains("check a list first"));
+}
+
+#[wasm_bindgen_test]
+fn damaged_and_foreign_files_are_refused_with_messages() {
+    let empty = Checker::new(Vec::new()).map(|_| ()).unwrap_err();
+    assert!(message(empty).contains("empty"));
+
+    let junk = Checker::new(b"not an index at all, only some text".to_vec()).map(|_| ()).unwrap_err();
+    assert!(message(junk).starts_with("cannot open the index"));
+
+    let truncated = message(Checker::new(INDEX[..INDEX.len() / 2].to_vec()).map(|_| ()).unwrap_err());
+    assert!(truncated.starts_with("cannot open the index") || truncated.starts_with("the index is damaged"), "{truncated}");
+
+    let mut flipped = INDEX.to_vec();
+    let at = flipped.len() * 2 / 3;
+    flipped[at] ^= 0x55;
+    let m = message(Checker::new(flipped).map(|_| ()).unwrap_err());
+    assert!(m.starts_with("the index is damaged") || m.starts_with("cannot open the index"), "{m}");
+}
