@@ -172,9 +172,8 @@ for (const set of OPTION_SETS) {
     await page.fill("#list", demoText());
     await setOptions(page, set.page);
     await checkNow(page);
-    // The default options are the index's last day; tell the CLI the same.
-    const manifest = JSON.parse(fs.readFileSync(path.join(DIST, "index-manifest.json"), "utf8"));
-    const expected = cli(DEMO, set.cli ?? ["--on", manifest.coverage_to]);
+    // With no date both the page and the CLI check on today.
+    const expected = cli(DEMO, set.cli ?? []);
     const summary = await page.$eval("#summary", (s) => ({ ...s.dataset }));
     assert.deepEqual(
       { errors: Number(summary.errors), warnings: Number(summary.warnings), infos: Number(summary.infos) },
@@ -277,8 +276,7 @@ test("the FHIR ValueSet download has the R4 ValueSet shape", async () => {
     }
   }
   // Every usable code the CLI sees is in the ValueSet, once.
-  const manifestDay = manifest.coverage_to;
-  const expected = cli(DEMO, ["--on", manifestDay]);
+  const expected = cli(DEMO, []);
   const codes = [...new Set(expected.entries.filter((e) => e.code && e.status !== "pattern" && !["blank", "comment", "column-headings"].includes(e.status)).map((e) => e.code))];
   assert.deepEqual(vs.compose.include[0].concept.map((c) => c.code), codes);
   await page.close();
@@ -318,10 +316,16 @@ test("a FHIR ValueSet file becomes code and display lines", async () => {
   await page.setInputFiles("#file-input", { name: "p.json", mimeType: "application/json", buffer: Buffer.from('{"resourceType":"Patient"}') });
   await page.waitForFunction(() => document.getElementById("file-message").textContent.includes("Patient"));
   assert.match(await page.textContent("#file-message"), /not a ValueSet/);
-  // A CSV file with a quoted comma.
-  await page.setInputFiles("#file-input", { name: "l.csv", mimeType: "text/csv", buffer: Buffer.from('code,label\r\nE11.9,"Diabetes, type 2"\r\n') });
-  await page.waitForFunction(() => document.getElementById("list").value.startsWith("code\tlabel"));
-  assert.equal(await page.inputValue("#list"), "code\tlabel\nE11.9\tDiabetes, type 2");
+  // A CSV file is taken as it is (line endings made plain) and checked.
+  await page.setInputFiles("#file-input", { name: "l.csv", mimeType: "text/csv", buffer: Buffer.from('label,code\r\n"Diabetes, type 2",e119\r\n') });
+  await page.waitForFunction(() => document.getElementById("list").value.startsWith("label,code"));
+  assert.equal(await page.inputValue("#list"), 'label,code\n"Diabetes, type 2",e119');
+  await page.waitForSelector('#findings tbody tr[data-line="2"][data-kind="normalized"]');
+  // Its safe fix keeps the label column.
+  const n = await page.evaluate(() => Number(document.body.dataset.checked));
+  await page.click("#apply-safe");
+  await page.waitForFunction((k) => Number(document.body.dataset.checked) > k && document.body.dataset.checking === "false", n);
+  assert.equal(await page.inputValue("#list"), 'label,code\n"Diabetes, type 2",E11.9');
   await page.close();
 });
 

@@ -104,6 +104,8 @@ extern "C" {
     pub type JsTimelines;
     #[wasm_bindgen(typescript_type = "string[]")]
     pub type JsCodes;
+    #[wasm_bindgen(typescript_type = "{ line: number; code: string }[]")]
+    pub type JsEdits;
 }
 
 /// The one error funnel: a JS `Error` whose message is `context: cause`.
@@ -205,42 +207,137 @@ fn blank(value: &Option<String>) -> bool {
     value.as_deref().map_or(true, |s| s.trim().is_empty())
 }
 
-/// Turn the page's options into core options, filling what is left out the
-/// way the CLI does: no dates at all means the index's last covered day;
-/// one end of a period alone runs to the end of what the index covers.
-fn resolve_options(input: &OptionsInput, from_default: Date, to_default: Date) -> Result<CheckOptions, String> {
-    let has_on = !blank(&input.on);
-    let has_from = !blank(&input.from);
-    let has_to = !blank(&input.to);
-    if has_on && (has_from || has_to) {
-        return Err("give either a single date or a study period, not both".into());
-    }
-    let (from, to) = if has_on {
-        let day = parse_day("date", input.on.as_deref().unwrap_or(""))?;
-        (day, day)
-    } else if has_from || has_to {
-        let from = if has_from {
-            parse_day("study period start", input.from.as_deref().unwrap_or(""))?
-        } else {
-            from_default
-        };
-        let to = if has_to {
-            parse_day("study period end", input.to.as_deref().unwrap_or(""))?
-        } else {
-            to_default
-        };
-        if from > to {
-            return Err(format!("study period starts ({from}) after it ends ({to})"));
+/// Turn the page's options into core options the way the CLI does: a single
+/// day, or a study period with both ends, or (nothing given) `today`.
+fn resolve_options(input: &OptionsInput, today: Date) -> Result<CheckOptions, String> {
+    let on = (!blank(&input.on)).then(|| input.on.as_deref().unwrap_or(""));
+    let from = (!blank(&input.from)).then(|| input.from.as_deref().unwrap_or(""));
+    let to = (!blank(&input.to)).then(|| input.to.as_deref().unwrap_or(""));
+    match (on, from, to) {
+        (Some(_), Some(_), _) | (Some(_), _, Some(_)) => {
+            Err("give either a single date or a study period, not both".into())
         }
-        (from, to)
-    } else {
-        (to_default, to_default)
-    };
-    Ok(CheckOptions {
-        from,
-        to,
-        billable: input.billable,
-    })
+        (Some(d), None, None) => Ok(CheckOptions::on(parse_day("date", d)?, input.billable)),
+        (None, Some(f), Some(t)) => {
+            let (from, to) = (parse_day("study period start", f)?, parse_day("study period end", t)?);
+            if from > to {
+                return Err(format!("the study period starts ({from}) after it ends ({to})"));
+            }
+            Ok(CheckOptions { from, to, billable: input.billable })
+        }
+        (None, Some(_), None) | (None, None, Some(_)) => {
+            Err("a study period needs both a start and an end".into())
+        }
+        (None, None, None) => Ok(CheckOptions::on(today, input.billable)),
+    }
+}
+
+/// Today (UTC), as the CLI takes it when no date is given.
+fn today() -> Date {
+    Date::from_days((js_sys::Date::now() / 86_400_000.0).floor() as i32)
+}
+
+/// One replacement: put `code` in place of the code written on input line `line` (1-based).
+#[derive(Deserialize, Debug, Clone, PartialEq, Eq)]
+pub struct Edit {
+    pub line: usize,
+    pub code: String,
+}
+
+/// Byte range of cell `col` of a CSV line (quote-aware, as the core splits it).
+fn csv_cell_range(line: &str, col: usize) -> Option<(usize, usize)> {
+    let mut start = 0;
+    let mut quoted = false;
+    let mut cell = 0;
+    let bytes = line.as_bytes();
+    let mut i = 0;
+    while i < bytes.len() {
+        match bytes[i] {
+            b'"' => quoted = !quoted,
+            b',' if !quoted => {
+                if cell == col {
+                    return Some((start, i));
+                }
+                cell += 1;
+                start = i + 1;
+            }
+            _ => {}
+        }
+        i += 1;
+    }
+    (cell == col).then_some((start, line.len()))
+}
+
+/// The byte range of the words that make up `code` at the start of a plain
+/// line (the core may have joined `E11 .9` into `E11.9`).
+fn plain_code_range(line: &str, code: &str) -> Option<(usize, usize)> {
+    let want: String = code.chars().filter(|c| !c.is_whitespace()).collect();
+    let mut got = String::new();
+    let mut start = None;
+    let mut pos = 0;
+    for word in line.split_whitespace() {
+        let at = pos + line[pos..].find(word)?;
+        start.get_or_insert(at);
+        pos = at + word.len();
+        got.push_str(word);
+        if got == want {
+            return Some((start.unwrap_or(0), pos));
+        }
+        if !want.starts_with(&got) {
+            return None;
+        }
+    }
+    None
+}
+
+/// Replace the code written on some lines, leaving every other character of
+/// the list as it was (labels, other columns, line endings).
+pub fn replace_codes_in(text: &str, edits: &[Edit]) -> Result<String, String> {
+    use rollcall::input::{LineKind, Layout};
+    let (layout, lines) = rollcall::input::parse_list(text);
+    let mut physical: Vec<String> = text.split('\n').map(str::to_string).collect();
+    for edit in edits {
+        let Some(input) = lines.iter().find(|l| l.number == edit.line) else {
+            return Err(format!("the list has no line {}", edit.line));
+        };
+        let LineKind::Entry { code, .. } = &input.kind else {
+            return Err(format!("line {} holds no code to replace", edit.line));
+        };
+        if edit.code.contains(['\t', '\n', '\r', ',']) {
+            return Err(format!("\u{201c}{}\u{201d} cannot be written into the list", edit.code));
+        }
+        let raw = &mut physical[edit.line - 1];
+        let (line, cr) = match raw.strip_suffix('\r') {
+            Some(l) => (l.to_string(), "\r"),
+            None => (raw.clone(), ""),
+        };
+        let range = match layout {
+            Layout::Tsv(col, _) => {
+                let mut start = 0;
+                let mut found = None;
+                for (i, cell) in line.split('\t').enumerate() {
+                    if i == col {
+                        found = Some((start, start + cell.len()));
+                        break;
+                    }
+                    start += cell.len() + 1;
+                }
+                found
+            }
+            Layout::Csv(col, _) => csv_cell_range(&line, col),
+            Layout::Plain => plain_code_range(&line, code),
+        };
+        let Some((a, b)) = range else {
+            return Err(format!("the code on line {} could not be found in the line", edit.line));
+        };
+        // Keep the cell's surrounding spaces.
+        let cell = &line[a..b];
+        let lead = cell.len() - cell.trim_start().len();
+        let trail = cell.len() - cell.trim_end().len();
+        let new = format!("{}{}{}{}", &line[..a + lead], edit.code, &line[b - trail..], cr);
+        *raw = new;
+    }
+    Ok(physical.join("\n"))
 }
 
 /// A loaded, verified index and the last check made with it.
@@ -288,9 +385,7 @@ impl Checker {
         } else {
             serde_wasm_bindgen::from_value(options).map_err(|e| fail("bad check options", e))?
         };
-        let meta = self.index.meta();
-        let opts = resolve_options(&input, meta.coverage_from, meta.coverage_to)
-            .map_err(|e| fail("bad check options", e))?;
+        let opts = resolve_options(&input, today()).map_err(|e| fail("bad check options", e))?;
         let report = rollcall::check(&self.index, text, &opts);
         let out = to_js(&report)?;
         self.last = Some((report, opts));
@@ -311,6 +406,15 @@ impl Checker {
     /// for a code the index does not know.
     pub fn timeline(&self, code: &str) -> Result<JsTimeline, JsValue> {
         Ok(to_js(&rollcall::timeline(&self.index, code))?.unchecked_into())
+    }
+
+    /// The list with the code on some lines replaced (`edits`: `[{line, code}]`),
+    /// every other character kept. Used to apply suggestions.
+    #[wasm_bindgen(js_name = replaceCodes)]
+    pub fn replace_codes(&self, text: &str, edits: JsEdits) -> Result<String, JsValue> {
+        let edits: Vec<Edit> = serde_wasm_bindgen::from_value(edits.into())
+            .map_err(|e| fail("bad edits", e))?;
+        replace_codes_in(text, &edits).map_err(|e| fail("cannot apply the change", e))
     }
 
     /// Spans for many codes at once, keyed by the code as given.
@@ -342,12 +446,12 @@ mod tests {
 
     #[test]
     fn options_resolve_like_the_cli() {
-        let (a, b) = (day("2015-10-01"), day("2026-09-30"));
-        let none = resolve_options(&OptionsInput::default(), a, b).unwrap();
-        assert_eq!((none.from, none.to, none.billable), (b, b, false));
+        let today = day("2025-03-04");
+        let none = resolve_options(&OptionsInput::default(), today).unwrap();
+        assert_eq!((none.from, none.to, none.billable), (today, today, false));
 
         let on = OptionsInput { on: Some("2020-01-01".into()), ..Default::default() };
-        let o = resolve_options(&on, a, b).unwrap();
+        let o = resolve_options(&on, today).unwrap();
         assert_eq!((o.from, o.to), (day("2020-01-01"), day("2020-01-01")));
 
         let period = OptionsInput {
@@ -356,22 +460,55 @@ mod tests {
             billable: true,
             ..Default::default()
         };
-        let p = resolve_options(&period, a, b).unwrap();
+        let p = resolve_options(&period, today).unwrap();
         assert_eq!((p.from, p.to, p.billable), (day("2019-01-01"), day("2020-12-31"), true));
 
-        let open_end = OptionsInput { from: Some("2019-01-01".into()), ..Default::default() };
-        assert_eq!(resolve_options(&open_end, a, b).unwrap().to, b);
+        // Blank strings count as not given.
+        let blanks = OptionsInput { on: Some(" ".into()), from: Some(String::new()), ..Default::default() };
+        assert_eq!(resolve_options(&blanks, today).unwrap().from, today);
     }
 
     #[test]
     fn bad_options_give_messages() {
-        let (a, b) = (day("2015-10-01"), day("2026-09-30"));
+        let today = day("2025-03-04");
         let both = OptionsInput { on: Some("2020-01-01".into()), from: Some("2019-01-01".into()), ..Default::default() };
-        assert!(resolve_options(&both, a, b).unwrap_err().contains("not both"));
+        assert!(resolve_options(&both, today).unwrap_err().contains("not both"));
         let bad = OptionsInput { on: Some("2020-13-01".into()), ..Default::default() };
-        assert!(resolve_options(&bad, a, b).unwrap_err().contains("not a date"));
+        assert!(resolve_options(&bad, today).unwrap_err().contains("not a date"));
         let backwards = OptionsInput { from: Some("2021-01-01".into()), to: Some("2020-01-01".into()), ..Default::default() };
-        assert!(resolve_options(&backwards, a, b).unwrap_err().contains("after it ends"));
+        assert!(resolve_options(&backwards, today).unwrap_err().contains("after it ends"));
+        let half = OptionsInput { from: Some("2021-01-01".into()), ..Default::default() };
+        assert!(resolve_options(&half, today).unwrap_err().contains("both a start and an end"));
+    }
+
+    fn edit(line: usize, code: &str) -> Edit {
+        Edit { line, code: code.into() }
+    }
+
+    #[test]
+    fn replacing_keeps_labels_and_columns() {
+        let tsv = "code\tlabel\ne119\tType 2\r\nI10\thypertension\n";
+        assert_eq!(
+            replace_codes_in(tsv, &[edit(2, "E11.9")]).unwrap(),
+            "code\tlabel\nE11.9\tType 2\r\nI10\thypertension\n"
+        );
+        let csv = "label,code\n\"Diabetes, type 2\", e119 \nHypertension,I10\n";
+        assert_eq!(
+            replace_codes_in(csv, &[edit(2, "E11.9")]).unwrap(),
+            "label,code\n\"Diabetes, type 2\", E11.9 \nHypertension,I10\n"
+        );
+        let plain = "  E11 .9 diabetes\nI10 hypertension";
+        assert_eq!(
+            replace_codes_in(plain, &[edit(1, "E11.9"), edit(2, "I10.0")]).unwrap(),
+            "  E11.9 diabetes\nI10.0 hypertension"
+        );
+    }
+
+    #[test]
+    fn replacing_refuses_what_it_cannot_do() {
+        assert!(replace_codes_in("E11.9\n# note\n", &[edit(2, "E10.9")]).unwrap_err().contains("no code"));
+        assert!(replace_codes_in("E11.9", &[edit(5, "E10.9")]).unwrap_err().contains("no line 5"));
+        assert!(replace_codes_in("E11.9", &[edit(1, "E10.9\tx")]).unwrap_err().contains("cannot be written"));
     }
 
     #[test]

@@ -155,7 +155,7 @@ function showIndexReady(info) {
     $(id).min = info.coverage_from;
     $(id).max = info.coverage_to;
   }
-  $("on-hint").textContent = `Empty means ${info.coverage_to}, the last day the index covers.`;
+  $("on-hint").textContent = `Empty means today (${new Date().toISOString().slice(0, 10)}, UTC), as on the command line. The index covers ${info.coverage_from} to ${info.coverage_to}.`;
   $("source-files").textContent = info.sources.length
     ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.`
     : "";
@@ -335,51 +335,30 @@ function renderRows() {
 
 // -------------------------------------------------------- applying fixes --
 
-/** Replace the code on input line `lineNo` (1-based) with `code`. */
-function replaceOnLine(lines, lineNo, input, code) {
-  const i = lineNo - 1;
-  if (i < 0 || i >= lines.length) return false;
-  const line = lines[i];
-  const at = input ? line.indexOf(input) : -1;
-  if (at >= 0) {
-    lines[i] = line.slice(0, at) + code + line.slice(at + input.length);
-  } else {
-    // Fall back to the first cell of the line.
-    const m = /^(\s*)([^\t,;|]*)(.*)$/.exec(line);
-    lines[i] = m[1] + code + m[3];
+/** Replace codes on some lines (in the worker, which knows the list's layout) and re-check. */
+async function applyEdits(edits, note) {
+  const ta = $("list");
+  try {
+    ta.value = await ask("replace", { text: ta.value, edits });
+  } catch (e) {
+    $("check-status").textContent = `Could not apply: ${e.message.replace(/^Error: /, "")}`;
+    return;
   }
-  return true;
+  $("check-status").textContent = `${note} Checking…`;
+  await runCheck();
 }
 
 function applySuggestion(row, sugg) {
-  const ta = $("list");
-  const lines = ta.value.split("\n");
-  const input = row.entry ? row.entry.input : null;
-  let target = row.line;
-  let from = input;
-  if (!row.entry) {
-    // A finding about several lines: the suggestion takes the first line's place.
-    const first = state.report.entries.find((e) => e.line === row.lines[0]);
-    from = first ? first.input : null;
-    target = row.lines[0];
-  }
-  if (!replaceOnLine(lines, target, from, sugg.code)) return;
-  ta.value = lines.join("\n");
-  $("check-status").textContent = `Line ${target}: now ${sugg.code}. Checking…`;
-  runCheck();
+  // A finding about several lines puts the suggestion in the first line's place.
+  const line = row.entry ? row.line : row.lines[0];
+  return applyEdits([{ line, code: sugg.code }], `Line ${line}: now ${sugg.code}.`);
 }
 
 function applySafeFixes() {
-  const ta = $("list");
-  const lines = ta.value.split("\n");
-  let n = 0;
-  for (const row of state.allRows) {
-    if (row.kind !== "normalized" || !row.entry || !row.suggestions.length) continue;
-    if (replaceOnLine(lines, row.line, row.entry.input, row.suggestions[0].code)) n++;
-  }
-  ta.value = lines.join("\n");
-  $("check-status").textContent = `Applied ${plural(n, "formatting fix")}. Checking…`;
-  runCheck();
+  const edits = state.allRows
+    .filter((row) => row.kind === "normalized" && row.entry && row.suggestions.length)
+    .map((row) => ({ line: row.line, code: row.suggestions[0].code }));
+  return applyEdits(edits, `Applied ${plural(edits.length, "formatting fix")}.`);
 }
 
 // ---------------------------------------------------------- cleaned list --

@@ -1,49 +1,9 @@
-// Turning files into the plain lines the checker reads: one entry per line,
-// code first, an optional label after a tab.
+// Turning files into the lines the checker reads. TXT, CSV and TSV files are
+// taken as they are (the checker finds the code and label columns itself, and
+// line numbers stay those of the file); a FHIR ValueSet becomes
+// "code<TAB>display" lines.
 
 export const FHIR_ICD10CM = "http://hl7.org/fhir/sid/icd-10-cm";
-
-/** Parse CSV text (RFC 4180 quoting) into rows of cells. */
-export function parseCsv(text) {
-  const rows = [];
-  let row = [];
-  let cell = "";
-  let quoted = false;
-  for (let i = 0; i < text.length; i++) {
-    const ch = text[i];
-    if (quoted) {
-      if (ch === '"') {
-        if (text[i + 1] === '"') {
-          cell += '"';
-          i++;
-        } else {
-          quoted = false;
-        }
-      } else {
-        cell += ch;
-      }
-    } else if (ch === '"' && cell === "") {
-      quoted = true;
-    } else if (ch === ",") {
-      row.push(cell);
-      cell = "";
-    } else if (ch === "\n" || ch === "\r") {
-      if (ch === "\r" && text[i + 1] === "\n") i++;
-      row.push(cell);
-      rows.push(row);
-      row = [];
-      cell = "";
-    } else {
-      cell += ch;
-    }
-  }
-  if (quoted) throw new Error("the CSV file ends inside a quoted cell");
-  if (cell !== "" || row.length) {
-    row.push(cell);
-    rows.push(row);
-  }
-  return rows;
-}
 
 /** A cell made safe to sit in a tab-separated line. */
 function flat(value) {
@@ -124,11 +84,6 @@ export function fileToLines(name, raw) {
     const { text: lines, notes } = valueSetToLines(vs);
     const count = lines.split("\n").length;
     return { text: lines, note: `Read ${count} concept(s) from the FHIR ValueSet “${name}”.${notes.length ? " " + notes.join("; ") + "." : ""}` };
-  }
-  if (lower.endsWith(".csv")) {
-    const rows = parseCsv(text);
-    const lines = rows.map((r) => r.map(flat).join("\t").replace(/\t+$/, ""));
-    return { text: lines.join("\n"), note: `Read ${rows.length} row(s) from the CSV file “${name}”.` };
   }
   const lines = text.replace(/\r\n?/g, "\n").replace(/\n$/, "");
   return { text: lines, note: `Read ${lines === "" ? 0 : lines.split("\n").length} line(s) from “${name}”.` };

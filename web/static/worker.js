@@ -6,6 +6,8 @@
 //   <- {id, ok: true, result: IndexInfo}
 //   -> {id, type: "check", text: string, options: CheckOptionsInput}
 //   <- {id, ok: true, result: {report, coverage, checkMs, totalMs}}
+//   -> {id, type: "replace", text: string, edits: [{line, code}]}
+//   <- {id, ok: true, result: string}   (the list with those codes replaced)
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
 //   any failure: {id, ok: false, error: "readable message"}
@@ -72,6 +74,10 @@ self.onmessage = async (event) => {
         break;
       case "check":
         result = check(String(msg.text ?? ""), msg.options ?? {});
+        break;
+      case "replace":
+        if (!checker) throw new Error("the index is not loaded");
+        result = checker.replaceCodes(String(msg.text ?? ""), msg.edits ?? []);
         break;
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);

@@ -40,11 +40,14 @@ fn opens_the_bundled_index_and_describes_it() {
 #[wasm_bindgen_test]
 fn a_check_gives_the_cli_report_shape() {
     let mut c = Checker::new(INDEX.to_vec()).unwrap();
-    let report: JsValue = c.check("E11.9\ne119\nnot a code\n", options(r#"{"billable":true}"#)).unwrap().into();
+    let report: JsValue = c
+        .check("E11.9\ne119\nnot a code\n", options(r#"{"from":"2016-01-01","to":"2024-12-31","billable":true}"#))
+        .unwrap()
+        .into();
     // Same JSON as the core's serde output.
     let idx = rollcall::Index::open(INDEX).unwrap();
-    let meta = idx.meta();
-    let opts = rollcall::CheckOptions { from: meta.coverage_to, to: meta.coverage_to, billable: true };
+    let day = |s| rollcall::Date::parse(s).unwrap();
+    let opts = rollcall::CheckOptions { from: day("2016-01-01"), to: day("2024-12-31"), billable: true };
     let core = rollcall::check(&idx, "E11.9\ne119\nnot a code\n", &opts);
     let expected = serde_json::to_string(&core).unwrap();
     let got: String = js_sys::JSON::stringify(&report).unwrap().into();
