@@ -1,1 +1,759 @@
-//! todo
+//! The check of one list for one study period: resolve every line, then
+//! judge each entry against the period and the rest of the list, then run
+//! the whole-list checks. The rules are written out in the README.
+
+use crate::code::{self, Resolved};
+use crate::date::Date;
+use crate::index::{Index, View};
+use crate::input::{parse_list, LineKind};
+use crate::listcheck;
+use crate::model::{Period, Span, SpanKind};
+use crate::pattern::{self, Pattern};
+use crate::report::*;
+use serde::Serialize;
+use std::collections::{HashMap, HashSet};
+
+/// Options of a check.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct CheckOptions {
+    /// First day of the study period.
+    pub from: Date,
+    /// Last day of the study period (the same as `from` for a single date).
+    pub to: Date,
+    /// Whether only billable codes are acceptable (headers become errors).
+    pub billable: bool,
+}
+
+impl CheckOptions {
+    /// A single reference date.
+    pub fn on(day: Date, billable: bool) -> CheckOptions {
+        CheckOptions { from: day, to: day, billable }
+    }
+
+    /// The study period as a [`Period`].
+    pub fn period(&self) -> Period {
+        Period::new(self.from.min(self.to), self.to.max(self.from))
+    }
+}
+
+/// How many unknown codes get edit-distance suggestions in one list; beyond
+/// this the finding says the search was skipped (keeps huge pastes fast).
+pub const SUGGESTION_LIMIT: usize = 2000;
+
+/// The most codes named in one message or suggestion list.
+pub const NAMED_LIMIT: usize = 12;
+
+/// What pass 1 made of a line.
+pub(crate) enum Item {
+    Skip(Status),
+    Unreadable(String),
+    Code { ord: u32, changes: Vec<&'static str>, written: String },
+    Unknown(String),
+    Malformed(String),
+    Pattern(Pattern, Vec<u32>),
+    BadPattern(String),
+}
+
+/// A set of ordinals as a bitmap, remembering insertion order for iteration.
+pub(crate) struct Marks {
+    bits: Vec<u64>,
+    list: Vec<u32>,
+}
+
+impl Marks {
+    pub fn new(len: usize) -> Marks {
+        Marks {
+            bits: vec![0; len.div_ceil(64)],
+            list: Vec::new(),
+        }
+    }
+    pub fn insert(&mut self, o: u32) -> bool {
+        let (w, b) = (o as usize / 64, 1u64 << (o % 64));
+        match self.bits.get_mut(w) {
+            Some(x) if *x & b == 0 => {
+                *x |= b;
+                self.list.push(o);
+                true
+            }
+            _ => false,
+        }
+    }
+    #[inline]
+    pub fn contains(&self, o: &u32) -> bool {
+        self.bits
+            .get(*o as usize / 64)
+            .is_some_and(|x| x & (1u64 << (o % 64)) != 0)
+    }
+}
+
+impl<'a> IntoIterator for &'a Marks {
+    type Item = &'a u32;
+    type IntoIter = std::slice::Iter<'a, u32>;
+    fn into_iter(self) -> Self::IntoIter {
+        self.list.iter()
+    }
+}
+
+/// The list as a whole, for judging each entry against the others.
+pub(crate) struct ListContext {
+    /// Explicit code entries: ordinal → lines.
+    pub listed: HashMap<u32, Vec<usize>>,
+    /// Billable-in-period codes reached by explicit entries or patterns.
+    pub reached: Marks,
+    /// Billable-in-period codes written explicitly.
+    pub explicit: Marks,
+    /// Codes matched by a pattern → the first pattern line.
+    pub by_pattern: HashMap<u32, usize>,
+    /// Whether any code of the list is written with a dot. A list written
+    /// wholly without dots uses the official undotted form of the release
+    /// files, so a missing dot is only worth a note in a list that mixes forms.
+    pub dotted: bool,
+}
+
+/// Checks a list against an index for the period in `options`.
+///
+/// ```no_run
+/// let index = rollcall::Index::open(std::fs::read("vocab/icd10cm.rcx").unwrap()).unwrap();
+/// let day = rollcall::Date::parse("2026-01-01").unwrap();
+/// let report = rollcall::check(&index, "E11.9\nE11.56\n", &rollcall::CheckOptions::on(day, true));
+/// assert_eq!(report.summary.entries, 2);
+/// ```
+pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOptions) -> Report {
+    let view = index.view();
+    let period = options.period();
+    let (_, lines) = parse_list(text);
+
+    // Pass 1: what each line is.
+    let items: Vec<Item> = lines.iter().map(|l| resolve_line(&view, &l.kind, &period)).collect();
+
+    // The list context.
+    let mut ctx = ListContext {
+        listed: HashMap::new(),
+        reached: Marks::new(view.len()),
+        explicit: Marks::new(view.len()),
+        by_pattern: HashMap::new(),
+        dotted: false,
+    };
+    for (l, item) in lines.iter().zip(&items) {
+        match item {
+            Item::Code { ord, written, .. } => {
+                ctx.dotted |= written.contains('.');
+                ctx.listed.entry(*ord).or_default().push(l.number);
+                if view.billable_in(*ord, &period) {
+                    ctx.reached.insert(*ord);
+                    ctx.explicit.insert(*ord);
+                }
+            }
+            Item::Pattern(_, m) => {
+                for &o in m {
+                    ctx.reached.insert(o);
+                    ctx.by_pattern.entry(o).or_insert(l.number);
+                }
+            }
+            _ => {}
+        }
+    }
+
+    // Pass 2: judge each entry.
+    let mut suggestions_left = SUGGESTION_LIMIT;
+    let mut entries = Vec::with_capacity(lines.len());
+    for (l, item) in lines.iter().zip(items) {
+        let label = match &l.kind {
+            LineKind::Entry { label, .. } => label.clone(),
+            _ => None,
+        };
+        let mut e = Entry {
+            line: l.number,
+            input: l.text.clone(),
+            code: None,
+            label,
+            description: None,
+            status: Status::Malformed,
+            findings: Vec::new(),
+        };
+        judge(&view, options, &period, &ctx, item, l.number, &mut e, &mut suggestions_left);
+        e.findings.sort_by_key(|f| f.severity);
+        entries.push(e);
+    }
+
+    // Pass 3: the whole list.
+    let list_findings = listcheck::run(&view, &period, &ctx);
+
+    let mut summary = Summary {
+        lines: lines.len(),
+        entries: entries.iter().filter(|e| !e.status.skipped()).count(),
+        ..Summary::default()
+    };
+    let sevs = entries
+        .iter()
+        .flat_map(|e| e.findings.iter().map(|f| f.severity))
+        .chain(list_findings.iter().map(|f| f.severity));
+    for s in sevs {
+        match s {
+            Severity::Error => summary.errors += 1,
+            Severity::Warning => summary.warnings += 1,
+            Severity::Info => summary.infos += 1,
+        }
+    }
+    let meta = index.meta();
+    Report {
+        vocabulary: meta.vocabulary.clone(),
+        index: IndexInfo {
+            release: meta.release.clone(),
+            coverage_from: meta.coverage_from,
+            coverage_to: meta.coverage_to,
+            sources: meta.sources.clone(),
+        },
+        options: OptionsInfo {
+            on: (period.from == period.to).then_some(period.from),
+            from: period.from,
+            to: period.to,
+            billable: options.billable,
+        },
+        entries,
+        list_findings,
+        summary,
+    }
+}
+
+fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
+    match kind {
+        LineKind::Blank => Item::Skip(Status::Blank),
+        LineKind::Comment => Item::Skip(Status::Comment),
+        LineKind::Headings => Item::Skip(Status::ColumnHeadings),
+        LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
+        LineKind::Entry { code, .. } => match pattern::parse(code) {
+            Some(Ok(p)) => {
+                let m = p.expand(view, period);
+                Item::Pattern(p, m)
+            }
+            Some(Err(m)) => Item::BadPattern(m),
+            None => match code::resolve(view, code) {
+                Resolved::Found { ord, changes } => Item::Code { ord, changes, written: code.trim().to_string() },
+                Resolved::Unknown { code } => Item::Unknown(code),
+                Resolved::Malformed { reason } => Item::Malformed(reason),
+            },
+        },
+    }
+}
+
+pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
+    Suggestion {
+        code: view.display(&view.code(ord)),
+        description: view.description(ord),
+        reason: reason.into(),
+    }
+}
+
+fn finding(kind: Kind, severity: Severity, message: String, suggestions: Vec<Suggestion>) -> Finding {
+    Finding {
+        kind,
+        severity,
+        message,
+        suggestions,
+    }
+}
+
+/// Names codes for a message: `E11.9`, `E11.9 and E11.65`, `E11.9, E11.65 and 3 more`.
+pub(crate) fn name_codes(view: &View<'_>, ords: &[u32]) -> String {
+    let shown: Vec<String> = ords.iter().take(3).map(|&o| view.display(&view.code(o))).collect();
+    match (ords.len(), shown.as_slice()) {
+        (0, _) => "none".into(),
+        (1, [a]) => a.clone(),
+        (2, [a, b]) => format!("{a} and {b}"),
+        (3, [a, b, c]) => format!("{a}, {b} and {c}"),
+        (n, [a, b, ..]) => format!("{a}, {b} and {} more", n - 2),
+        _ => String::new(),
+    }
+}
+
+/// "none of them", "2 of them", "all of them" in the list.
+fn in_list(have: usize, of: usize) -> String {
+    match (have, of) {
+        (0, 1) => "not in the list".into(),
+        (0, _) => "none of them in the list".into(),
+        (1, 1) => "in the list".into(),
+        (h, n) if h == n => format!("all {} in the list", if n == 2 { "both" } else { "of them" }).replace("all both", "both"),
+        (h, _) => format!("{h} of them in the list"),
+    }
+}
+
+/// Billable codes under a node on some day of `within`.
+pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<u32> {
+    (ord + 1..view.subtree_end(ord))
+        .filter(|&o| view.billable_in(o, within))
+        .collect()
+}
+
+/// The code's status on each part of the period, in order.
+fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<SpanKind>)> {
+    let mut spans: Vec<(Period, SpanKind)> = view
+        .billable(ord)
+        .map(|p| (p, SpanKind::Billable))
+        .chain(view.header(ord).map(|p| (p, SpanKind::Header)))
+        .filter_map(|(p, k)| p.intersect(period).map(|p| (p, k)))
+        .collect();
+    spans.sort_by_key(|(p, _)| p.from);
+    let mut out = Vec::new();
+    let mut day = period.from;
+    for (p, k) in spans {
+        if p.from > day {
+            out.push((Period::new(day, p.from.pred()), None));
+        }
+        out.push((p, Some(k)));
+        day = p.to.succ();
+    }
+    if day <= period.to {
+        out.push((Period::new(day, period.to), None));
+    }
+    out
+}
+
+#[allow(clippy::too_many_arguments)]
+fn judge(
+    view: &View<'_>,
+    options: &CheckOptions,
+    period: &Period,
+    ctx: &ListContext,
+    item: Item,
+    line: usize,
+    e: &mut Entry,
+    suggestions_left: &mut usize,
+) {
+    let title = &view.meta().title;
+    let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
+    match item {
+        Item::Skip(s) => e.status = s,
+        Item::Unreadable(m) => {
+            e.status = Status::Malformed;
+            e.findings.push(finding(Kind::Malformed, Severity::Error, m, vec![]));
+        }
+        Item::Malformed(reason) => {
+            e.status = Status::Malformed;
+            e.findings.push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
+        }
+        Item::BadPattern(m) => {
+            e.status = Status::Malformed;
+            e.findings.push(finding(Kind::Malformed, Severity::Error, m, vec![]));
+        }
+        Item::Pattern(p, matched) => {
+            let shown = p.display(view);
+            e.status = Status::Pattern;
+            e.code = Some(shown.clone());
+            if matched.is_empty() {
+                e.findings.push(finding(
+                    Kind::PatternEmpty,
+                    Severity::Error,
+                    format!(
+                        "{shown} matches no billable {title} code in the period {} to {}; check the start of the pattern or the period",
+                        period.from, period.to
+                    ),
+                    vec![],
+                ));
+            } else {
+                e.findings.push(finding(
+                    Kind::Pattern,
+                    Severity::Info,
+                    format!(
+                        "{shown} matches {} billable code{} in the period ({})",
+                        matched.len(),
+                        if matched.len() == 1 { "" } else { "s" },
+                        name_codes(view, &matched)
+                    ),
+                    vec![],
+                ));
+            }
+        }
+        Item::Unknown(c) => {
+            e.status = Status::Unknown;
+            e.code = Some(view.display(&c));
+            let mut msg = format!(
+                "{} is not an {title} code in any release from {} to {}",
+                view.display(&c),
+                cov.from,
+                cov.to
+            );
+            if let Some(extra) = seventh_note(view, &c) {
+                msg.push_str("; ");
+                msg.push_str(&extra);
+            }
+            let mut sugg = Vec::new();
+            if *suggestions_left > 0 {
+                *suggestions_left -= 1;
+                let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
+                for (o, d) in near {
+                    let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
+                    let live = view.billable_in(o, period);
+                    let mut why = if d == 1 { "one character different" } else { "two characters different" }.to_string();
+                    if same {
+                        why.push_str(", same category");
+                    }
+                    if !live {
+                        why.push_str(", but not billable in the period");
+                    }
+                    sugg.push(suggestion(view, o, why));
+                }
+                if sugg.is_empty() {
+                    msg.push_str("; no code is within two characters of it");
+                }
+            } else {
+                msg.push_str(&format!(
+                    "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
+                ));
+            }
+            e.findings.push(finding(Kind::Unknown, Severity::Error, msg, sugg));
+        }
+        Item::Code { ord, mut changes, written } => {
+            if !ctx.dotted {
+                changes.retain(|c| *c != "dot added");
+            }
+            let code = view.code(ord);
+            let shown = view.display(&code);
+            e.code = Some(shown.clone());
+            e.description = Some(view.description(ord));
+            if !changes.is_empty() {
+                e.findings.push(finding(
+                    Kind::Normalized,
+                    Severity::Info,
+                    format!("\"{written}\" read as {shown} ({})", changes.join(", ")),
+                    vec![suggestion(view, ord, "the official form")],
+                ));
+            }
+            judge_dates(view, options, period, ctx, ord, &shown, e);
+            if let Some(f) = redundant(view, period, ctx, ord, line) {
+                e.findings.push(f);
+            }
+        }
+    }
+}
+
+/// Why an unknown code with a 7th character does not exist, when a rule says so.
+fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
+    if code.len() != 7 {
+        return None;
+    }
+    let base = &code[..6];
+    let stem = base.trim_end_matches('X');
+    let ord = view.ordinal(base).or_else(|| view.ordinal(stem))?;
+    let rule = view.seventh_rule(ord)?;
+    let ch = code.chars().last()?;
+    if rule.extensions.iter().any(|(c, _)| *c == ch) {
+        return None;
+    }
+    let allowed: Vec<String> = rule.extensions.iter().map(|(c, m)| format!("{c} ({m})")).collect();
+    Some(format!(
+        "the 7th character {ch} is not one the tabular list allows under {}: {}",
+        view.display(&view.code(ord)),
+        allowed.join(", ")
+    ))
+}
+
+fn judge_dates(
+    view: &View<'_>,
+    options: &CheckOptions,
+    period: &Period,
+    ctx: &ListContext,
+    ord: u32,
+    shown: &str,
+    e: &mut Entry,
+) {
+    let segs = segments(view, ord, period);
+    let billable: Vec<Period> = view.billable(ord).collect();
+    let header: Vec<Period> = view.header(ord).collect();
+    let all: Vec<Period> = billable.iter().chain(&header).copied().collect();
+    let span_text = if period.from == period.to {
+        format!("on {}", period.from)
+    } else {
+        format!("in the period {} to {}", period.from, period.to)
+    };
+    let only = |k| segs.len() == 1 && segs[0].1 == k;
+    if only(Some(SpanKind::Billable)) {
+        e.status = Status::Valid;
+        return;
+    }
+    if only(Some(SpanKind::Header)) {
+        e.status = Status::Header;
+        let under = billable_under(view, ord, period);
+        let have = under.iter().filter(|o| ctx.reached.contains(o)).count();
+        let mut msg = format!(
+            "{shown} is a header, not a billable code, {span_text}; it covers {} billable code{}, {}",
+            under.len(),
+            if under.len() == 1 { "" } else { "s" },
+            in_list(have, under.len())
+        );
+        if let Some(last) = billable.iter().filter(|p| p.to < period.from).map(|p| p.to).max() {
+            msg.push_str(&format!(
+                "; it was billable until {last} and has been a header since {}",
+                last.succ()
+            ));
+        }
+        let mut sugg = Vec::new();
+        if have < under.len() {
+            let p = Pattern::Prefix(view.code(ord)).display(view);
+            sugg.push(Suggestion {
+                code: p.clone(),
+                description: view.description(ord),
+                reason: format!("{p} matches its {} billable codes in the period", under.len()),
+            });
+            if under.len() <= 5 {
+                for &o in under.iter().filter(|o| !ctx.reached.contains(o)) {
+                    sugg.push(suggestion(view, o, "a billable code under it, not in the list"));
+                }
+            }
+        }
+        let sev = if options.billable { Severity::Error } else { Severity::Info };
+        e.findings.push(finding(Kind::Header, sev, msg, sugg));
+        return;
+    }
+    if only(None) {
+        let first = all.iter().map(|p| p.from).min();
+        let last = all.iter().map(|p| p.to).max();
+        match (first, last) {
+            (_, Some(last)) if last < period.from => {
+                e.status = Status::Retired;
+                let last_b = billable.iter().map(|p| p.to).max().unwrap_or(last);
+                let mut sugg: Vec<Suggestion> = view
+                    .successors(ord)
+                    .filter(|(s, _)| view.billable_in(*s, period))
+                    .map(|(s, d)| {
+                        suggestion(view, s, format!("conversion table: its data from {d} is coded as this"))
+                    })
+                    .collect();
+                if sugg.is_empty() {
+                    let kids = billable_under(view, ord, period);
+                    for &o in kids.iter().take(NAMED_LIMIT) {
+                        sugg.push(suggestion(view, o, "a code under it, billable in the period"));
+                    }
+                }
+                if sugg.is_empty() {
+                    if let Some(a) = view.ancestors(ord).find(|&a| !billable_under(view, a, period).is_empty()) {
+                        sugg.push(suggestion(view, a, "the nearest code above it still in use; review its codes"));
+                    }
+                }
+                let listed: Vec<&Suggestion> = sugg
+                    .iter()
+                    .filter(|s| view.ordinal(&s.code.replace('.', "")).is_some_and(|o| ctx.reached.contains(&o)))
+                    .collect();
+                let mut msg = format!(
+                    "{shown} was retired: its last valid day was {last_b}, before the period starts ({})",
+                    period.from
+                );
+                if !sugg.is_empty() {
+                    msg.push_str(&format!(
+                        "; {} {}",
+                        if sugg.len() == 1 { "its replacement is" } else { "replacements are" },
+                        sugg.iter().map(|s| s.code.as_str()).take(NAMED_LIMIT).collect::<Vec<_>>().join(", ")
+                    ));
+                    if !listed.is_empty() {
+                        msg.push_str(&format!(" ({} already in the list)", listed.len()));
+                    }
+                }
+                e.findings.push(finding(Kind::Retired, Severity::Error, msg, sugg));
+            }
+            (Some(first), _) if first > period.to => {
+                e.status = Status::NotYetValid;
+                let sugg: Vec<Suggestion> = view
+                    .predecessors(ord)
+                    .into_iter()
+                    .filter(|(p, _)| view.billable_in(*p, period))
+                    .map(|(p, d)| suggestion(view, p, format!("conversion table: coded as this until {}", d.pred())))
+                    .collect();
+                let mut msg = format!(
+                    "{shown} is not valid yet {span_text}: its first valid day is {first}"
+                );
+                if !sugg.is_empty() {
+                    msg.push_str(&format!(
+                        "; before that its data was coded as {}",
+                        sugg.iter().map(|s| s.code.as_str()).collect::<Vec<_>>().join(", ")
+                    ));
+                }
+                e.findings.push(finding(Kind::NotYetValid, Severity::Error, msg, sugg));
+            }
+            _ => {
+                e.status = Status::Retired;
+                e.findings.push(finding(
+                    Kind::Retired,
+                    Severity::Error,
+                    format!("{shown} is not in use {span_text}"),
+                    vec![],
+                ));
+            }
+        }
+        return;
+    }
+    // Mixed: billable on part of the period.
+    e.status = Status::Partial;
+    let mut parts = Vec::new();
+    let mut sugg = Vec::new();
+    let mut seen = HashSet::new();
+    for (p, k) in &segs {
+        match k {
+            Some(SpanKind::Billable) => parts.push(format!("billable from {} to {}", p.from, p.to)),
+            Some(SpanKind::Header) => {
+                let kids = billable_under(view, ord, p);
+                let have = kids.iter().filter(|o| ctx.reached.contains(o)).count();
+                parts.push(format!(
+                    "from {} to {} a header over {} billable code{} ({}), {}",
+                    p.from,
+                    p.to,
+                    kids.len(),
+                    if kids.len() == 1 { "" } else { "s" },
+                    name_codes(view, &kids),
+                    in_list(have, kids.len())
+                ));
+                for &o in kids.iter().filter(|o| !ctx.reached.contains(o)) {
+                    if seen.insert(o) && sugg.len() < NAMED_LIMIT {
+                        sugg.push(suggestion(view, o, format!("covers {} to {} under it", p.from, p.to)));
+                    }
+                }
+            }
+            None => {
+                let before = p.to < segs.iter().find(|(_, k)| k.is_some()).map_or(p.from, |s| s.0.from);
+                let cover: Vec<(u32, Date)> = if before {
+                    view.predecessors(ord)
+                } else {
+                    view.successors(ord).collect()
+                };
+                let cover: Vec<u32> = cover
+                    .into_iter()
+                    .map(|(o, _)| o)
+                    .filter(|o| view.billable_in(*o, p) && *o != ord)
+                    .collect();
+                let have = cover.iter().filter(|o| ctx.reached.contains(o)).count();
+                let what = if before { "not yet valid" } else { "retired" };
+                if cover.is_empty() {
+                    parts.push(format!("from {} to {} {what}", p.from, p.to));
+                } else {
+                    parts.push(format!(
+                        "from {} to {} {what}, its data coded as {} ({})",
+                        p.from,
+                        p.to,
+                        name_codes(view, &cover),
+                        in_list(have, cover.len())
+                    ));
+                }
+                for &o in cover.iter().filter(|o| !ctx.reached.contains(o)) {
+                    if seen.insert(o) && sugg.len() < NAMED_LIMIT {
+                        sugg.push(suggestion(
+                            view,
+                            o,
+                            format!("conversion table: covers {} to {}", p.from, p.to),
+                        ));
+                    }
+                }
+            }
+        }
+    }
+    e.findings.push(finding(
+        Kind::PartialPeriod,
+        Severity::Warning,
+        format!("{shown} is billable for part of the period only: {}", parts.join("; ")),
+        sugg,
+    ));
+}
+
+/// A code already covered by a header ancestor (a header throughout the
+/// period) or by a pattern elsewhere in the list.
+fn redundant(view: &View<'_>, period: &Period, ctx: &ListContext, ord: u32, line: usize) -> Option<Finding> {
+    let shown = || view.display(&view.code(ord));
+    for a in view.ancestors(ord) {
+        let Some(lines) = ctx.listed.get(&a) else { continue };
+        let header_throughout = view.header(a).any(|p| p.covers(period));
+        if header_throughout {
+            return Some(finding(
+                Kind::Redundant,
+                Severity::Warning,
+                format!(
+                    "{} is under {} (line {}), which the list already has; if the query takes codes with everything under them, this line adds nothing",
+                    shown(),
+                    view.display(&view.code(a)),
+                    lines[0]
+                ),
+                vec![],
+            ));
+        }
+    }
+    match ctx.by_pattern.get(&ord) {
+        Some(&pl) if pl != line => Some(finding(
+            Kind::Redundant,
+            Severity::Warning,
+            format!("{} is already matched by the pattern on line {pl}", shown()),
+            vec![],
+        )),
+        _ => None,
+    }
+}
+
+/// The days a code was billable and a header, in order (for pictures).
+pub fn timeline<D: AsRef<[u8]>>(index: &Index<D>, code: &str) -> Option<Vec<Span>> {
+    let view = index.view();
+    let Resolved::Found { ord, .. } = code::resolve(&view, code) else {
+        return None;
+    };
+    let mut spans: Vec<Span> = view
+        .billable(ord)
+        .map(|p| Span { kind: SpanKind::Billable, from: p.from, to: p.to })
+        .chain(view.header(ord).map(|p| Span { kind: SpanKind::Header, from: p.from, to: p.to }))
+        .collect();
+    spans.sort_by_key(|s| s.from);
+    Some(spans)
+}
+
+/// How much of one category a list covers in the period.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct CategoryCoverage {
+    /// The category (`E11`).
+    pub category: String,
+    /// Its description.
+    pub description: String,
+    /// Billable codes under it in the period that the list reaches.
+    pub included: u32,
+    /// Billable codes under it in the period.
+    pub total: u32,
+}
+
+/// Coverage of every category the list touches, in code order.
+pub fn category_coverage<D: AsRef<[u8]>>(index: &Index<D>, report: &Report, options: &CheckOptions) -> Vec<CategoryCoverage> {
+    let view = index.view();
+    let period = options.period();
+    let mut reached: HashSet<u32> = HashSet::new();
+    for e in &report.entries {
+        let Some(code) = &e.code else { continue };
+        match pattern::parse(code) {
+            Some(Ok(p)) => reached.extend(p.expand(&view, &period)),
+            Some(Err(_)) => {}
+            None => {
+                if let Resolved::Found { ord, .. } = code::resolve(&view, code) {
+                    if view.billable_in(ord, &period) {
+                        reached.insert(ord);
+                    }
+                }
+            }
+        }
+    }
+    let mut cats: Vec<u32> = reached
+        .iter()
+        .filter_map(|&o| {
+            std::iter::once(o)
+                .chain(view.ancestors(o))
+                .last()
+        })
+        .collect::<HashSet<_>>()
+        .into_iter()
+        .collect();
+    cats.sort();
+    cats.into_iter()
+        .map(|c| {
+            let all: Vec<u32> = std::iter::once(c)
+                .chain(c + 1..view.subtree_end(c))
+                .filter(|&o| view.billable_in(o, &period))
+                .collect();
+            CategoryCoverage {
+                category: view.display(&view.code(c)),
+                description: view.description(c),
+                included: all.iter().filter(|o| reached.contains(o)).count() as u32,
+                total: all.len() as u32,
+            }
+        })
+        .collect()
+}

@@ -1,1 +1,345 @@
-//! todo
+//! Reading a pasted or uploaded list into lines: plain lines (`code label`),
+//! CSV or TSV with a code column and an optional label column. Every input
+//! line comes back, so the report can account for each one.
+
+/// What a line of the input is.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum LineKind {
+    /// Empty or whitespace only.
+    Blank,
+    /// Starts with `#` or `//`.
+    Comment,
+    /// The row of column names of a CSV or TSV.
+    Headings,
+    /// A code (or pattern) to check, with the label written beside it.
+    Entry {
+        /// The code cell as written, trimmed.
+        code: String,
+        /// The label cell, if any and not empty.
+        label: Option<String>,
+    },
+    /// A row that cannot be read; the message says why and what to do.
+    Unreadable(String),
+}
+
+/// One physical line of the input.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct InputLine {
+    /// 1-based line number.
+    pub number: usize,
+    /// The line as written, without its line ending.
+    pub text: String,
+    /// What the line is.
+    pub kind: LineKind,
+}
+
+/// How the list was laid out.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Layout {
+    /// One code per line, optionally followed by a label.
+    Plain,
+    /// Comma-separated with the code in this column (0-based) and maybe a label column.
+    Csv(usize, Option<usize>),
+    /// Tab-separated (a spreadsheet paste) with code and label columns.
+    Tsv(usize, Option<usize>),
+}
+
+/// The layout and whether the first data row holds column names.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Detected {
+    /// Plain, CSV or TSV, with the columns.
+    pub layout: Layout,
+    /// Whether the first row that is not blank or a comment is column names.
+    pub headings: bool,
+}
+
+const HEADING_WORDS: &[&str] = &[
+    "code", "codes", "icd", "icd10", "icd10cm", "icd-10", "icd-10-cm", "dx", "diagnosis", "concept",
+    "description", "desc", "label", "name", "term", "display", "title", "category", "system",
+];
+const LABEL_WORDS: &[&str] = &["description", "desc", "label", "name", "term", "display", "title", "text"];
+
+fn is_skip(line: &str) -> Option<LineKind> {
+    let t = line.trim();
+    if t.is_empty() {
+        Some(LineKind::Blank)
+    } else if t.starts_with('#') || t.starts_with("//") {
+        Some(LineKind::Comment)
+    } else {
+        None
+    }
+}
+
+/// Whether a cell could be a code or a pattern: short, one token (or a
+/// range), made of letters, digits, dots and pattern marks, with a digit.
+pub fn code_like(cell: &str) -> bool {
+    let t = cell.trim();
+    !t.is_empty()
+        && t.len() <= 24
+        && t.chars().any(|c| c.is_ascii_digit())
+        && t.chars().all(|c| {
+            c.is_ascii_alphanumeric() || matches!(c, '.' | '*' | '%' | '-' | '–' | ' ')
+        })
+        && t.split_whitespace().filter(|w| !matches!(*w, "-" | "–")).count() <= 2
+}
+
+fn heading_word(cell: &str) -> Option<String> {
+    let w = cell.trim().trim_matches('"').to_ascii_lowercase();
+    let w = w.replace([' ', '_'], "");
+    HEADING_WORDS
+        .iter()
+        .any(|h| w == *h || w.starts_with(h) || w.ends_with("code"))
+        .then_some(w)
+}
+
+/// Splits one CSV line (RFC 4180 quoting, on one line). `Err` for an
+/// unterminated quote.
+pub fn split_csv(line: &str) -> Result<Vec<String>, String> {
+    if !line.contains('"') {
+        return Ok(line.split(',').map(str::to_string).collect());
+    }
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut chars = line.chars().peekable();
+    let mut quoted = false;
+    let mut at_start = true;
+    while let Some(c) = chars.next() {
+        match (quoted, c) {
+            (false, '"') if at_start && cur.trim().is_empty() => {
+                quoted = true;
+                cur.clear();
+            }
+            (true, '"') => {
+                if chars.peek() == Some(&'"') {
+                    cur.push('"');
+                    chars.next();
+                } else {
+                    quoted = false;
+                }
+            }
+            (false, ',') => {
+                out.push(std::mem::take(&mut cur));
+                at_start = true;
+                continue;
+            }
+            _ => cur.push(c),
+        }
+        at_start = false;
+    }
+    if quoted {
+        return Err("a quoted cell is not closed; add the closing \" or remove the opening one".into());
+    }
+    out.push(cur);
+    Ok(out)
+}
+
+fn split(layout: Layout, line: &str) -> Result<Vec<String>, String> {
+    match layout {
+        Layout::Tsv(..) => Ok(line.split('\t').map(str::to_string).collect()),
+        Layout::Csv(..) => split_csv(line),
+        Layout::Plain => Ok(vec![line.to_string()]),
+    }
+}
+
+/// Decides the layout from the first lines that hold data.
+pub fn detect(text: &str) -> Detected {
+    let sample: Vec<&str> = text
+        .lines()
+        .filter(|l| is_skip(l).is_none())
+        .take(200)
+        .collect();
+    let plain = Detected { layout: Layout::Plain, headings: false };
+    if sample.is_empty() {
+        return plain;
+    }
+    let tabs = sample.iter().filter(|l| l.contains('\t')).count();
+    let (delim_tsv, rows): (bool, Vec<Vec<String>>) = if tabs * 2 >= sample.len() {
+        (true, sample.iter().map(|l| l.split('\t').map(str::to_string).collect()).collect())
+    } else {
+        let commas = sample.iter().filter(|l| l.contains(',')).count();
+        if commas * 5 < sample.len() * 4 {
+            return plain;
+        }
+        (false, sample.iter().filter_map(|l| split_csv(l).ok()).collect())
+    };
+    let width = rows.iter().map(Vec::len).max().unwrap_or(1);
+    let first = &rows[0];
+    let has_headings = first.iter().any(|c| heading_word(c).is_some())
+        && !first.iter().any(|c| code_like(c) && heading_word(c).is_none());
+    let body = if has_headings && rows.len() > 1 { &rows[1..] } else { &rows[..] };
+    // The code column: a heading that names codes, else the most code-like column.
+    let score = |i: usize| {
+        body.iter()
+            .filter(|r| r.get(i).is_some_and(|c| code_like(c)))
+            .count()
+    };
+    let named = has_headings
+        .then(|| {
+            (0..width).find(|&i| {
+                first.get(i).and_then(|c| heading_word(c)).is_some_and(|w| {
+                    !LABEL_WORDS.iter().any(|l| w.starts_with(l)) && w != "category" && w != "system"
+                }) && score(i) * 2 >= body.len()
+            })
+        })
+        .flatten();
+    let code = named.unwrap_or_else(|| (0..width).max_by_key(|&i| (score(i), usize::MAX - i)).unwrap_or(0));
+    if score(code) * 2 < body.len() {
+        return plain;
+    }
+    let label = if has_headings {
+        (0..width).find(|&i| {
+            i != code
+                && first
+                    .get(i)
+                    .and_then(|c| heading_word(c))
+                    .is_some_and(|w| LABEL_WORDS.iter().any(|l| w.starts_with(l)))
+        })
+    } else {
+        None
+    }
+    .or_else(|| {
+        // The column with the most letters that is not the code column.
+        (0..width)
+            .filter(|&i| i != code)
+            .max_by_key(|&i| {
+                body.iter()
+                    .map(|r| r.get(i).map_or(0, |c| c.chars().filter(|c| c.is_alphabetic()).count()))
+                    .sum::<usize>()
+            })
+    });
+    Detected {
+        layout: if delim_tsv { Layout::Tsv(code, label) } else { Layout::Csv(code, label) },
+        headings: has_headings,
+    }
+}
+
+/// Reads a whole list. Every line of `text` is returned, in order.
+pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
+    let Detected { layout, headings } = detect(text);
+    let mut out = Vec::new();
+    let mut seen_data = false;
+    for (i, raw) in text.lines().enumerate() {
+        let line = raw.strip_suffix('\r').unwrap_or(raw);
+        let line = if i == 0 { line.trim_start_matches('\u{feff}') } else { line };
+        let kind = if let Some(k) = is_skip(line) {
+            k
+        } else {
+            let first_data = !seen_data;
+            seen_data = true;
+            match layout {
+                Layout::Plain => plain_entry(line),
+                Layout::Csv(c, l) | Layout::Tsv(c, l) => match split(layout, line) {
+                    Err(msg) => LineKind::Unreadable(msg),
+                    Ok(cells) => {
+                        let code = cells.get(c).map(|s| s.trim().to_string()).unwrap_or_default();
+                        let label = l
+                            .and_then(|l| cells.get(l))
+                            .map(|s| s.trim().to_string())
+                            .filter(|s| !s.is_empty());
+                        if first_data && headings {
+                            LineKind::Headings
+                        } else if code.is_empty() {
+                            LineKind::Unreadable(format!(
+                                "the code column (column {}) is empty on this row; put the code there or delete the row",
+                                c + 1
+                            ))
+                        } else {
+                            LineKind::Entry { code, label }
+                        }
+                    }
+                },
+            }
+        };
+        out.push(InputLine {
+            number: i + 1,
+            text: line.to_string(),
+            kind,
+        });
+    }
+    (layout, out)
+}
+
+/// A plain line: the code is the first word (words are joined when the code
+/// was written with spaces, as in `E11 .9`, `E 11.9` or a range `E08 - E13`),
+/// the rest is the label.
+fn plain_entry(line: &str) -> LineKind {
+    let words: Vec<&str> = line.split_whitespace().collect();
+    let mut n = 1;
+    let joins = |a: &str, b: &str| {
+        b.starts_with('.')
+            || a.ends_with('.')
+            || (a.len() == 1 && a.chars().all(|c| c.is_ascii_alphabetic()) && b.starts_with(|c: char| c.is_ascii_digit()))
+    };
+    while n < words.len() && n < 4 && joins(words[n - 1], words[n]) {
+        n += 1;
+    }
+    if words.len() >= n + 2 && matches!(words[n], "-" | "–") && code_like(words[n + 1]) {
+        n += 2;
+    }
+    let code = words[..n].join(if n >= 3 && matches!(words[n - 2], "-" | "–") { " " } else { "" });
+    let code = if code.contains(" - ") || code.contains(" – ") { code.replace(' ', "") } else { code };
+    let label = words[n..].join(" ");
+    let label = label.trim_start_matches(['-', '–', ':', '|']).trim().to_string();
+    LineKind::Entry {
+        code,
+        label: (!label.is_empty()).then_some(label),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn entries(text: &str) -> Vec<(String, Option<String>)> {
+        parse_list(text)
+            .1
+            .into_iter()
+            .filter_map(|l| match l.kind {
+                LineKind::Entry { code, label } => Some((code, label)),
+                _ => None,
+            })
+            .collect()
+    }
+
+    #[test]
+    fn plain_lines_with_labels_and_spaces() {
+        let e = entries("E11.9 Type 2 diabetes mellitus, without complications\nE11 .65\nE 10.9\nE08 - E13 diabetes\n");
+        assert_eq!(e[0].0, "E11.9");
+        assert_eq!(e[0].1.as_deref(), Some("Type 2 diabetes mellitus, without complications"));
+        assert_eq!(e[1].0, "E11.65");
+        assert_eq!(e[2].0, "E10.9");
+        assert_eq!(e[3], ("E08-E13".to_string(), Some("diabetes".to_string())));
+    }
+
+    #[test]
+    fn csv_with_headings_finds_code_and_label_columns() {
+        let (layout, lines) = parse_list(
+            "category,icd10cm,description\nAUTOIMMUNE,A1801,Tuberculosis of spine\nVALVE,A1884,\"Tuberculosis of heart, x\"\n",
+        );
+        assert_eq!(layout, Layout::Csv(1, Some(2)));
+        assert_eq!(lines[0].kind, LineKind::Headings);
+        assert_eq!(
+            lines[2].kind,
+            LineKind::Entry {
+                code: "A1884".into(),
+                label: Some("Tuberculosis of heart, x".into())
+            }
+        );
+    }
+
+    #[test]
+    fn spreadsheet_paste_is_tsv_and_every_line_is_kept() {
+        let (layout, lines) = parse_list("# my list\nE11.9\tType 2 DM\n\n\tno code\nI10\tHypertension\n");
+        assert_eq!(layout, Layout::Tsv(0, Some(1)));
+        assert_eq!(lines.len(), 5);
+        assert_eq!(lines[0].kind, LineKind::Comment);
+        assert_eq!(lines[2].kind, LineKind::Blank);
+        assert!(matches!(lines[3].kind, LineKind::Unreadable(_)));
+    }
+
+    #[test]
+    fn unterminated_quote_is_reported_on_its_line() {
+        let (_, lines) = parse_list("code,label\nE11.9,\"open\nI10,Hypertension\n");
+        assert!(matches!(lines[1].kind, LineKind::Unreadable(ref m) if m.contains("quoted")));
+    }
+}

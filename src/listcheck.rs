@@ -1,1 +1,178 @@
-//! todo
+//! Checks over the list as a whole: the same code twice (`duplicate`), every
+//! billable code under a node present (`roll-up`), and most but not all of
+//! them present (`sibling-gap`). `redundant` is judged per entry in `check`.
+
+use crate::check::{billable_under, name_codes, suggestion, ListContext, Marks, NAMED_LIMIT};
+use crate::index::View;
+use crate::model::Period;
+use crate::pattern::Pattern;
+use crate::report::{Kind, ListFinding, Severity, Suggestion};
+use std::collections::{BTreeSet, HashSet};
+
+/// Runs the whole-list checks.
+pub(crate) fn run(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
+    let mut out = duplicates(view, ctx);
+    out.extend(roll_ups(view, period, ctx));
+    out.extend(sibling_gaps(view, period, ctx));
+    out
+}
+
+fn lines_of(ctx: &ListContext, ords: &[u32]) -> Vec<usize> {
+    let mut l: Vec<usize> = ords
+        .iter()
+        .flat_map(|o| {
+            ctx.listed
+                .get(o)
+                .cloned()
+                .or_else(|| ctx.by_pattern.get(o).map(|&l| vec![l]))
+                .unwrap_or_default()
+        })
+        .collect();
+    l.sort();
+    l.dedup();
+    l
+}
+
+fn codes_of(view: &View<'_>, ords: &[u32]) -> Vec<String> {
+    ords.iter().map(|&o| view.display(&view.code(o))).collect()
+}
+
+/// Rule: a code (after normalisation) written on more than one line.
+fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
+    let mut dups: Vec<(&u32, &Vec<usize>)> = ctx.listed.iter().filter(|(_, l)| l.len() > 1).collect();
+    dups.sort_by_key(|(_, l)| l[0]);
+    dups.into_iter()
+        .map(|(&o, lines)| {
+            let shown = view.display(&view.code(o));
+            let l: Vec<String> = lines.iter().map(|n| n.to_string()).collect();
+            ListFinding {
+                kind: Kind::Duplicate,
+                severity: Severity::Warning,
+                lines: lines.clone(),
+                codes: vec![shown.clone()],
+                message: format!(
+                    "{shown} is on lines {}; keep one of them",
+                    match l.split_last() {
+                        Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
+                        _ => l.join(", "),
+                    }
+                ),
+                suggestions: vec![],
+            }
+        })
+        .collect()
+}
+
+/// Counts billable-in-period codes under `n`: (all, marked). Stops early,
+/// returning `None`, when `stop_on_unmarked` and an unmarked one is found.
+fn count_under(view: &View<'_>, period: &Period, n: u32, marks: &Marks, stop_on_unmarked: bool) -> Option<(usize, usize)> {
+    let (mut all, mut have) = (0, 0);
+    for o in n + 1..view.subtree_end(n) {
+        if view.billable_in(o, period) {
+            all += 1;
+            if marks.contains(&o) {
+                have += 1;
+            } else if stop_on_unmarked {
+                return None;
+            }
+        }
+    }
+    Some((all, have))
+}
+
+/// Rule: a node not in the list, with at least two billable codes under it
+/// in the period, all of them written explicitly in the list. Only the
+/// highest such node is reported; its suggestion, a pattern, matches
+/// exactly the codes it replaces.
+fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
+    let mut candidates: BTreeSet<u32> = BTreeSet::new();
+    for &o in &ctx.explicit {
+        candidates.extend(view.ancestors(o));
+    }
+    let mut full: HashSet<u32> = HashSet::new();
+    for &n in &candidates {
+        if ctx.listed.contains_key(&n) {
+            continue;
+        }
+        if let Some((all, _)) = count_under(view, period, n, &ctx.explicit, true) {
+            if all >= 2 {
+                full.insert(n);
+            }
+        }
+    }
+    let mut out = Vec::new();
+    for &n in &candidates {
+        if !full.contains(&n) || view.ancestors(n).any(|a| full.contains(&a)) {
+            continue;
+        }
+        let u = billable_under(view, n, period);
+        let shown = view.display(&view.code(n));
+        let pat = Pattern::Prefix(view.code(n)).display(view);
+        out.push(ListFinding {
+            kind: Kind::RollUp,
+            severity: Severity::Info,
+            lines: lines_of(ctx, &u),
+            codes: codes_of(view, &u),
+            message: format!(
+                "all {} billable codes under {shown} in the period are in the list; {pat} matches exactly these",
+                u.len()
+            ),
+            suggestions: vec![Suggestion {
+                code: pat.clone(),
+                description: view.description(n),
+                reason: format!("replaces the {} lines with one pattern", u.len()),
+            }],
+        });
+    }
+    out
+}
+
+/// Rule: a node not in the list with at least three billable codes under it
+/// in the period, of which more than half but not all are in the list
+/// (written or matched by a pattern). Reported at the lowest such node; a
+/// higher node is reported only if it is missing codes the lower ones do not name.
+fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
+    let mut candidates: BTreeSet<u32> = BTreeSet::new();
+    for &o in &ctx.reached {
+        candidates.extend(view.ancestors(o));
+    }
+    let mut by_depth: Vec<(usize, u32)> = candidates.into_iter().map(|n| (view.ancestors(n).count(), n)).collect();
+    by_depth.sort_by(|a, b| b.0.cmp(&a.0).then(a.1.cmp(&b.1)));
+    let mut named: HashSet<u32> = HashSet::new();
+    let mut out = Vec::new();
+    for (_, n) in by_depth {
+        if ctx.listed.contains_key(&n) {
+            continue;
+        }
+        let Some((all, have)) = count_under(view, period, n, &ctx.reached, false) else { continue };
+        if all < 3 || have < 2 || have == all || have * 2 <= all {
+            continue;
+        }
+        let u = billable_under(view, n, period);
+        let (have, missing): (Vec<u32>, Vec<u32>) = u.iter().partition(|o| ctx.reached.contains(o));
+        if missing.iter().all(|o| named.contains(o)) {
+            continue;
+        }
+        named.extend(missing.iter().copied());
+        let shown = view.display(&view.code(n));
+        out.push(ListFinding {
+            kind: Kind::SiblingGap,
+            severity: Severity::Info,
+            lines: lines_of(ctx, &have),
+            codes: codes_of(view, &missing),
+            message: format!(
+                "the list has {} of the {} billable codes under {shown} in the period; missing: {}",
+                have.len(),
+                u.len(),
+                name_codes(view, &missing)
+            ),
+            suggestions: missing
+                .iter()
+                .take(NAMED_LIMIT)
+                .map(|&o| suggestion(view, o, format!("under {shown}, not in the list")))
+                .collect(),
+        });
+    }
+    out.sort_by_key(|f| f.lines.first().copied());
+    out
+}

@@ -1,1 +1,202 @@
-//! todo
+//! Text and CSV forms of a report (JSON is the report's serde form).
+
+use crate::report::{Report, Severity, Suggestion};
+use std::fmt::Write;
+
+struct Row<'a> {
+    lines: Vec<usize>,
+    code: &'a str,
+    kind: &'static str,
+    severity: Severity,
+    message: &'a str,
+    suggestions: &'a [Suggestion],
+}
+
+fn rows(report: &Report) -> Vec<Row<'_>> {
+    let mut rows: Vec<Row> = report
+        .entries
+        .iter()
+        .flat_map(|e| {
+            e.findings.iter().map(move |f| Row {
+                lines: vec![e.line],
+                code: e.code.as_deref().unwrap_or(e.input.trim()),
+                kind: f.kind.name(),
+                severity: f.severity,
+                message: &f.message,
+                suggestions: &f.suggestions,
+            })
+        })
+        .chain(report.list_findings.iter().map(|f| Row {
+            lines: f.lines.clone(),
+            code: "",
+            kind: f.kind.name(),
+            severity: f.severity,
+            message: &f.message,
+            suggestions: &f.suggestions,
+        }))
+        .collect();
+    rows.sort_by_key(|r| (r.severity, r.lines.first().copied().unwrap_or(0)));
+    rows
+}
+
+fn line_label(lines: &[usize]) -> String {
+    match lines {
+        [] => "list".into(),
+        [one] => format!("line {one}"),
+        many if many.len() <= 4 => format!(
+            "lines {}",
+            many.iter().map(|l| l.to_string()).collect::<Vec<_>>().join(", ")
+        ),
+        many => format!("lines {}-{} ({} lines)", many[0], many[many.len() - 1], many.len()),
+    }
+}
+
+/// A report for a terminal: a heading, findings grouped by severity with
+/// line numbers and suggestions, and a summary line.
+pub fn text(report: &Report) -> String {
+    let mut s = String::new();
+    let o = &report.options;
+    let _ = writeln!(
+        s,
+        "rollcall: {} list checked against release {} (coverage {} to {})",
+        report.vocabulary, report.index.release, report.index.coverage_from, report.index.coverage_to
+    );
+    let _ = writeln!(
+        s,
+        "{}{}",
+        match o.on {
+            Some(d) => format!("on {d}"),
+            None => format!("study period {} to {}", o.from, o.to),
+        },
+        if o.billable { ", billable codes required" } else { "" }
+    );
+    let rows = rows(report);
+    for sev in [Severity::Error, Severity::Warning, Severity::Info] {
+        let group: Vec<&Row> = rows.iter().filter(|r| r.severity == sev).collect();
+        if group.is_empty() {
+            continue;
+        }
+        let _ = writeln!(s, "\n{} ({})", match sev {
+            Severity::Error => "ERRORS",
+            Severity::Warning => "WARNINGS",
+            Severity::Info => "NOTES",
+        }, group.len());
+        for r in group {
+            let head = line_label(&r.lines);
+            let _ = writeln!(
+                s,
+                "  {head:<10} {:<14} {}: {}",
+                if r.code.is_empty() { "-" } else { r.code },
+                r.kind,
+                r.message
+            );
+            for g in r.suggestions.iter().take(8) {
+                let _ = writeln!(s, "  {:<10}   -> {:<12} {}  ({})", "", g.code, g.description, g.reason);
+            }
+            if r.suggestions.len() > 8 {
+                let _ = writeln!(s, "  {:<10}   -> and {} more", "", r.suggestions.len() - 8);
+            }
+        }
+    }
+    let m = &report.summary;
+    let _ = writeln!(
+        s,
+        "\n{} lines, {} entries: {} error{}, {} warning{}, {} note{}",
+        m.lines,
+        m.entries,
+        m.errors,
+        if m.errors == 1 { "" } else { "s" },
+        m.warnings,
+        if m.warnings == 1 { "" } else { "s" },
+        m.infos,
+        if m.infos == 1 { "" } else { "s" }
+    );
+    s.push_str("rollcall helps assemble research code lists; it is not coding or billing advice.\n");
+    s
+}
+
+/// One CSV cell, quoted when needed; a cell that a spreadsheet would read
+/// as a formula (`=`, `+`, `-`, `@`) gets a leading apostrophe.
+pub fn csv_cell(v: &str) -> String {
+    let v = if v.starts_with(['=', '+', '-', '@']) { format!("'{v}") } else { v.to_string() };
+    if v.contains([',', '"', '\n', '\r']) {
+        format!("\"{}\"", v.replace('"', "\"\""))
+    } else {
+        v
+    }
+}
+
+/// A report as CSV: one row per finding, plus one row for each line
+/// without findings, so every input line appears.
+pub fn csv(report: &Report) -> String {
+    let mut s = String::from("lines,input,code,status,kind,severity,message,suggestions\n");
+    let sugg = |g: &[Suggestion]| {
+        g.iter()
+            .map(|x| format!("{} {}", x.code, x.description))
+            .collect::<Vec<_>>()
+            .join("; ")
+    };
+    for e in &report.entries {
+        let status = serde_json_name(&e.status);
+        let code = e.code.as_deref().unwrap_or("");
+        if e.findings.is_empty() {
+            let _ = writeln!(s, "{},{},{},{},,,,", e.line, csv_cell(&e.input), csv_cell(code), status);
+        }
+        for f in &e.findings {
+            let _ = writeln!(
+                s,
+                "{},{},{},{},{},{},{},{}",
+                e.line,
+                csv_cell(&e.input),
+                csv_cell(code),
+                status,
+                f.kind.name(),
+                f.severity.name(),
+                csv_cell(&f.message),
+                csv_cell(&sugg(&f.suggestions))
+            );
+        }
+    }
+    for f in &report.list_findings {
+        let lines: Vec<String> = f.lines.iter().map(|l| l.to_string()).collect();
+        let _ = writeln!(
+            s,
+            "{},,{},,{},{},{},{}",
+            csv_cell(&lines.join(" ")),
+            csv_cell(&f.codes.join(" ")),
+            f.kind.name(),
+            f.severity.name(),
+            csv_cell(&f.message),
+            csv_cell(&sugg(&f.suggestions))
+        );
+    }
+    s
+}
+
+fn serde_json_name(s: &crate::report::Status) -> &'static str {
+    use crate::report::Status::*;
+    match s {
+        Valid => "valid",
+        Header => "header",
+        Partial => "partial",
+        Retired => "retired",
+        NotYetValid => "not-yet-valid",
+        Unknown => "unknown",
+        Malformed => "malformed",
+        Pattern => "pattern",
+        Blank => "blank",
+        Comment => "comment",
+        ColumnHeadings => "column-headings",
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn csv_cells_are_quoted_and_neutralised() {
+        assert_eq!(super::csv_cell("=1+2"), "'=1+2");
+        assert_eq!(super::csv_cell("a,b"), "\"a,b\"");
+        assert_eq!(super::csv_cell("say \"x\""), "\"say \"\"x\"\"\"");
+        assert_eq!(super::csv_cell("-E11"), "'-E11");
+    }
+}

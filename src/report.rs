@@ -1,1 +1,243 @@
-//! todo
+//! The report a check returns: one entry per input line, findings per entry
+//! and for the whole list, and a summary. Its JSON form (serde) is the stable
+//! schema documented in the README; the field names are part of it.
+
+use crate::date::Date;
+use crate::model::Source;
+use serde::Serialize;
+
+/// How serious a finding is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Severity {
+    /// The list is wrong for the period; exit status 1.
+    Error,
+    /// Probably not what was meant; worth a look.
+    Warning,
+    /// Worth knowing; nothing to fix.
+    Info,
+}
+
+impl Severity {
+    /// The lower-case name used in every output.
+    pub fn name(self) -> &'static str {
+        match self {
+            Severity::Error => "error",
+            Severity::Warning => "warning",
+            Severity::Info => "info",
+        }
+    }
+}
+
+/// The kinds of finding; the names are stable (see the README for each rule).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Kind {
+    /// Written differently from the official form, but clearly this code.
+    Normalized,
+    /// Cannot be a code of this vocabulary.
+    Malformed,
+    /// Well formed, but in no release the index covers.
+    Unknown,
+    /// Valid only before the period.
+    Retired,
+    /// Valid only after the period.
+    NotYetValid,
+    /// A header (not billable) throughout the period.
+    Header,
+    /// Billable for part of the period only.
+    PartialPeriod,
+    /// The same code on more than one line.
+    Duplicate,
+    /// Already covered by an ancestor or a pattern in the list.
+    Redundant,
+    /// Every billable code under a node is in the list.
+    RollUp,
+    /// Most, not all, billable codes under a node are in the list.
+    SiblingGap,
+    /// A pattern or range, with what it matches.
+    Pattern,
+    /// A pattern or range that matches nothing in the period.
+    PatternEmpty,
+}
+
+impl Kind {
+    /// The stable name (`not-yet-valid`).
+    pub fn name(self) -> &'static str {
+        match self {
+            Kind::Normalized => "normalized",
+            Kind::Malformed => "malformed",
+            Kind::Unknown => "unknown",
+            Kind::Retired => "retired",
+            Kind::NotYetValid => "not-yet-valid",
+            Kind::Header => "header",
+            Kind::PartialPeriod => "partial-period",
+            Kind::Duplicate => "duplicate",
+            Kind::Redundant => "redundant",
+            Kind::RollUp => "roll-up",
+            Kind::SiblingGap => "sibling-gap",
+            Kind::Pattern => "pattern",
+            Kind::PatternEmpty => "pattern-empty",
+        }
+    }
+}
+
+/// What an entry turned out to be.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Status {
+    /// Billable throughout the period.
+    Valid,
+    /// A header throughout the period.
+    Header,
+    /// Billable for part of the period.
+    Partial,
+    /// Valid only before the period.
+    Retired,
+    /// Valid only after the period.
+    NotYetValid,
+    /// Well formed, in no release.
+    Unknown,
+    /// Not a code of this vocabulary.
+    Malformed,
+    /// A pattern or range.
+    Pattern,
+    /// A blank line (skipped).
+    Blank,
+    /// A comment line (skipped).
+    Comment,
+    /// The column headings of a CSV or TSV (skipped).
+    ColumnHeadings,
+}
+
+impl Status {
+    /// Whether the line was skipped rather than checked.
+    pub fn skipped(self) -> bool {
+        matches!(self, Status::Blank | Status::Comment | Status::ColumnHeadings)
+    }
+}
+
+/// A code to consider instead, or in addition.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Suggestion {
+    /// What to write (dotted code or a pattern).
+    pub code: String,
+    /// Its official description.
+    pub description: String,
+    /// Why it is suggested.
+    pub reason: String,
+}
+
+/// A finding on one entry.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Finding {
+    /// Kind.
+    pub kind: Kind,
+    /// Severity.
+    pub severity: Severity,
+    /// A sentence for people.
+    pub message: String,
+    /// Codes to consider.
+    pub suggestions: Vec<Suggestion>,
+}
+
+/// One input line and what was found on it.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Entry {
+    /// 1-based line number.
+    pub line: usize,
+    /// The line as written.
+    pub input: String,
+    /// The code it was read as (dotted), or the pattern, if any.
+    pub code: Option<String>,
+    /// The label written beside the code.
+    pub label: Option<String>,
+    /// The official description of the code.
+    pub description: Option<String>,
+    /// What the entry is.
+    pub status: Status,
+    /// Findings, most severe first.
+    pub findings: Vec<Finding>,
+}
+
+/// A finding about several lines together.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct ListFinding {
+    /// Kind.
+    pub kind: Kind,
+    /// Severity.
+    pub severity: Severity,
+    /// The lines concerned.
+    pub lines: Vec<usize>,
+    /// The codes concerned (dotted).
+    pub codes: Vec<String>,
+    /// A sentence for people.
+    pub message: String,
+    /// Codes to consider.
+    pub suggestions: Vec<Suggestion>,
+}
+
+/// The index a report was made against.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct IndexInfo {
+    /// Release tag.
+    pub release: String,
+    /// First day covered.
+    pub coverage_from: Date,
+    /// Last day covered.
+    pub coverage_to: Date,
+    /// Source files.
+    pub sources: Vec<Source>,
+}
+
+/// The options a report was made with.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct OptionsInfo {
+    /// The single reference date, when one was given.
+    pub on: Option<Date>,
+    /// First day of the study period.
+    pub from: Date,
+    /// Last day of the study period.
+    pub to: Date,
+    /// Whether billable codes were required.
+    pub billable: bool,
+}
+
+/// Counts over the whole report.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct Summary {
+    /// Input lines.
+    pub lines: usize,
+    /// Lines holding a code or pattern.
+    pub entries: usize,
+    /// Error-level findings.
+    pub errors: usize,
+    /// Warnings.
+    pub warnings: usize,
+    /// Infos.
+    pub infos: usize,
+}
+
+/// The result of checking one list.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+pub struct Report {
+    /// Vocabulary id (`icd10cm`).
+    pub vocabulary: String,
+    /// The index used.
+    pub index: IndexInfo,
+    /// The options used.
+    pub options: OptionsInfo,
+    /// One per input line.
+    pub entries: Vec<Entry>,
+    /// Findings about the list as a whole.
+    pub list_findings: Vec<ListFinding>,
+    /// Counts.
+    pub summary: Summary,
+}
+
+impl Report {
+    /// Whether any finding is an error (the CLI's exit status 1).
+    pub fn has_errors(&self) -> bool {
+        self.summary.errors > 0
+    }
+}

@@ -92,6 +92,7 @@ struct Layout {
     subt: Range,
     cnts: Range,
     spbk: Range,
+    spof: Range,
     scbk: Range,
     span: Range,
     succ: Range,
@@ -186,6 +187,7 @@ impl<D: AsRef<[u8]>> Index<D> {
         let subt = sec(b"SUBT", "subtrees missing")?;
         let cnts = sec(b"CNTS", "counts missing")?;
         let spbk = sec(b"SPBK", "span blocks missing")?;
+        let spof = sec(b"SPOF", "span offsets missing")?;
         let scbk = sec(b"SCBK", "successor blocks missing")?;
         let span = sec(b"SPAN", "date spans missing")?;
         let succ = sec(b"SUCC", "successors missing")?;
@@ -196,6 +198,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             || subt.1 != len * 2
             || cnts.1 != len * 4
             || spbk.1 != rec_blocks * 4
+            || spof.1 != len * 2
             || scbk.1 != rec_blocks * 4
             || span.1 % 8 != 0
             || succ.1 % 8 != 0
@@ -209,6 +212,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             subt,
             cnts,
             spbk,
+            spof,
             scbk,
             span,
             succ,
@@ -263,6 +267,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             subt: s(l.subt),
             cnts: s(l.cnts),
             spbk: s(l.spbk),
+            spof: s(l.spof),
             scbk: s(l.scbk),
             spans: s(l.span),
             succ: s(l.succ),
@@ -271,6 +276,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             len: l.len,
             meta: &self.meta,
             tree: &self.tree,
+            predecessors: std::cell::OnceCell::new(),
         }
     }
 
@@ -379,6 +385,7 @@ pub struct View<'a> {
     subt: &'a [u8],
     cnts: &'a [u8],
     spbk: &'a [u8],
+    spof: &'a [u8],
     scbk: &'a [u8],
     spans: &'a [u8],
     succ: &'a [u8],
@@ -387,6 +394,7 @@ pub struct View<'a> {
     len: usize,
     meta: &'a Meta,
     tree: &'a Tree,
+    predecessors: std::cell::OnceCell<std::collections::HashMap<u32, Vec<(u32, Date)>>>,
 }
 
 impl<'a> View<'a> {
@@ -429,14 +437,17 @@ impl<'a> View<'a> {
             if node.is_final() && acc + node.final_output().value() == target {
                 return String::from_utf8(key).unwrap_or_default();
             }
-            let mut pick = None;
-            for t in node.transitions() {
-                if acc + t.out.value() <= target {
-                    pick = Some(t);
+            // Outputs grow with the input byte, so binary-search the transitions.
+            let (mut lo, mut hi) = (0usize, node.len());
+            while lo < hi {
+                let mid = (lo + hi) / 2;
+                if acc + node.transition(mid).out.value() <= target {
+                    lo = mid + 1;
                 } else {
-                    break;
+                    hi = mid;
                 }
             }
+            let pick = lo.checked_sub(1).map(|i| node.transition(i));
             let Some(t) = pick else { break };
             acc += t.out.value();
             key.push(t.inp);
@@ -515,7 +526,8 @@ impl<'a> View<'a> {
     fn spans_of(&self, ord: u32) -> (usize, usize, usize) {
         let nb = self.count(ord, 0);
         let nh = self.count(ord, 1);
-        let start = self.run_start(self.spbk, ord, |o| self.count(o, 0) + self.count(o, 1));
+        let start = u32_at(self.spbk, ord as usize / REC_BLOCK * 4).unwrap_or(0) as usize
+            + Self::u16_at(self.spof, ord as usize) as usize;
         let total = self.spans.len() / 8;
         let s = start.min(total);
         (s, (s + nb).min(total), (s + nb + nh).min(total))
@@ -562,16 +574,21 @@ impl<'a> View<'a> {
         })
     }
 
-    /// Codes whose successors include `ord` (a scan of the records that
-    /// have successors; the table is small).
+    /// Codes whose successors include `ord`, with the day each handed over.
+    /// The reverse table is built on first use (one pass over the records).
     pub fn predecessors(&self, ord: u32) -> Vec<(u32, Date)> {
-        let mut out = Vec::new();
-        for o in 0..self.len as u32 {
-            if self.count(o, 2) > 0 {
-                out.extend(self.successors(o).filter(|(s, _)| *s == ord).map(|(_, d)| (o, d)));
+        let map = self.predecessors.get_or_init(|| {
+            let mut m: std::collections::HashMap<u32, Vec<(u32, Date)>> = Default::default();
+            for o in 0..self.len as u32 {
+                if self.count(o, 2) > 0 {
+                    for (s, d) in self.successors(o) {
+                        m.entry(s).or_default().push((o, d));
+                    }
+                }
             }
-        }
-        out
+            m
+        });
+        map.get(&ord).cloned().unwrap_or_default()
     }
 
     /// The official description (empty when the release gave none).
@@ -585,22 +602,18 @@ impl<'a> View<'a> {
         };
         let mut r = In::new(self.desc);
         r.pos = off as usize;
-        let mut cur = match r.str() {
-            Some(s) => s.to_string(),
-            None => return String::new(),
-        };
+        let Some(n) = r.varint() else { return String::new() };
+        let Some(first) = r.take(n as usize) else { return String::new() };
+        let mut cur = first.to_vec();
         for _ in 0..ord as usize % write::DESC_BLOCK {
-            let (Some(shared), Some(rest)) = (r.varint(), r.str()) else {
+            let (Some(shared), Some(n)) = (r.varint(), r.varint()) else {
                 return String::new();
             };
-            let keep = (shared as usize).min(cur.len());
-            if !cur.is_char_boundary(keep) {
-                return String::new();
-            }
-            cur.truncate(keep);
-            cur.push_str(rest);
+            let Some(rest) = r.take(n as usize) else { return String::new() };
+            cur.truncate((shared as usize).min(cur.len()));
+            cur.extend_from_slice(rest);
         }
-        cur
+        String::from_utf8(cur).unwrap_or_default()
     }
 
     fn own_seventh(&self, ord: u32) -> Option<u16> {

@@ -60,7 +60,7 @@ impl std::fmt::Display for WriteError {
 impl std::error::Error for WriteError {}
 
 /// Descriptions are front-coded in blocks of this many records.
-pub const DESC_BLOCK: usize = 64;
+pub const DESC_BLOCK: usize = 16;
 
 /// Serialises a release into index bytes.
 pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
@@ -122,13 +122,15 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
 
     // Columns by ordinal (the code itself is read back from the fst):
     // PARD parent distance, SUBT subtree size, CNTS counts per record,
-    // SPBK/SCBK where each block of records starts in SPAN/SUCC.
+    // SPBK/SCBK where each block of records starts in SPAN/SUCC, SPOF where
+    // each record's spans start within its block (span lookups are hot).
     let parents = parents(codes.iter().map(|c| c.code.as_str()), &ordinal);
     let ends = crate::model::subtree_ends(&codes.iter().map(|c| c.code.as_str()).collect::<Vec<_>>());
     let mut pard = Out::default();
     let mut subt = Out::default();
     let mut cnts = Out::default();
     let mut spbk = Out::default();
+    let mut spof = Out::default();
     let mut scbk = Out::default();
     let mut spans = Out::default();
     let mut succ = Out::default();
@@ -139,6 +141,8 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
             spbk.u32(n_spans);
             scbk.u32(n_succ);
         }
+        let block_start = u32::from_le_bytes(spbk.buf[spbk.buf.len() - 4..].try_into().unwrap_or([0; 4]));
+        spof.u16(u16::try_from(n_spans - block_start).map_err(|_| too_many("too many spans in a block", &c.code))?);
         let pd = if parents[i] == u32::MAX { 0 } else { i as u32 - parents[i] };
         pard.u16(u16::try_from(pd).map_err(|_| too_many("parent too far", &c.code))?);
         subt.u16(u16::try_from(ends[i] - i).map_err(|_| too_many("subtree too large", &c.code))?);
@@ -172,6 +176,7 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
         (*b"SUBT", subt),
         (*b"CNTS", cnts),
         (*b"SPBK", spbk),
+        (*b"SPOF", spof),
         (*b"SCBK", scbk),
         (*b"SPAN", spans),
         (*b"SUCC", succ),
