@@ -19,7 +19,7 @@ const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const gz = (buf) => zlib.gzipSync(buf, { level: 9 }).length;
 
 function sizes() {
-  const wasm = fs.readFileSync(path.join(DIST, "rollcall_web_bg.wasm"));
+  const wasm = fs.readFileSync(path.join(DIST, "rollcall-web_bg.wasm"));
   const index = fs.readFileSync(path.join(DIST, "icd10cm.rcx"));
   let js = 0;
   let jsGz = 0;

@@ -1,0 +1,47 @@
+//! Shared fixtures: the bundled index and the official source files.
+#![allow(dead_code)]
+
+use rollcall::{CheckOptions, Date, Index};
+use std::io::Read;
+use std::path::PathBuf;
+
+pub fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+/// The bundled index, as committed in vocab/.
+pub fn index() -> Index<Vec<u8>> {
+    let bytes = std::fs::read(root().join("vocab/icd10cm.rcx")).expect("vocab/icd10cm.rcx (run vocab-build)");
+    let index = Index::open(bytes).expect("bundled index opens");
+    index.verify().expect("bundled index checksum");
+    index
+}
+
+/// A gzip-compressed source file from vocab-build/sources or tests/data, as text.
+pub fn source(name: &str) -> String {
+    let path = [root().join("vocab-build/sources").join(name), root().join("tests/data").join(name)]
+        .into_iter()
+        .find(|p| p.exists())
+        .unwrap_or_else(|| panic!("source file {name} not found"));
+    let raw = std::fs::read(&path).unwrap();
+    let mut s = String::new();
+    flate2::read::MultiGzDecoder::new(&raw[..]).read_to_string(&mut s).unwrap();
+    s
+}
+
+pub fn day(s: &str) -> Date {
+    Date::parse(s).unwrap()
+}
+
+pub fn on(s: &str) -> CheckOptions {
+    CheckOptions::on(day(s), false)
+}
+
+pub fn period(a: &str, b: &str) -> CheckOptions {
+    CheckOptions { from: day(a), to: day(b), billable: false }
+}
+
+/// The Elixhauser v2026.1 list (AHRQ), as shipped: category,icd10cm,description.
+pub fn elixhauser() -> String {
+    source("elixhauser-ahrq-v2026.1.csv.gz")
+}
