@@ -84,6 +84,12 @@ export interface CategoryCoverage {
   total: number;
 }
 
+/** A change to the list; line numbers are those of the list as it is. */
+export type Edit =
+  | { op: "replace"; line: number; code: string }
+  | { op: "remove"; line: number }
+  | { op: "add"; after: number; code: string; label?: string | null };
+
 /** Spans per code; `null` for a code the index does not know. */
 export type Timelines = Record<string, Span[] | null>;
 "#;
@@ -104,7 +110,7 @@ extern "C" {
     pub type JsTimelines;
     #[wasm_bindgen(typescript_type = "string[]")]
     pub type JsCodes;
-    #[wasm_bindgen(typescript_type = "{ line: number; code: string }[]")]
+    #[wasm_bindgen(typescript_type = "Edit[]")]
     pub type JsEdits;
 }
 
@@ -237,11 +243,16 @@ fn today() -> Date {
     Date::from_days((js_sys::Date::now() / 86_400_000.0).floor() as i32)
 }
 
-/// One replacement: put `code` in place of the code written on input line `line` (1-based).
+/// One change to the list, with line numbers of the list as it is now (1-based).
 #[derive(Deserialize, Debug, Clone, PartialEq, Eq)]
-pub struct Edit {
-    pub line: usize,
-    pub code: String,
+#[serde(tag = "op", rename_all = "lowercase", deny_unknown_fields)]
+pub enum Edit {
+    /// Put `code` in place of the code written on `line`.
+    Replace { line: usize, code: String },
+    /// Delete `line`.
+    Remove { line: usize },
+    /// Add a line with `code` (and `label`, in the label column) after `after`.
+    Add { after: usize, code: String, label: Option<String> },
 }
 
 /// Byte range of cell `col` of a CSV line (quote-aware, as the core splits it).
@@ -290,54 +301,124 @@ fn plain_code_range(line: &str, code: &str) -> Option<(usize, usize)> {
     None
 }
 
-/// Replace the code written on some lines, leaving every other character of
-/// the list as it was (labels, other columns, line endings).
-pub fn replace_codes_in(text: &str, edits: &[Edit]) -> Result<String, String> {
+/// A new line holding `code` and `label` laid out like the rest of the list.
+fn new_line(layout: rollcall::input::Layout, code: &str, label: Option<&str>) -> String {
+    use rollcall::input::Layout;
+    let label = label.map(|l| l.replace(['\t', '\r', '\n'], " "));
+    match layout {
+        Layout::Plain => match label {
+            Some(l) => format!("{code} {l}"),
+            None => code.to_string(),
+        },
+        Layout::Tsv(c, l) | Layout::Csv(c, l) => {
+            let csv = matches!(layout, Layout::Csv(..));
+            let width = c.max(l.unwrap_or(0)) + 1;
+            let mut cells = vec![String::new(); width];
+            cells[c] = code.to_string();
+            if let (Some(l), Some(text)) = (l, label) {
+                cells[l] = if csv && text.contains([',', '"']) {
+                    format!("\"{}\"", text.replace('"', "\"\""))
+                } else {
+                    text
+                };
+            }
+            let line = cells.join(if csv { "," } else { "\t" });
+            line.trim_end_matches([',', '\t']).to_string()
+        }
+    }
+}
+
+fn check_code(code: &str) -> Result<(), String> {
+    if code.trim().is_empty() || code.contains(['\t', '\n', '\r', ',', '"']) {
+        return Err(format!("\u{201c}{code}\u{201d} cannot be written into the list"));
+    }
+    Ok(())
+}
+
+/// Apply edits to a list, leaving every other character as it was (labels,
+/// other columns, line endings). All line numbers refer to `text` as given.
+pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
     use rollcall::input::{LineKind, Layout};
     let (layout, lines) = rollcall::input::parse_list(text);
-    let mut physical: Vec<String> = text.split('\n').map(str::to_string).collect();
-    for edit in edits {
-        let Some(input) = lines.iter().find(|l| l.number == edit.line) else {
-            return Err(format!("the list has no line {}", edit.line));
+    let mut physical: Vec<Option<String>> = text.split('\n').map(|l| Some(l.to_string())).collect();
+    let mut added: std::collections::BTreeMap<usize, Vec<String>> = Default::default();
+    let count = lines.len();
+    let entry_code = |line: usize| -> Result<&str, String> {
+        let Some(input) = lines.iter().find(|l| l.number == line) else {
+            return Err(format!("the list has no line {line}"));
         };
-        let LineKind::Entry { code, .. } = &input.kind else {
-            return Err(format!("line {} holds no code to replace", edit.line));
-        };
-        if edit.code.contains(['\t', '\n', '\r', ',']) {
-            return Err(format!("\u{201c}{}\u{201d} cannot be written into the list", edit.code));
+        match &input.kind {
+            LineKind::Entry { code, .. } => Ok(code.as_str()),
+            _ => Err(format!("line {line} holds no code to replace")),
         }
-        let raw = &mut physical[edit.line - 1];
-        let (line, cr) = match raw.strip_suffix('\r') {
-            Some(l) => (l.to_string(), "\r"),
-            None => (raw.clone(), ""),
-        };
-        let range = match layout {
-            Layout::Tsv(col, _) => {
-                let mut start = 0;
-                let mut found = None;
-                for (i, cell) in line.split('\t').enumerate() {
-                    if i == col {
-                        found = Some((start, start + cell.len()));
-                        break;
-                    }
-                    start += cell.len() + 1;
+    };
+    for edit in edits {
+        match edit {
+            Edit::Remove { line } => {
+                if *line == 0 || *line > count {
+                    return Err(format!("the list has no line {line}"));
                 }
-                found
+                physical[line - 1] = None;
             }
-            Layout::Csv(col, _) => csv_cell_range(&line, col),
-            Layout::Plain => plain_code_range(&line, code),
-        };
-        let Some((a, b)) = range else {
-            return Err(format!("the code on line {} could not be found in the line", edit.line));
-        };
-        // Keep the cell's surrounding spaces.
-        let cell = &line[a..b];
-        let lead = cell.len() - cell.trim_start().len();
-        let trail = cell.len() - cell.trim_end().len();
-        let new = format!("{}{}{}{}", &line[..a + lead], edit.code, &line[b - trail..], cr);
-        *raw = new;
+            Edit::Add { after, code, label } => {
+                check_code(code)?;
+                if *after > count {
+                    return Err(format!("the list has no line {after}"));
+                }
+                added.entry(*after).or_default().push(new_line(layout, code, label.as_deref()));
+            }
+            Edit::Replace { line, code: new_code } => {
+                let written = entry_code(*line)?;
+                check_code(new_code)?;
+                let Some(raw) = physical[line - 1].as_mut() else {
+                    return Err(format!("line {line} is removed by another change"));
+                };
+                let (body, cr) = match raw.strip_suffix('\r') {
+                    Some(l) => (l.to_string(), "\r"),
+                    None => (raw.clone(), ""),
+                };
+                let range = match layout {
+                    Layout::Tsv(col, _) => {
+                        let mut start = 0;
+                        let mut found = None;
+                        for (i, cell) in body.split('\t').enumerate() {
+                            if i == col {
+                                found = Some((start, start + cell.len()));
+                                break;
+                            }
+                            start += cell.len() + 1;
+                        }
+                        found
+                    }
+                    Layout::Csv(col, _) => csv_cell_range(&body, col),
+                    Layout::Plain => plain_code_range(&body, written),
+                };
+                let Some((a, b)) = range else {
+                    return Err(format!("the code on line {line} could not be found in the line"));
+                };
+                // Keep the cell's surrounding spaces.
+                let cell = &body[a..b];
+                let lead = cell.len() - cell.trim_start().len();
+                let trail = cell.len() - cell.trim_end().len();
+                *raw = format!("{}{}{}{}", &body[..a + lead], new_code, &body[b - trail..], cr);
+            }
+        }
     }
-    Ok(physical.join("\n"))
+    // A list ending in a newline has one more piece than lines; added lines
+    // go before that empty tail.
+    let mut out: Vec<String> = Vec::with_capacity(physical.len());
+    if let Some(first) = added.get(&0) {
+        out.extend(first.iter().cloned());
+    }
+    for (i, line) in physical.into_iter().enumerate() {
+        if let Some(l) = line {
+            out.push(l);
+        }
+        if let Some(more) = added.get(&(i + 1)) {
+            out.extend(more.iter().cloned());
+        }
+    }
+    Ok(out.join("\n"))
 }
 
 /// A loaded, verified index and the last check made with it.
@@ -408,13 +489,13 @@ impl Checker {
         Ok(to_js(&rollcall::timeline(&self.index, code))?.unchecked_into())
     }
 
-    /// The list with the code on some lines replaced (`edits`: `[{line, code}]`),
-    /// every other character kept. Used to apply suggestions.
-    #[wasm_bindgen(js_name = replaceCodes)]
-    pub fn replace_codes(&self, text: &str, edits: JsEdits) -> Result<String, JsValue> {
+    /// The list with some edits applied (replace a line's code, remove a
+    /// line, add a line), every other character kept. Used to apply suggestions.
+    #[wasm_bindgen(js_name = editList)]
+    pub fn edit_list(&self, text: &str, edits: JsEdits) -> Result<String, JsValue> {
         let edits: Vec<Edit> = serde_wasm_bindgen::from_value(edits.into())
             .map_err(|e| fail("bad edits", e))?;
-        replace_codes_in(text, &edits).map_err(|e| fail("cannot apply the change", e))
+        edit_list(text, &edits).map_err(|e| fail("cannot apply the change", e))
     }
 
     /// Spans for many codes at once, keyed by the code as given.
@@ -481,34 +562,53 @@ mod tests {
         assert!(resolve_options(&half, today).unwrap_err().contains("both a start and an end"));
     }
 
-    fn edit(line: usize, code: &str) -> Edit {
-        Edit { line, code: code.into() }
+    fn replace(line: usize, code: &str) -> Edit {
+        Edit::Replace { line, code: code.into() }
     }
 
     #[test]
     fn replacing_keeps_labels_and_columns() {
         let tsv = "code\tlabel\ne119\tType 2\r\nI10\thypertension\n";
         assert_eq!(
-            replace_codes_in(tsv, &[edit(2, "E11.9")]).unwrap(),
+            edit_list(tsv, &[replace(2, "E11.9")]).unwrap(),
             "code\tlabel\nE11.9\tType 2\r\nI10\thypertension\n"
         );
         let csv = "label,code\n\"Diabetes, type 2\", e119 \nHypertension,I10\n";
         assert_eq!(
-            replace_codes_in(csv, &[edit(2, "E11.9")]).unwrap(),
+            edit_list(csv, &[replace(2, "E11.9")]).unwrap(),
             "label,code\n\"Diabetes, type 2\", E11.9 \nHypertension,I10\n"
         );
         let plain = "  E11 .9 diabetes\nI10 hypertension";
         assert_eq!(
-            replace_codes_in(plain, &[edit(1, "E11.9"), edit(2, "I10.0")]).unwrap(),
+            edit_list(plain, &[replace(1, "E11.9"), replace(2, "I10.0")]).unwrap(),
             "  E11.9 diabetes\nI10.0 hypertension"
         );
     }
 
     #[test]
-    fn replacing_refuses_what_it_cannot_do() {
-        assert!(replace_codes_in("E11.9\n# note\n", &[edit(2, "E10.9")]).unwrap_err().contains("no code"));
-        assert!(replace_codes_in("E11.9", &[edit(5, "E10.9")]).unwrap_err().contains("no line 5"));
-        assert!(replace_codes_in("E11.9", &[edit(1, "E10.9\tx")]).unwrap_err().contains("cannot be written"));
+    fn removing_and_adding_lines_follow_the_layout() {
+        let plain = "E11.0\nE11.1\nE11.9\n";
+        let edits = [replace(1, "E11.*"), Edit::Remove { line: 2 }, Edit::Remove { line: 3 }];
+        assert_eq!(edit_list(plain, &edits).unwrap(), "E11.*\n");
+        let add = |after, code: &str, label: Option<&str>| Edit::Add { after, code: code.into(), label: label.map(Into::into) };
+        assert_eq!(
+            edit_list("label,code\nDiabetes,E11.9\n", &[add(2, "E10.9", Some("Type 1, other"))]).unwrap(),
+            "label,code\nDiabetes,E11.9\n\"Type 1, other\",E10.9\n"
+        );
+        assert_eq!(
+            edit_list("E11.9\tdiabetes\nI10\thypertension", &[add(1, "E10.9", Some("type 1"))]).unwrap(),
+            "E11.9\tdiabetes\nE10.9\ttype 1\nI10\thypertension"
+        );
+        assert_eq!(edit_list("E11.9 diabetes", &[add(1, "E10.9", None)]).unwrap(), "E11.9 diabetes\nE10.9");
+    }
+
+    #[test]
+    fn edits_refuse_what_they_cannot_do() {
+        assert!(edit_list("E11.9\n# note\n", &[replace(2, "E10.9")]).unwrap_err().contains("no code"));
+        assert!(edit_list("E11.9", &[replace(5, "E10.9")]).unwrap_err().contains("no line 5"));
+        assert!(edit_list("E11.9", &[replace(1, "E10.9\tx")]).unwrap_err().contains("cannot be written"));
+        assert!(edit_list("E11.9", &[Edit::Remove { line: 1 }, replace(1, "E10.9")]).unwrap_err().contains("removed"));
+        assert!(edit_list("E11.9", &[Edit::Remove { line: 0 }]).unwrap_err().contains("no line 0"));
     }
 
     #[test]

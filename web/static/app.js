@@ -131,12 +131,13 @@ async function loadIndex() {
   }
   const name = indexFileName(manifest);
   const bytes = await fetchIndex(name, manifest.byte_length);
+  const got = bytes.byteLength; // the buffer moves to the worker
   let info;
   try {
     info = await ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
   } catch (e) {
     let msg = e.message.replace(/^Error: /, "");
-    if (bytes.byteLength === 0 && manifest.byte_length) msg += ` (the file arrived empty; ${formatBytes(manifest.byte_length)} were expected)`;
+    if (got !== manifest.byte_length) msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
     throw new Error(`${msg.charAt(0).toUpperCase()}${msg.slice(1)}`);
   }
   return info;
@@ -308,7 +309,7 @@ function renderRows() {
         .map(
           (sg, j) =>
             `<button type="button" class="suggestion" data-row="${i}" data-sugg="${j}" tabindex="-1" ` +
-            `title="${esc(sg.reason)}">Use <code>${esc(sg.code)}</code></button>` +
+            `title="${esc(sg.reason)}">${x.kind === "sibling-gap" ? "Add" : "Use"} <code>${esc(sg.code)}</code></button>` +
             `<span class="sugg-desc">${esc(sg.description)}${sg.reason ? ` — ${esc(sg.reason)}` : ""}</span>`,
         )
         .join("");
@@ -335,11 +336,11 @@ function renderRows() {
 
 // -------------------------------------------------------- applying fixes --
 
-/** Replace codes on some lines (in the worker, which knows the list's layout) and re-check. */
+/** Edit the list (in the worker, which knows the list's layout) and re-check. */
 async function applyEdits(edits, note) {
   const ta = $("list");
   try {
-    ta.value = await ask("replace", { text: ta.value, edits });
+    ta.value = await ask("edit", { text: ta.value, edits });
   } catch (e) {
     $("check-status").textContent = `Could not apply: ${e.message.replace(/^Error: /, "")}`;
     return;
@@ -348,16 +349,33 @@ async function applyEdits(edits, note) {
   await runCheck();
 }
 
+/** What applying a suggestion does, in list edits and in words. */
+function suggestionEdits(row, sugg) {
+  if (row.entry) {
+    return { edits: [{ op: "replace", line: row.line, code: sugg.code }], note: `Line ${row.line}: now ${sugg.code}.` };
+  }
+  if (row.kind === "sibling-gap") {
+    // A missing code: add it after the last line of the group.
+    const after = Math.max(...row.lines);
+    return { edits: [{ op: "add", after, code: sugg.code, label: sugg.description || null }], note: `Added ${sugg.code} after line ${after}.` };
+  }
+  // A finding about several lines (a roll-up): one line in their place.
+  const [first, ...rest] = row.lines;
+  return {
+    edits: [{ op: "replace", line: first, code: sugg.code }, ...rest.map((line) => ({ op: "remove", line }))],
+    note: `Lines ${row.lines.join(", ")}: now one line, ${sugg.code}.`,
+  };
+}
+
 function applySuggestion(row, sugg) {
-  // A finding about several lines puts the suggestion in the first line's place.
-  const line = row.entry ? row.line : row.lines[0];
-  return applyEdits([{ line, code: sugg.code }], `Line ${line}: now ${sugg.code}.`);
+  const { edits, note } = suggestionEdits(row, sugg);
+  return applyEdits(edits, note);
 }
 
 function applySafeFixes() {
   const edits = state.allRows
     .filter((row) => row.kind === "normalized" && row.entry && row.suggestions.length)
-    .map((row) => ({ line: row.line, code: row.suggestions[0].code }));
+    .map((row) => ({ op: "replace", line: row.line, code: row.suggestions[0].code }));
   return applyEdits(edits, `Applied ${plural(edits.length, "formatting fix")}.`);
 }
 

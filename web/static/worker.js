@@ -6,17 +6,17 @@
 //   <- {id, ok: true, result: IndexInfo}
 //   -> {id, type: "check", text: string, options: CheckOptionsInput}
 //   <- {id, ok: true, result: {report, coverage, checkMs, totalMs}}
-//   -> {id, type: "replace", text: string, edits: [{line, code}]}
-//   <- {id, ok: true, result: string}   (the list with those codes replaced)
+//   -> {id, type: "edit", text: string, edits: Edit[]}   (replace / remove / add)
+//   <- {id, ok: true, result: string}   (the list with the edits applied)
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen */
 "use strict";
 
-importScripts("./rollcall_web.js");
+importScripts("./rollcall-web.js");
 
-const wasmReady = wasm_bindgen({ module_or_path: "./rollcall_web_bg.wasm" });
+const wasmReady = wasm_bindgen({ module_or_path: "./rollcall-web_bg.wasm" });
 let checker = null;
 
 function load(bytes, manifest) {
@@ -75,9 +75,9 @@ self.onmessage = async (event) => {
       case "check":
         result = check(String(msg.text ?? ""), msg.options ?? {});
         break;
-      case "replace":
+      case "edit":
         if (!checker) throw new Error("the index is not loaded");
-        result = checker.replaceCodes(String(msg.text ?? ""), msg.edits ?? []);
+        result = checker.editList(String(msg.text ?? ""), msg.edits ?? []);
         break;
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
