@@ -384,7 +384,14 @@ fn judge(
                 for (o, d) in near {
                     let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
                     let live = view.billable_in(o, period);
-                    let mut why = if d == 1 { "one character different" } else { "two characters different" }.to_string();
+                    let mut why = if code::is_swap(&c, &view.code(o)) {
+                        "two neighbouring characters swapped"
+                    } else if d == 1 {
+                        "one character different"
+                    } else {
+                        "two characters different"
+                    }
+                    .to_string();
                     if same {
                         why.push_str(", same category");
                     }
@@ -562,9 +569,15 @@ fn judge_dates(
                     "{shown} is not valid yet {span_text}: its first valid day is {first}"
                 );
                 if !sugg.is_empty() {
+                    let have = view
+                        .predecessors(ord)
+                        .iter()
+                        .filter(|(p, _)| view.billable_in(*p, period) && ctx.reached.contains(p))
+                        .count();
                     msg.push_str(&format!(
-                        "; before that its data was coded as {}",
-                        sugg.iter().map(|s| s.code.as_str()).collect::<Vec<_>>().join(", ")
+                        "; before that its data was coded as {} ({})",
+                        sugg.iter().map(|s| s.code.as_str()).collect::<Vec<_>>().join(", "),
+                        in_list(have, sugg.len())
                     ));
                 }
                 e.findings.push(finding(Kind::NotYetValid, Severity::Error, msg, sugg));

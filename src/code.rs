@@ -221,16 +221,29 @@ pub fn near(view: &View<'_>, code: &str) -> Vec<(u32, u8)> {
     out
 }
 
+/// Whether `b` is `a` with two neighbouring characters swapped (the most
+/// common typing slip, so such codes are offered first).
+pub fn is_swap(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    if a.len() != b.len() {
+        return false;
+    }
+    let diff: Vec<usize> = (0..a.len()).filter(|&i| a[i] != b[i]).collect();
+    matches!(diff[..], [i, j] if j == i + 1 && a[i] == b[j] && a[j] == b[i])
+}
+
 /// Ranks near codes for a suggestion list: same category first, then codes
-/// billable in the period, then fewer edits, then code order.
+/// billable in the period, then fewer edits (a swap of neighbours first),
+/// then code order.
 pub fn rank_near(view: &View<'_>, code: &str, near: Vec<(u32, u8)>, period: &Period, limit: usize) -> Vec<(u32, u8)> {
     let cat = code.get(..3).unwrap_or(code);
     let mut v: Vec<_> = near
         .into_iter()
         .map(|(o, d)| {
-            let same = view.code(o).starts_with(cat);
+            let c = view.code(o);
+            let same = c.starts_with(cat);
             let live = view.billable_in(o, period);
-            ((!same, !live, d, o), (o, d))
+            ((!same, !live, d, !is_swap(code, &c), o), (o, d))
         })
         .collect();
     v.sort();

@@ -114,8 +114,8 @@ fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFind
             lines: lines_of(ctx, &u),
             codes: codes_of(view, &u),
             message: format!(
-                "all {} billable codes under {shown} in the period are in the list; {pat} matches exactly these",
-                u.len()
+                "{} billable codes under {shown} in the period are in the list; {pat} matches exactly these",
+                if u.len() == 2 { "both".to_string() } else { format!("all {}", u.len()) }
             ),
             suggestions: vec![Suggestion {
                 code: pat.clone(),

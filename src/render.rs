@@ -19,7 +19,7 @@ fn rows(report: &Report) -> Vec<Row<'_>> {
         .flat_map(|e| {
             e.findings.iter().map(move |f| Row {
                 lines: vec![e.line],
-                code: e.code.as_deref().unwrap_or(e.input.trim()),
+                code: e.code.as_deref().unwrap_or_else(|| first_cell(&e.input)),
                 kind: f.kind.name(),
                 severity: f.severity,
                 message: &f.message,
@@ -37,6 +37,13 @@ fn rows(report: &Report) -> Vec<Row<'_>> {
         .collect();
     rows.sort_by_key(|r| (r.severity, r.lines.first().copied().unwrap_or(0)));
     rows
+}
+
+/// The first cell of a line, for naming an entry that has no code.
+fn first_cell(input: &str) -> &str {
+    let t = input.trim();
+    let end = t.find(['\t', ',', ' ']).unwrap_or(t.len());
+    &t[..end]
 }
 
 fn line_label(lines: &[usize]) -> String {

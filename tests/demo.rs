@@ -1,0 +1,97 @@
+//! The demo list (an invented study, demo-data/demo-list.tsv) has one example of
+//! every finding kind; its text and JSON reports are pinned as snapshots.
+//! Set UPDATE_SNAPSHOTS=1 to rewrite them after an intended change, then
+//! read the diff before committing.
+
+mod common;
+
+use common::*;
+use rollcall::{check, render, CheckOptions, Kind};
+use std::collections::BTreeSet;
+
+fn demo() -> String {
+    std::fs::read_to_string(root().join("demo-data/demo-list.tsv")).unwrap()
+}
+
+fn demo_options() -> CheckOptions {
+    period("2019-01-01", "2024-12-31")
+}
+
+fn snapshot(name: &str, got: &str) {
+    let path = root().join("tests/snapshots").join(name);
+    if std::env::var_os("UPDATE_SNAPSHOTS").is_some() {
+        std::fs::write(&path, got).unwrap();
+        return;
+    }
+    let want = std::fs::read_to_string(&path).unwrap_or_default();
+    if want != got {
+        let first = want
+            .lines()
+            .zip(got.lines())
+            .position(|(a, b)| a != b)
+            .unwrap_or(want.lines().count().min(got.lines().count()));
+        panic!(
+            "{name} differs from the snapshot at line {}:\n  want: {:?}\n  got:  {:?}\n(UPDATE_SNAPSHOTS=1 rewrites it)",
+            first + 1,
+            want.lines().nth(first),
+            got.lines().nth(first)
+        );
+    }
+}
+
+#[test]
+fn demo_list_has_every_finding_kind() {
+    let index = index();
+    let r = check(&index, &demo(), &demo_options());
+    let kinds: BTreeSet<Kind> = r
+        .entries
+        .iter()
+        .flat_map(|e| e.findings.iter().map(|f| f.kind))
+        .chain(r.list_findings.iter().map(|f| f.kind))
+        .collect();
+    let all = [
+        Kind::Normalized,
+        Kind::Malformed,
+        Kind::Unknown,
+        Kind::Retired,
+        Kind::NotYetValid,
+        Kind::Header,
+        Kind::PartialPeriod,
+        Kind::Duplicate,
+        Kind::Redundant,
+        Kind::RollUp,
+        Kind::SiblingGap,
+        Kind::Pattern,
+        Kind::PatternEmpty,
+    ];
+    for k in all {
+        assert!(kinds.contains(&k), "the demo list has no {} finding", k.name());
+    }
+    assert_eq!(r.summary.lines, demo().lines().count());
+    assert_eq!(r.entries.len(), r.summary.lines, "every line is accounted for");
+}
+
+#[test]
+fn demo_text_report_snapshot() {
+    let index = index();
+    snapshot("demo.txt", &render::text(&check(&index, &demo(), &demo_options())));
+}
+
+#[test]
+fn demo_json_report_snapshot() {
+    let index = index();
+    let r = check(&index, &demo(), &demo_options());
+    snapshot("demo.json", &(serde_json::to_string_pretty(&r).unwrap() + "\n"));
+}
+
+#[test]
+fn demo_with_billable_required_makes_headers_errors() {
+    let index = index();
+    let mut o = demo_options();
+    o.billable = true;
+    let r = check(&index, &demo(), &o);
+    let header = r.entries.iter().find(|e| e.code.as_deref() == Some("I50.2")).unwrap();
+    assert_eq!(header.findings[0].severity, rollcall::Severity::Error);
+    let plain = check(&index, &demo(), &demo_options());
+    assert_eq!(r.summary.errors, plain.summary.errors + 1);
+}
