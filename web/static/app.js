@@ -21,6 +21,7 @@ let nextId = 1;
 
 worker.onmessage = (event) => {
   const { id, ok, result, error } = event.data;
+  document.body.dataset.replyAt = String(performance.now());
   const p = pending.get(id);
   if (!p) return;
   pending.delete(id);
@@ -246,13 +247,15 @@ function findingRows(report) {
   const rows = [];
   for (const e of report.entries) {
     for (const f of e.findings) {
-      rows.push({ line: e.line, lines: [e.line], input: e.input, entry: e, ...pick(f) });
+      rows.push({ line: e.line, lines: [e.line], input: e.code ?? e.input.trim(), entry: e, ...pick(f) });
     }
   }
   for (const f of report.list_findings) {
     rows.push({ line: f.lines[0] ?? 0, lines: f.lines, input: f.codes.join(", "), entry: null, ...pick(f) });
   }
-  rows.sort((a, b) => a.line - b.line);
+  // Errors first, then warnings, then info; by line within each.
+  const rank = { error: 0, warning: 1, info: 2 };
+  rows.sort((a, b) => (rank[a.severity] ?? 3) - (rank[b.severity] ?? 3) || a.line - b.line);
   return rows;
 }
 
@@ -316,9 +319,9 @@ function renderRows() {
       const lines = x.lines.length > 1 ? x.lines.join(", ") : String(x.line);
       return (
         `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${x.severity}">` +
-        `<td class="num">${lines}</td><td><code>${esc(x.input)}</code></td>` +
+        `<td class="num">${lines}</td><td class="input"><code>${esc(x.input)}</code></td>` +
         `<td><span class="sev sev-${x.severity}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
-        `<td>${esc(x.kind)}</td><td>${esc(x.message)}</td><td class="suggs">${sugg || '<span class="hint">—</span>'}</td></tr>`
+        `<td>${esc(x.kind)}</td><td class="what">${esc(x.message)}</td><td class="suggs">${sugg || '<span class="hint">—</span>'}</td></tr>`
       );
     })
     .join("");

@@ -57,7 +57,7 @@ export function stripSvg(spans, coverage, period, width = 420) {
   for (let y = y0 + 1; y <= y1; y++) {
     const tx = x(`${y}-01-01`);
     out += `<line x1="${tx.toFixed(1)}" y1="${top + h}" x2="${tx.toFixed(1)}" y2="${top + h + 3}" class="tick"/>`;
-    if ((y - y0) % 2 === 1 || y1 - y0 <= 6) out += `<text x="${tx.toFixed(1)}" y="${top + h + 13}" class="tick-label">${y}</text>`;
+    if (((y - y0) % 2 === 1 || y1 - y0 <= 6) && tx > 12 && tx < width - 12) out += `<text x="${tx.toFixed(1)}" y="${top + h + 13}" class="tick-label">${y}</text>`;
   }
   // The study period (or the single day): a bold frame with marks above.
   const p0 = x(period.from);
