@@ -27,7 +27,11 @@ pub struct CheckOptions {
 impl CheckOptions {
     /// A single reference date.
     pub fn on(day: Date, billable: bool) -> CheckOptions {
-        CheckOptions { from: day, to: day, billable }
+        CheckOptions {
+            from: day,
+            to: day,
+            billable,
+        }
     }
 
     /// The study period as a [`Period`].
@@ -47,7 +51,11 @@ pub const NAMED_LIMIT: usize = 12;
 pub(crate) enum Item {
     Skip(Status),
     Unreadable(String),
-    Code { ord: u32, changes: Vec<&'static str>, written: String },
+    Code {
+        ord: u32,
+        changes: Vec<&'static str>,
+        written: String,
+    },
     Unknown(String),
     Malformed(String),
     Pattern(Pattern, Vec<u32>),
@@ -124,7 +132,10 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
     let (_, lines) = parse_list(text);
 
     // Pass 1: what each line is.
-    let items: Vec<Item> = lines.iter().map(|l| resolve_line(&view, &l.kind, &period)).collect();
+    let items: Vec<Item> = lines
+        .iter()
+        .map(|l| resolve_line(&view, &l.kind, &period))
+        .collect();
 
     // The list context.
     let mut ctx = ListContext {
@@ -171,7 +182,16 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
             status: Status::Malformed,
             findings: Vec::new(),
         };
-        judge(&view, options, &period, &ctx, item, l.number, &mut e, &mut suggestions_left);
+        judge(
+            &view,
+            options,
+            &period,
+            &ctx,
+            item,
+            l.number,
+            &mut e,
+            &mut suggestions_left,
+        );
         e.findings.sort_by_key(|f| f.severity);
         entries.push(e);
     }
@@ -229,7 +249,11 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
             }
             Some(Err(m)) => Item::BadPattern(m),
             None => match code::resolve(view, code) {
-                Resolved::Found { ord, changes } => Item::Code { ord, changes, written: code.trim().to_string() },
+                Resolved::Found { ord, changes } => Item::Code {
+                    ord,
+                    changes,
+                    written: code.trim().to_string(),
+                },
                 Resolved::Unknown { code } => Item::Unknown(code),
                 Resolved::Malformed { reason } => Item::Malformed(reason),
             },
@@ -245,7 +269,12 @@ pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -
     }
 }
 
-fn finding(kind: Kind, severity: Severity, message: String, suggestions: Vec<Suggestion>) -> Finding {
+fn finding(
+    kind: Kind,
+    severity: Severity,
+    message: String,
+    suggestions: Vec<Suggestion>,
+) -> Finding {
     Finding {
         kind,
         severity,
@@ -256,7 +285,11 @@ fn finding(kind: Kind, severity: Severity, message: String, suggestions: Vec<Sug
 
 /// Names codes for a message: `E11.9`, `E11.9 and E11.65`, `E11.9, E11.65 and 3 more`.
 pub(crate) fn name_codes(view: &View<'_>, ords: &[u32]) -> String {
-    let shown: Vec<String> = ords.iter().take(3).map(|&o| view.display(&view.code(o))).collect();
+    let shown: Vec<String> = ords
+        .iter()
+        .take(3)
+        .map(|&o| view.display(&view.code(o)))
+        .collect();
     match (ords.len(), shown.as_slice()) {
         (0, _) => "none".into(),
         (1, [a]) => a.clone(),
@@ -273,7 +306,11 @@ fn in_list(have: usize, of: usize) -> String {
         (0, 1) => "not in the list".into(),
         (0, _) => "none of them in the list".into(),
         (1, 1) => "in the list".into(),
-        (h, n) if h == n => format!("all {} in the list", if n == 2 { "both" } else { "of them" }).replace("all both", "both"),
+        (h, n) if h == n => format!(
+            "all {} in the list",
+            if n == 2 { "both" } else { "of them" }
+        )
+        .replace("all both", "both"),
         (h, _) => format!("{h} of them in the list"),
     }
 }
@@ -326,15 +363,18 @@ fn judge(
         Item::Skip(s) => e.status = s,
         Item::Unreadable(m) => {
             e.status = Status::Malformed;
-            e.findings.push(finding(Kind::Malformed, Severity::Error, m, vec![]));
+            e.findings
+                .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
         }
         Item::Malformed(reason) => {
             e.status = Status::Malformed;
-            e.findings.push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
+            e.findings
+                .push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
         }
         Item::BadPattern(m) => {
             e.status = Status::Malformed;
-            e.findings.push(finding(Kind::Malformed, Severity::Error, m, vec![]));
+            e.findings
+                .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
         }
         Item::Pattern(p, matched) => {
             let shown = p.display(view);
@@ -408,9 +448,14 @@ fn judge(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
                 ));
             }
-            e.findings.push(finding(Kind::Unknown, Severity::Error, msg, sugg));
+            e.findings
+                .push(finding(Kind::Unknown, Severity::Error, msg, sugg));
         }
-        Item::Code { ord, mut changes, written } => {
+        Item::Code {
+            ord,
+            mut changes,
+            written,
+        } => {
             if !ctx.dotted {
                 changes.retain(|c| *c != "dot added");
             }
@@ -447,7 +492,11 @@ fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
     if rule.extensions.iter().any(|(c, _)| *c == ch) {
         return None;
     }
-    let allowed: Vec<String> = rule.extensions.iter().map(|(c, m)| format!("{c} ({m})")).collect();
+    let allowed: Vec<String> = rule
+        .extensions
+        .iter()
+        .map(|(c, m)| format!("{c} ({m})"))
+        .collect();
     Some(format!(
         "the 7th character {ch} is not one the tabular list allows under {}: {}",
         view.display(&view.code(ord)),
@@ -488,7 +537,12 @@ fn judge_dates(
             if under.len() == 1 { "" } else { "s" },
             in_list(have, under.len())
         );
-        if let Some(last) = billable.iter().filter(|p| p.to < period.from).map(|p| p.to).max() {
+        if let Some(last) = billable
+            .iter()
+            .filter(|p| p.to < period.from)
+            .map(|p| p.to)
+            .max()
+        {
             msg.push_str(&format!(
                 "; it was billable until {last} and has been a header since {}",
                 last.succ()
@@ -500,15 +554,26 @@ fn judge_dates(
             sugg.push(Suggestion {
                 code: p.clone(),
                 description: view.description(ord),
-                reason: format!("{p} matches its {} billable codes in the period", under.len()),
+                reason: format!(
+                    "{p} matches its {} billable codes in the period",
+                    under.len()
+                ),
             });
             if under.len() <= 5 {
                 for &o in under.iter().filter(|o| !ctx.reached.contains(o)) {
-                    sugg.push(suggestion(view, o, "a billable code under it, not in the list"));
+                    sugg.push(suggestion(
+                        view,
+                        o,
+                        "a billable code under it, not in the list",
+                    ));
                 }
             }
         }
-        let sev = if options.billable { Severity::Error } else { Severity::Info };
+        let sev = if options.billable {
+            Severity::Error
+        } else {
+            Severity::Info
+        };
         e.findings.push(finding(Kind::Header, sev, msg, sugg));
         return;
     }
@@ -523,23 +588,41 @@ fn judge_dates(
                     .successors(ord)
                     .filter(|(s, _)| view.billable_in(*s, period))
                     .map(|(s, d)| {
-                        suggestion(view, s, format!("conversion table: its data from {d} is coded as this"))
+                        suggestion(
+                            view,
+                            s,
+                            format!("conversion table: its data from {d} is coded as this"),
+                        )
                     })
                     .collect();
                 if sugg.is_empty() {
                     let kids = billable_under(view, ord, period);
                     for &o in kids.iter().take(NAMED_LIMIT) {
-                        sugg.push(suggestion(view, o, "a code under it, billable in the period"));
+                        sugg.push(suggestion(
+                            view,
+                            o,
+                            "a code under it, billable in the period",
+                        ));
                     }
                 }
                 if sugg.is_empty() {
-                    if let Some(a) = view.ancestors(ord).find(|&a| !billable_under(view, a, period).is_empty()) {
-                        sugg.push(suggestion(view, a, "the nearest code above it still in use; review its codes"));
+                    if let Some(a) = view
+                        .ancestors(ord)
+                        .find(|&a| !billable_under(view, a, period).is_empty())
+                    {
+                        sugg.push(suggestion(
+                            view,
+                            a,
+                            "the nearest code above it still in use; review its codes",
+                        ));
                     }
                 }
                 let listed: Vec<&Suggestion> = sugg
                     .iter()
-                    .filter(|s| view.ordinal(&s.code.replace('.', "")).is_some_and(|o| ctx.reached.contains(&o)))
+                    .filter(|s| {
+                        view.ordinal(&s.code.replace('.', ""))
+                            .is_some_and(|o| ctx.reached.contains(&o))
+                    })
                     .collect();
                 let mut msg = format!(
                     "{shown} was retired: its last valid day was {last_b}, before the period starts ({})",
@@ -548,14 +631,23 @@ fn judge_dates(
                 if !sugg.is_empty() {
                     msg.push_str(&format!(
                         "; {} {}",
-                        if sugg.len() == 1 { "its replacement is" } else { "replacements are" },
-                        sugg.iter().map(|s| s.code.as_str()).take(NAMED_LIMIT).collect::<Vec<_>>().join(", ")
+                        if sugg.len() == 1 {
+                            "its replacement is"
+                        } else {
+                            "replacements are"
+                        },
+                        sugg.iter()
+                            .map(|s| s.code.as_str())
+                            .take(NAMED_LIMIT)
+                            .collect::<Vec<_>>()
+                            .join(", ")
                     ));
                     if !listed.is_empty() {
                         msg.push_str(&format!(" ({} already in the list)", listed.len()));
                     }
                 }
-                e.findings.push(finding(Kind::Retired, Severity::Error, msg, sugg));
+                e.findings
+                    .push(finding(Kind::Retired, Severity::Error, msg, sugg));
             }
             (Some(first), _) if first > period.to => {
                 e.status = Status::NotYetValid;
@@ -563,11 +655,16 @@ fn judge_dates(
                     .predecessors(ord)
                     .into_iter()
                     .filter(|(p, _)| view.billable_in(*p, period))
-                    .map(|(p, d)| suggestion(view, p, format!("conversion table: coded as this until {}", d.pred())))
+                    .map(|(p, d)| {
+                        suggestion(
+                            view,
+                            p,
+                            format!("conversion table: coded as this until {}", d.pred()),
+                        )
+                    })
                     .collect();
-                let mut msg = format!(
-                    "{shown} is not valid yet {span_text}: its first valid day is {first}"
-                );
+                let mut msg =
+                    format!("{shown} is not valid yet {span_text}: its first valid day is {first}");
                 if !sugg.is_empty() {
                     let have = view
                         .predecessors(ord)
@@ -576,11 +673,15 @@ fn judge_dates(
                         .count();
                     msg.push_str(&format!(
                         "; before that its data was coded as {} ({})",
-                        sugg.iter().map(|s| s.code.as_str()).collect::<Vec<_>>().join(", "),
+                        sugg.iter()
+                            .map(|s| s.code.as_str())
+                            .collect::<Vec<_>>()
+                            .join(", "),
                         in_list(have, sugg.len())
                     ));
                 }
-                e.findings.push(finding(Kind::NotYetValid, Severity::Error, msg, sugg));
+                e.findings
+                    .push(finding(Kind::NotYetValid, Severity::Error, msg, sugg));
             }
             _ => {
                 e.status = Status::Retired;
@@ -616,12 +717,20 @@ fn judge_dates(
                 ));
                 for &o in kids.iter().filter(|o| !ctx.reached.contains(o)) {
                     if seen.insert(o) && sugg.len() < NAMED_LIMIT {
-                        sugg.push(suggestion(view, o, format!("covers {} to {} under it", p.from, p.to)));
+                        sugg.push(suggestion(
+                            view,
+                            o,
+                            format!("covers {} to {} under it", p.from, p.to),
+                        ));
                     }
                 }
             }
             None => {
-                let before = p.to < segs.iter().find(|(_, k)| k.is_some()).map_or(p.from, |s| s.0.from);
+                let before = p.to
+                    < segs
+                        .iter()
+                        .find(|(_, k)| k.is_some())
+                        .map_or(p.from, |s| s.0.from);
                 let cover: Vec<(u32, Date)> = if before {
                     view.predecessors(ord)
                 } else {
@@ -660,17 +769,28 @@ fn judge_dates(
     e.findings.push(finding(
         Kind::PartialPeriod,
         Severity::Warning,
-        format!("{shown} is billable for part of the period only: {}", parts.join("; ")),
+        format!(
+            "{shown} is billable for part of the period only: {}",
+            parts.join("; ")
+        ),
         sugg,
     ));
 }
 
 /// A code already covered by a header ancestor (a header throughout the
 /// period) or by a pattern elsewhere in the list.
-fn redundant(view: &View<'_>, period: &Period, ctx: &ListContext, ord: u32, line: usize) -> Option<Finding> {
+fn redundant(
+    view: &View<'_>,
+    period: &Period,
+    ctx: &ListContext,
+    ord: u32,
+    line: usize,
+) -> Option<Finding> {
     let shown = || view.display(&view.code(ord));
     for a in view.ancestors(ord) {
-        let Some(lines) = ctx.listed.get(&a) else { continue };
+        let Some(lines) = ctx.listed.get(&a) else {
+            continue;
+        };
         let header_throughout = view.header(a).any(|p| p.covers(period));
         if header_throughout {
             return Some(finding(
@@ -705,8 +825,16 @@ pub fn timeline<D: AsRef<[u8]>>(index: &Index<D>, code: &str) -> Option<Vec<Span
     };
     let mut spans: Vec<Span> = view
         .billable(ord)
-        .map(|p| Span { kind: SpanKind::Billable, from: p.from, to: p.to })
-        .chain(view.header(ord).map(|p| Span { kind: SpanKind::Header, from: p.from, to: p.to }))
+        .map(|p| Span {
+            kind: SpanKind::Billable,
+            from: p.from,
+            to: p.to,
+        })
+        .chain(view.header(ord).map(|p| Span {
+            kind: SpanKind::Header,
+            from: p.from,
+            to: p.to,
+        }))
         .collect();
     spans.sort_by_key(|s| s.from);
     Some(spans)
@@ -726,7 +854,11 @@ pub struct CategoryCoverage {
 }
 
 /// Coverage of every category the list touches, in code order.
-pub fn category_coverage<D: AsRef<[u8]>>(index: &Index<D>, report: &Report, options: &CheckOptions) -> Vec<CategoryCoverage> {
+pub fn category_coverage<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    report: &Report,
+    options: &CheckOptions,
+) -> Vec<CategoryCoverage> {
     let view = index.view();
     let period = options.period();
     let mut reached: HashSet<u32> = HashSet::new();
@@ -746,11 +878,7 @@ pub fn category_coverage<D: AsRef<[u8]>>(index: &Index<D>, report: &Report, opti
     }
     let mut cats: Vec<u32> = reached
         .iter()
-        .filter_map(|&o| {
-            std::iter::once(o)
-                .chain(view.ancestors(o))
-                .last()
-        })
+        .filter_map(|&o| std::iter::once(o).chain(view.ancestors(o)).last())
         .collect::<HashSet<_>>()
         .into_iter()
         .collect();

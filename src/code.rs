@@ -55,7 +55,10 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
     }
     if code.is_empty() {
         return Resolved::Malformed {
-            reason: format!("\"{written}\" has no letters or digits; {}", shape_hint(view)),
+            reason: format!(
+                "\"{written}\" has no letters or digits; {}",
+                shape_hint(view)
+            ),
         };
     }
     let found = |code: &str, mut changes: Vec<&'static str>| {
@@ -107,8 +110,16 @@ pub fn shape_hint(view: &View<'_>) -> String {
     format!(
         "{} codes have {min} to {max} letters or digits{}{}, with a dot after the {}",
         view.meta().title,
-        if letter_first { ", starting with a letter" } else { "" },
-        if digit_third { " and a digit in the third place" } else { "" },
+        if letter_first {
+            ", starting with a letter"
+        } else {
+            ""
+        },
+        if digit_third {
+            " and a digit in the third place"
+        } else {
+            ""
+        },
         match view.meta().dot_after {
             3 => "third (E11.9)".to_string(),
             n => format!("character {n}"),
@@ -235,7 +246,13 @@ pub fn is_swap(a: &str, b: &str) -> bool {
 /// Ranks near codes for a suggestion list: same category first, then codes
 /// billable in the period, then fewer edits (a swap of neighbours first),
 /// then code order.
-pub fn rank_near(view: &View<'_>, code: &str, near: Vec<(u32, u8)>, period: &Period, limit: usize) -> Vec<(u32, u8)> {
+pub fn rank_near(
+    view: &View<'_>,
+    code: &str,
+    near: Vec<(u32, u8)>,
+    period: &Period,
+    limit: usize,
+) -> Vec<(u32, u8)> {
     let cat = code.get(..3).unwrap_or(code);
     let mut v: Vec<_> = near
         .into_iter()

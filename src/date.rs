@@ -46,7 +46,9 @@ impl Date {
     /// Reads `YYYY-MM-DD` or the releases' `YYYYMMDD`.
     pub fn parse(text: &str) -> Result<Date, DateError> {
         let t = text.trim();
-        let err = || DateError { input: text.to_string() };
+        let err = || DateError {
+            input: text.to_string(),
+        };
         let digits: String = match t.len() {
             10 if t.as_bytes()[4] == b'-' && t.as_bytes()[7] == b'-' => {
                 [&t[0..4], &t[5..7], &t[8..10]].concat()
@@ -149,8 +151,14 @@ mod tests {
         assert_eq!(Date::parse("1970-01-01").unwrap().days(), 0);
         let d = Date::parse("20161001").unwrap();
         assert_eq!(d.pred().to_string(), "2016-09-30");
-        assert_eq!(Date::parse("2024-02-28").unwrap().succ().to_string(), "2024-02-29");
-        assert_eq!(Date::parse("2023-02-28").unwrap().succ().to_string(), "2023-03-01");
+        assert_eq!(
+            Date::parse("2024-02-28").unwrap().succ().to_string(),
+            "2024-02-29"
+        );
+        assert_eq!(
+            Date::parse("2023-02-28").unwrap().succ().to_string(),
+            "2023-03-01"
+        );
         for n in -1000..30000 {
             let d = Date::from_days(n);
             assert_eq!(Date::parse(&d.to_string()).unwrap(), d);

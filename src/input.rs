@@ -54,10 +54,36 @@ pub struct Detected {
 }
 
 const HEADING_WORDS: &[&str] = &[
-    "code", "codes", "icd", "icd10", "icd10cm", "icd-10", "icd-10-cm", "dx", "diagnosis", "concept",
-    "description", "desc", "label", "name", "term", "display", "title", "category", "system",
+    "code",
+    "codes",
+    "icd",
+    "icd10",
+    "icd10cm",
+    "icd-10",
+    "icd-10-cm",
+    "dx",
+    "diagnosis",
+    "concept",
+    "description",
+    "desc",
+    "label",
+    "name",
+    "term",
+    "display",
+    "title",
+    "category",
+    "system",
 ];
-const LABEL_WORDS: &[&str] = &["description", "desc", "label", "name", "term", "display", "title", "text"];
+const LABEL_WORDS: &[&str] = &[
+    "description",
+    "desc",
+    "label",
+    "name",
+    "term",
+    "display",
+    "title",
+    "text",
+];
 
 fn is_skip(line: &str) -> Option<LineKind> {
     let t = line.trim();
@@ -77,10 +103,12 @@ pub fn code_like(cell: &str) -> bool {
     !t.is_empty()
         && t.len() <= 24
         && t.chars().any(|c| c.is_ascii_digit())
-        && t.chars().all(|c| {
-            c.is_ascii_alphanumeric() || matches!(c, '.' | '*' | '%' | '-' | '–' | ' ')
-        })
-        && t.split_whitespace().filter(|w| !matches!(*w, "-" | "–")).count() <= 2
+        && t.chars()
+            .all(|c| c.is_ascii_alphanumeric() || matches!(c, '.' | '*' | '%' | '-' | '–' | ' '))
+        && t.split_whitespace()
+            .filter(|w| !matches!(*w, "-" | "–"))
+            .count()
+            <= 2
 }
 
 fn heading_word(cell: &str) -> Option<String> {
@@ -127,7 +155,9 @@ pub fn split_csv(line: &str) -> Result<Vec<String>, String> {
         at_start = false;
     }
     if quoted {
-        return Err("a quoted cell is not closed; add the closing \" or remove the opening one".into());
+        return Err(
+            "a quoted cell is not closed; add the closing \" or remove the opening one".into(),
+        );
     }
     out.push(cur);
     Ok(out)
@@ -148,25 +178,43 @@ pub fn detect(text: &str) -> Detected {
         .filter(|l| is_skip(l).is_none())
         .take(200)
         .collect();
-    let plain = Detected { layout: Layout::Plain, headings: false };
+    let plain = Detected {
+        layout: Layout::Plain,
+        headings: false,
+    };
     if sample.is_empty() {
         return plain;
     }
     let tabs = sample.iter().filter(|l| l.contains('\t')).count();
     let (delim_tsv, rows): (bool, Vec<Vec<String>>) = if tabs * 2 >= sample.len() {
-        (true, sample.iter().map(|l| l.split('\t').map(str::to_string).collect()).collect())
+        (
+            true,
+            sample
+                .iter()
+                .map(|l| l.split('\t').map(str::to_string).collect())
+                .collect(),
+        )
     } else {
         let commas = sample.iter().filter(|l| l.contains(',')).count();
         if commas * 5 < sample.len() * 4 {
             return plain;
         }
-        (false, sample.iter().filter_map(|l| split_csv(l).ok()).collect())
+        (
+            false,
+            sample.iter().filter_map(|l| split_csv(l).ok()).collect(),
+        )
     };
     let width = rows.iter().map(Vec::len).max().unwrap_or(1);
     let first = &rows[0];
     let has_headings = first.iter().any(|c| heading_word(c).is_some())
-        && !first.iter().any(|c| code_like(c) && heading_word(c).is_none());
-    let body = if has_headings && rows.len() > 1 { &rows[1..] } else { &rows[..] };
+        && !first
+            .iter()
+            .any(|c| code_like(c) && heading_word(c).is_none());
+    let body = if has_headings && rows.len() > 1 {
+        &rows[1..]
+    } else {
+        &rows[..]
+    };
     // The code column: a heading that names codes, else the most code-like column.
     let score = |i: usize| {
         body.iter()
@@ -177,12 +225,18 @@ pub fn detect(text: &str) -> Detected {
         .then(|| {
             (0..width).find(|&i| {
                 first.get(i).and_then(|c| heading_word(c)).is_some_and(|w| {
-                    !LABEL_WORDS.iter().any(|l| w.starts_with(l)) && w != "category" && w != "system"
+                    !LABEL_WORDS.iter().any(|l| w.starts_with(l))
+                        && w != "category"
+                        && w != "system"
                 }) && score(i) * 2 >= body.len()
             })
         })
         .flatten();
-    let code = named.unwrap_or_else(|| (0..width).max_by_key(|&i| (score(i), usize::MAX - i)).unwrap_or(0));
+    let code = named.unwrap_or_else(|| {
+        (0..width)
+            .max_by_key(|&i| (score(i), usize::MAX - i))
+            .unwrap_or(0)
+    });
     if score(code) * 2 < body.len() {
         return plain;
     }
@@ -199,16 +253,21 @@ pub fn detect(text: &str) -> Detected {
     }
     .or_else(|| {
         // The column with the most letters that is not the code column.
-        (0..width)
-            .filter(|&i| i != code)
-            .max_by_key(|&i| {
-                body.iter()
-                    .map(|r| r.get(i).map_or(0, |c| c.chars().filter(|c| c.is_alphabetic()).count()))
-                    .sum::<usize>()
-            })
+        (0..width).filter(|&i| i != code).max_by_key(|&i| {
+            body.iter()
+                .map(|r| {
+                    r.get(i)
+                        .map_or(0, |c| c.chars().filter(|c| c.is_alphabetic()).count())
+                })
+                .sum::<usize>()
+        })
     });
     Detected {
-        layout: if delim_tsv { Layout::Tsv(code, label) } else { Layout::Csv(code, label) },
+        layout: if delim_tsv {
+            Layout::Tsv(code, label)
+        } else {
+            Layout::Csv(code, label)
+        },
         headings: has_headings,
     }
 }
@@ -220,7 +279,11 @@ pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
     let mut seen_data = false;
     for (i, raw) in text.lines().enumerate() {
         let line = raw.strip_suffix('\r').unwrap_or(raw);
-        let line = if i == 0 { line.trim_start_matches('\u{feff}') } else { line };
+        let line = if i == 0 {
+            line.trim_start_matches('\u{feff}')
+        } else {
+            line
+        };
         let kind = if let Some(k) = is_skip(line) {
             k
         } else {
@@ -231,7 +294,10 @@ pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
                 Layout::Csv(c, l) | Layout::Tsv(c, l) => match split(layout, line) {
                     Err(msg) => LineKind::Unreadable(msg),
                     Ok(cells) => {
-                        let code = cells.get(c).map(|s| s.trim().to_string()).unwrap_or_default();
+                        let code = cells
+                            .get(c)
+                            .map(|s| s.trim().to_string())
+                            .unwrap_or_default();
                         let label = l
                             .and_then(|l| cells.get(l))
                             .map(|s| s.trim().to_string())
@@ -268,7 +334,9 @@ fn plain_entry(line: &str) -> LineKind {
     let joins = |a: &str, b: &str| {
         b.starts_with('.')
             || a.ends_with('.')
-            || (a.len() == 1 && a.chars().all(|c| c.is_ascii_alphabetic()) && b.starts_with(|c: char| c.is_ascii_digit()))
+            || (a.len() == 1
+                && a.chars().all(|c| c.is_ascii_alphabetic())
+                && b.starts_with(|c: char| c.is_ascii_digit()))
     };
     while n < words.len() && n < 4 && joins(words[n - 1], words[n]) {
         n += 1;
@@ -276,10 +344,21 @@ fn plain_entry(line: &str) -> LineKind {
     if words.len() >= n + 2 && matches!(words[n], "-" | "–") && code_like(words[n + 1]) {
         n += 2;
     }
-    let code = words[..n].join(if n >= 3 && matches!(words[n - 2], "-" | "–") { " " } else { "" });
-    let code = if code.contains(" - ") || code.contains(" – ") { code.replace(' ', "") } else { code };
+    let code = words[..n].join(if n >= 3 && matches!(words[n - 2], "-" | "–") {
+        " "
+    } else {
+        ""
+    });
+    let code = if code.contains(" - ") || code.contains(" – ") {
+        code.replace(' ', "")
+    } else {
+        code
+    };
     let label = words[n..].join(" ");
-    let label = label.trim_start_matches(['-', '–', ':', '|']).trim().to_string();
+    let label = label
+        .trim_start_matches(['-', '–', ':', '|'])
+        .trim()
+        .to_string();
     LineKind::Entry {
         code,
         label: (!label.is_empty()).then_some(label),
@@ -305,7 +384,10 @@ mod tests {
     fn plain_lines_with_labels_and_spaces() {
         let e = entries("E11.9 Type 2 diabetes mellitus, without complications\nE11 .65\nE 10.9\nE08 - E13 diabetes\n");
         assert_eq!(e[0].0, "E11.9");
-        assert_eq!(e[0].1.as_deref(), Some("Type 2 diabetes mellitus, without complications"));
+        assert_eq!(
+            e[0].1.as_deref(),
+            Some("Type 2 diabetes mellitus, without complications")
+        );
         assert_eq!(e[1].0, "E11.65");
         assert_eq!(e[2].0, "E10.9");
         assert_eq!(e[3], ("E08-E13".to_string(), Some("diabetes".to_string())));
@@ -329,7 +411,8 @@ mod tests {
 
     #[test]
     fn spreadsheet_paste_is_tsv_and_every_line_is_kept() {
-        let (layout, lines) = parse_list("# my list\nE11.9\tType 2 DM\n\n\tno code\nI10\tHypertension\n");
+        let (layout, lines) =
+            parse_list("# my list\nE11.9\tType 2 DM\n\n\tno code\nI10\tHypertension\n");
         assert_eq!(layout, Layout::Tsv(0, Some(1)));
         assert_eq!(lines.len(), 5);
         assert_eq!(lines[0].kind, LineKind::Comment);

@@ -28,12 +28,12 @@ pub mod render;
 pub mod report;
 pub mod sha256;
 
-
-pub use date::{Date, DateError};
 pub use check::{category_coverage, check, timeline, CategoryCoverage, CheckOptions};
+pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
 pub use input::{parse_list, InputLine, LineKind};
-pub use report::{Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary};
+pub use report::{
+    Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary,
+};
 
 pub use model::{Meta, Period, Release, Source, Span, SpanKind};
-

@@ -39,7 +39,8 @@ fn codes_of(view: &View<'_>, ords: &[u32]) -> Vec<String> {
 
 /// Rule: a code (after normalisation) written on more than one line.
 fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
-    let mut dups: Vec<(&u32, &Vec<usize>)> = ctx.listed.iter().filter(|(_, l)| l.len() > 1).collect();
+    let mut dups: Vec<(&u32, &Vec<usize>)> =
+        ctx.listed.iter().filter(|(_, l)| l.len() > 1).collect();
     dups.sort_by_key(|(_, l)| l[0]);
     dups.into_iter()
         .map(|(&o, lines)| {
@@ -53,7 +54,8 @@ fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
                 message: format!(
                     "{shown} is on lines {}; keep one of them",
                     match l.split_last() {
-                        Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
+                        Some((last, rest)) if !rest.is_empty() =>
+                            format!("{} and {last}", rest.join(", ")),
                         _ => l.join(", "),
                     }
                 ),
@@ -65,7 +67,13 @@ fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
 
 /// Counts billable-in-period codes under `n`: (all, marked). Stops early,
 /// returning `None`, when `stop_on_unmarked` and an unmarked one is found.
-fn count_under(view: &View<'_>, period: &Period, n: u32, marks: &Marks, stop_on_unmarked: bool) -> Option<(usize, usize)> {
+fn count_under(
+    view: &View<'_>,
+    period: &Period,
+    n: u32,
+    marks: &Marks,
+    stop_on_unmarked: bool,
+) -> Option<(usize, usize)> {
     let (mut all, mut have) = (0, 0);
     for o in n + 1..view.subtree_end(n) {
         if view.billable_in(o, period) {
@@ -136,7 +144,10 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
     for &o in &ctx.reached {
         candidates.extend(view.ancestors(o));
     }
-    let mut by_depth: Vec<(usize, u32)> = candidates.into_iter().map(|n| (view.ancestors(n).count(), n)).collect();
+    let mut by_depth: Vec<(usize, u32)> = candidates
+        .into_iter()
+        .map(|n| (view.ancestors(n).count(), n))
+        .collect();
     by_depth.sort_by(|a, b| b.0.cmp(&a.0).then(a.1.cmp(&b.1)));
     let mut named: HashSet<u32> = HashSet::new();
     let mut out = Vec::new();
@@ -144,7 +155,9 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
         if ctx.listed.contains_key(&n) {
             continue;
         }
-        let Some((all, have)) = count_under(view, period, n, &ctx.reached, false) else { continue };
+        let Some((all, have)) = count_under(view, period, n, &ctx.reached, false) else {
+            continue;
+        };
         if all < 3 || have < 2 || have == all || have * 2 <= all {
             continue;
         }

@@ -45,14 +45,20 @@ pub fn parse(cell: &str) -> Option<Result<Pattern, String>> {
     }
     let parts: Vec<&str> = t.split(['-', '–']).collect();
     let [lo, hi] = parts[..] else {
-        return Some(Err(format!("\"{t}\" is not a range; write FIRST-LAST, for example E08-E13")));
+        return Some(Err(format!(
+            "\"{t}\" is not a range; write FIRST-LAST, for example E08-E13"
+        )));
     };
     let (lo, hi) = (clean(lo), clean(hi));
     if !ok(&lo) || !ok(&hi) {
-        return Some(Err(format!("\"{t}\" is not a range; write FIRST-LAST, for example E08-E13")));
+        return Some(Err(format!(
+            "\"{t}\" is not a range; write FIRST-LAST, for example E08-E13"
+        )));
     }
     if lo > hi {
-        return Some(Err(format!("the range \"{t}\" starts after it ends; write the lower code first")));
+        return Some(Err(format!(
+            "the range \"{t}\" starts after it ends; write the lower code first"
+        )));
     }
     Some(Ok(Pattern::Range(lo, hi)))
 }
@@ -71,7 +77,9 @@ impl Pattern {
     pub fn matches(&self, code: &str) -> bool {
         match self {
             Pattern::Prefix(p) => code.starts_with(p.as_str()),
-            Pattern::Range(lo, hi) => code >= lo.as_str() && &code[..code.len().min(hi.len())] <= hi.as_str(),
+            Pattern::Range(lo, hi) => {
+                code >= lo.as_str() && &code[..code.len().min(hi.len())] <= hi.as_str()
+            }
         }
     }
 

@@ -52,9 +52,17 @@ fn line_label(lines: &[usize]) -> String {
         [one] => format!("line {one}"),
         many if many.len() <= 4 => format!(
             "lines {}",
-            many.iter().map(|l| l.to_string()).collect::<Vec<_>>().join(", ")
+            many.iter()
+                .map(|l| l.to_string())
+                .collect::<Vec<_>>()
+                .join(", ")
         ),
-        many => format!("lines {}-{} ({} lines)", many[0], many[many.len() - 1], many.len()),
+        many => format!(
+            "lines {}-{} ({} lines)",
+            many[0],
+            many[many.len() - 1],
+            many.len()
+        ),
     }
 }
 
@@ -66,7 +74,10 @@ pub fn text(report: &Report) -> String {
     let _ = writeln!(
         s,
         "rollcall: {} list checked against release {} (coverage {} to {})",
-        report.vocabulary, report.index.release, report.index.coverage_from, report.index.coverage_to
+        report.vocabulary,
+        report.index.release,
+        report.index.coverage_from,
+        report.index.coverage_to
     );
     let _ = writeln!(
         s,
@@ -75,7 +86,11 @@ pub fn text(report: &Report) -> String {
             Some(d) => format!("on {d}"),
             None => format!("study period {} to {}", o.from, o.to),
         },
-        if o.billable { ", billable codes required" } else { "" }
+        if o.billable {
+            ", billable codes required"
+        } else {
+            ""
+        }
     );
     let rows = rows(report);
     for sev in [Severity::Error, Severity::Warning, Severity::Info] {
@@ -83,11 +98,16 @@ pub fn text(report: &Report) -> String {
         if group.is_empty() {
             continue;
         }
-        let _ = writeln!(s, "\n{} ({})", match sev {
-            Severity::Error => "ERRORS",
-            Severity::Warning => "WARNINGS",
-            Severity::Info => "NOTES",
-        }, group.len());
+        let _ = writeln!(
+            s,
+            "\n{} ({})",
+            match sev {
+                Severity::Error => "ERRORS",
+                Severity::Warning => "WARNINGS",
+                Severity::Info => "NOTES",
+            },
+            group.len()
+        );
         for r in group {
             let head = line_label(&r.lines);
             let _ = writeln!(
@@ -98,7 +118,11 @@ pub fn text(report: &Report) -> String {
                 r.message
             );
             for g in r.suggestions.iter().take(8) {
-                let _ = writeln!(s, "  {:<10}   -> {:<12} {}  ({})", "", g.code, g.description, g.reason);
+                let _ = writeln!(
+                    s,
+                    "  {:<10}   -> {:<12} {}  ({})",
+                    "", g.code, g.description, g.reason
+                );
             }
             if r.suggestions.len() > 8 {
                 let _ = writeln!(s, "  {:<10}   -> and {} more", "", r.suggestions.len() - 8);
@@ -118,14 +142,20 @@ pub fn text(report: &Report) -> String {
         m.infos,
         if m.infos == 1 { "" } else { "s" }
     );
-    s.push_str("rollcall helps assemble research code lists; it is not coding or billing advice.\n");
+    s.push_str(
+        "rollcall helps assemble research code lists; it is not coding or billing advice.\n",
+    );
     s
 }
 
 /// One CSV cell, quoted when needed; a cell that a spreadsheet would read
 /// as a formula (`=`, `+`, `-`, `@`) gets a leading apostrophe.
 pub fn csv_cell(v: &str) -> String {
-    let v = if v.starts_with(['=', '+', '-', '@']) { format!("'{v}") } else { v.to_string() };
+    let v = if v.starts_with(['=', '+', '-', '@']) {
+        format!("'{v}")
+    } else {
+        v.to_string()
+    };
     if v.contains([',', '"', '\n', '\r']) {
         format!("\"{}\"", v.replace('"', "\"\""))
     } else {
@@ -147,7 +177,14 @@ pub fn csv(report: &Report) -> String {
         let status = serde_json_name(&e.status);
         let code = e.code.as_deref().unwrap_or("");
         if e.findings.is_empty() {
-            let _ = writeln!(s, "{},{},{},{},,,,", e.line, csv_cell(&e.input), csv_cell(code), status);
+            let _ = writeln!(
+                s,
+                "{},{},{},{},,,,",
+                e.line,
+                csv_cell(&e.input),
+                csv_cell(code),
+                status
+            );
         }
         for f in &e.findings {
             let _ = writeln!(

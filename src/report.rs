@@ -113,7 +113,10 @@ pub enum Status {
 impl Status {
     /// Whether the line was skipped rather than checked.
     pub fn skipped(self) -> bool {
-        matches!(self, Status::Blank | Status::Comment | Status::ColumnHeadings)
+        matches!(
+            self,
+            Status::Blank | Status::Comment | Status::ColumnHeadings
+        )
     }
 }
 

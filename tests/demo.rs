@@ -65,23 +65,37 @@ fn demo_list_has_every_finding_kind() {
         Kind::PatternEmpty,
     ];
     for k in all {
-        assert!(kinds.contains(&k), "the demo list has no {} finding", k.name());
+        assert!(
+            kinds.contains(&k),
+            "the demo list has no {} finding",
+            k.name()
+        );
     }
     assert_eq!(r.summary.lines, demo().lines().count());
-    assert_eq!(r.entries.len(), r.summary.lines, "every line is accounted for");
+    assert_eq!(
+        r.entries.len(),
+        r.summary.lines,
+        "every line is accounted for"
+    );
 }
 
 #[test]
 fn demo_text_report_snapshot() {
     let index = index();
-    snapshot("demo.txt", &render::text(&check(&index, &demo(), &demo_options())));
+    snapshot(
+        "demo.txt",
+        &render::text(&check(&index, &demo(), &demo_options())),
+    );
 }
 
 #[test]
 fn demo_json_report_snapshot() {
     let index = index();
     let r = check(&index, &demo(), &demo_options());
-    snapshot("demo.json", &(serde_json::to_string_pretty(&r).unwrap() + "\n"));
+    snapshot(
+        "demo.json",
+        &(serde_json::to_string_pretty(&r).unwrap() + "\n"),
+    );
 }
 
 #[test]
@@ -90,7 +104,11 @@ fn demo_with_billable_required_makes_headers_errors() {
     let mut o = demo_options();
     o.billable = true;
     let r = check(&index, &demo(), &o);
-    let header = r.entries.iter().find(|e| e.code.as_deref() == Some("I50.2")).unwrap();
+    let header = r
+        .entries
+        .iter()
+        .find(|e| e.code.as_deref() == Some("I50.2"))
+        .unwrap();
     assert_eq!(header.findings[0].severity, rollcall::Severity::Error);
     let plain = check(&index, &demo(), &demo_options());
     assert_eq!(r.summary.errors, plain.summary.errors + 1);

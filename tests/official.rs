@@ -11,7 +11,10 @@ fn billable_on(d: &str) -> BTreeSet<String> {
     let index = index();
     let v = index.view();
     let p = Period::new(day(d), day(d));
-    (0..v.len() as u32).filter(|&o| v.billable_in(o, &p)).map(|o| v.code(o)).collect()
+    (0..v.len() as u32)
+        .filter(|&o| v.billable_in(o, &p))
+        .map(|o| v.code(o))
+        .collect()
 }
 
 fn headers_on(d: &str) -> BTreeSet<String> {
@@ -38,13 +41,20 @@ fn billable_and_headers_on_2021_01_15_equal_the_january_2021_order_file() {
             _ => head.insert(code),
         };
     }
-    assert_eq!(bill.len(), 72_621, "order file billable rows (published in the README of the sources)");
+    assert_eq!(
+        bill.len(),
+        72_621,
+        "order file billable rows (published in the README of the sources)"
+    );
     assert_eq!(head.len(), 22_737, "order file header rows");
     assert_eq!(billable_on("2021-01-15"), bill);
     let got = headers_on("2021-01-15");
     let extra: Vec<_> = got.difference(&head).collect();
     let missing: Vec<_> = head.difference(&got).collect();
-    assert!(extra.is_empty() && missing.is_empty(), "extra {extra:?} missing {missing:?}");
+    assert!(
+        extra.is_empty() && missing.is_empty(),
+        "extra {extra:?} missing {missing:?}"
+    );
 }
 
 /// Source: the official CMS code-description file for FY2024
@@ -106,9 +116,17 @@ fn added_and_retired_counts_per_effective_date() {
     }
     for &(d, a, r) in expected {
         assert_eq!(added.get(d).copied().unwrap_or(0), a, "added on {d}");
-        assert_eq!(retired.get(d).copied().unwrap_or(0), r, "retired the day before {d}");
+        assert_eq!(
+            retired.get(d).copied().unwrap_or(0),
+            r,
+            "retired the day before {d}"
+        );
     }
-    assert_eq!(added.len(), expected.len(), "no other effective dates: {added:?}");
+    assert_eq!(
+        added.len(),
+        expected.len(),
+        "no other effective dates: {added:?}"
+    );
 }
 
 /// Source: AHRQ Elixhauser Comorbidity Software Refined v2026.1 (as shipped in
@@ -120,7 +138,11 @@ fn elixhauser_over_its_whole_span_has_no_error() {
     let errors: Vec<_> = r
         .entries
         .iter()
-        .filter(|e| e.findings.iter().any(|f| f.severity == rollcall::Severity::Error))
+        .filter(|e| {
+            e.findings
+                .iter()
+                .any(|f| f.severity == rollcall::Severity::Error)
+        })
         .map(|e| (e.line, e.input.clone()))
         .collect();
     assert!(errors.is_empty(), "{errors:?}");
@@ -152,13 +174,32 @@ fn elixhauser_on_2026_01_01_headers_and_retired() {
         let o = v.ordinal(&h.replace('.', "")).unwrap();
         assert!(v.billable(o).next().is_some(), "{h} was billable earlier");
     }
-    let c4311 = r.entries.iter().find(|e| e.code.as_deref() == Some("C43.11")).unwrap();
-    assert!(c4311.findings[0].message.contains("billable until 2018-09-30"), "{}", c4311.findings[0].message);
-    assert_eq!(with(Kind::Retired), BTreeSet::from(["I60.20".into(), "I60.21".into(), "I60.22".into()]));
+    let c4311 = r
+        .entries
+        .iter()
+        .find(|e| e.code.as_deref() == Some("C43.11"))
+        .unwrap();
+    assert!(
+        c4311.findings[0]
+            .message
+            .contains("billable until 2018-09-30"),
+        "{}",
+        c4311.findings[0].message
+    );
+    assert_eq!(
+        with(Kind::Retired),
+        BTreeSet::from(["I60.20".into(), "I60.21".into(), "I60.22".into()])
+    );
     for e in r.entries.iter().filter(|e| e.status == Status::Retired) {
         let f = &e.findings[0];
         assert!(f.message.contains("2016-09-30"));
-        assert_eq!(f.suggestions.iter().map(|s| s.code.as_str()).collect::<Vec<_>>(), ["I60.2"]);
+        assert_eq!(
+            f.suggestions
+                .iter()
+                .map(|s| s.code.as_str())
+                .collect::<Vec<_>>(),
+            ["I60.2"]
+        );
     }
     assert!(with(Kind::Unknown).is_empty() && with(Kind::Malformed).is_empty());
 }

@@ -57,7 +57,10 @@ struct Args {
 fn parse(argv: &[String]) -> Result<Args, Usage> {
     let mut a = Args::default();
     let mut it = argv.iter();
-    a.command = it.next().cloned().ok_or_else(|| Usage("a command is needed: check or info".into()))?;
+    a.command = it
+        .next()
+        .cloned()
+        .ok_or_else(|| Usage("a command is needed: check or info".into()))?;
     while let Some(arg) = it.next() {
         let mut value = || {
             it.next()
@@ -75,7 +78,9 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
             s => {
                 if a.file.replace(s.to_string()).is_some() {
-                    return Err(Usage(format!("only one list can be checked at a time (got a second: {s})")));
+                    return Err(Usage(format!(
+                        "only one list can be checked at a time (got a second: {s})"
+                    )));
                 }
             }
         }
@@ -85,12 +90,16 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
 
 fn options(a: &Args) -> Result<CheckOptions, Usage> {
     match (a.on, a.from, a.to) {
-        (Some(_), Some(_), _) | (Some(_), _, Some(_)) => {
-            Err(Usage("give either --on DATE or --from DATE --to DATE, not both".into()))
-        }
+        (Some(_), Some(_), _) | (Some(_), _, Some(_)) => Err(Usage(
+            "give either --on DATE or --from DATE --to DATE, not both".into(),
+        )),
         (Some(d), None, None) => Ok(CheckOptions::on(d, a.billable)),
         (None, Some(f), Some(t)) if t < f => Err(Usage(format!("--to {t} is before --from {f}"))),
-        (None, Some(f), Some(t)) => Ok(CheckOptions { from: f, to: t, billable: a.billable }),
+        (None, Some(f), Some(t)) => Ok(CheckOptions {
+            from: f,
+            to: t,
+            billable: a.billable,
+        }),
         (None, Some(_), None) | (None, None, Some(_)) => {
             Err(Usage("a study period needs both --from and --to".into()))
         }
@@ -105,7 +114,9 @@ enum Loaded {
 
 fn load_index(path: Option<&str>) -> Result<Loaded, String> {
     match path {
-        None => Index::open(BUNDLED).map(Loaded::Bundled).map_err(|e| e.to_string()),
+        None => Index::open(BUNDLED)
+            .map(Loaded::Bundled)
+            .map_err(|e| e.to_string()),
         Some(p) => {
             let bytes = std::fs::read(p).map_err(|e| format!("cannot read the index {p}: {e}"))?;
             let idx = Index::open(bytes).map_err(|e| format!("{p}: {e}"))?;
@@ -132,10 +143,15 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 return Err(format!("--format must be text, json or csv, not {format}"));
             }
             let opts = options(&a).map_err(|Usage(m)| m)?;
-            let file = a.file.as_deref().ok_or("check needs a list: a FILE, or - for standard input")?;
+            let file = a
+                .file
+                .as_deref()
+                .ok_or("check needs a list: a FILE, or - for standard input")?;
             let mut raw = Vec::new();
             if file == "-" {
-                std::io::stdin().read_to_end(&mut raw).map_err(|e| format!("cannot read standard input: {e}"))?;
+                std::io::stdin()
+                    .read_to_end(&mut raw)
+                    .map_err(|e| format!("cannot read standard input: {e}"))?;
             } else {
                 raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
             }
@@ -150,7 +166,11 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 _ => render::text(&report),
             };
             write_out(&out);
-            let status = if report.has_errors() { ExitCode::from(1) } else { ExitCode::SUCCESS };
+            let status = if report.has_errors() {
+                ExitCode::from(1)
+            } else {
+                ExitCode::SUCCESS
+            };
             // The process ends here; freeing thousands of small strings first
             // would only cost time (about a tenth of a run on a large list).
             std::mem::forget(report);
@@ -159,12 +179,22 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             Ok(status)
         }
         "info" => {
-            if a.file.is_some() || a.on.is_some() || a.from.is_some() || a.to.is_some() || a.billable {
+            if a.file.is_some()
+                || a.on.is_some()
+                || a.from.is_some()
+                || a.to.is_some()
+                || a.billable
+            {
                 return Err("info takes only --format and --index".into());
             }
             let loaded = load_index(a.index.as_deref())?;
             let (meta, path, size, sum) = match &loaded {
-                Loaded::Bundled(i) => (i.meta(), BUNDLED_NAME.to_string(), i.bytes().len(), i.checksum()),
+                Loaded::Bundled(i) => (
+                    i.meta(),
+                    BUNDLED_NAME.to_string(),
+                    i.bytes().len(),
+                    i.checksum(),
+                ),
                 Loaded::File(i, p) => (i.meta(), p.clone(), i.bytes().len(), i.checksum()),
             };
             let out = match format.as_str() {
@@ -188,7 +218,10 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                         meta.title, meta.vocabulary, meta.release, meta.coverage_from, meta.coverage_to
                     );
                     for src in &meta.sources {
-                        s.push_str(&format!("    {}  {}\n      sha256 {}\n", src.file, src.role, src.sha256));
+                        s.push_str(&format!(
+                            "    {}  {}\n      sha256 {}\n",
+                            src.file, src.role, src.sha256
+                        ));
                     }
                     s
                 }
@@ -197,7 +230,9 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             write_out(&out);
             Ok(ExitCode::SUCCESS)
         }
-        other => Err(format!("unknown command \"{other}\"; the commands are check and info (see rollcall --help)")),
+        other => Err(format!(
+            "unknown command \"{other}\"; the commands are check and info (see rollcall --help)"
+        )),
     }
 }
 
@@ -211,13 +246,20 @@ fn write_out(s: &str) {
 /// Lists come from spreadsheets as UTF-8 (maybe with a BOM) or UTF-16.
 fn decode(raw: &[u8]) -> Result<String, String> {
     if let Some(rest) = raw.strip_prefix(&[0xFF, 0xFE]) {
-        let units: Vec<u16> = rest.chunks_exact(2).map(|c| u16::from_le_bytes([c[0], c[1]])).collect();
+        let units: Vec<u16> = rest
+            .chunks_exact(2)
+            .map(|c| u16::from_le_bytes([c[0], c[1]]))
+            .collect();
         return String::from_utf16(&units).map_err(|_| "is not valid UTF-16 text".into());
     }
     match std::str::from_utf8(raw) {
         Ok(s) => Ok(s.to_string()),
         Err(e) => {
-            let line = raw[..e.valid_up_to()].iter().filter(|&&b| b == b'\n').count() + 1;
+            let line = raw[..e.valid_up_to()]
+                .iter()
+                .filter(|&&b| b == b'\n')
+                .count()
+                + 1;
             Err(format!(
                 "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
             ))

@@ -56,7 +56,8 @@ impl<'a> In<'a> {
         self.take(2).map(|b| u16::from_le_bytes([b[0], b[1]]))
     }
     pub fn u32(&mut self) -> Option<u32> {
-        self.take(4).map(|b| u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
+        self.take(4)
+            .map(|b| u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
     }
     pub fn i32(&mut self) -> Option<i32> {
         self.u32().map(|v| v as i32)

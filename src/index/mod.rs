@@ -174,11 +174,11 @@ impl<D: AsRef<[u8]>> Index<D> {
             find.get(&tag[..]).copied().ok_or(IndexError::Corrupt(what))
         };
         let meta_at = sec(b"META", "header facts missing")?;
-        let meta =
-            read_meta(&bytes[meta_at.0..meta_at.0 + meta_at.1]).ok_or(IndexError::Corrupt("header facts"))?;
+        let meta = read_meta(&bytes[meta_at.0..meta_at.0 + meta_at.1])
+            .ok_or(IndexError::Corrupt("header facts"))?;
         let tree_at = sec(b"TREE", "chapters missing")?;
-        let tree =
-            read_tree(&bytes[tree_at.0..tree_at.0 + tree_at.1]).ok_or(IndexError::Corrupt("chapters"))?;
+        let tree = read_tree(&bytes[tree_at.0..tree_at.0 + tree_at.1])
+            .ok_or(IndexError::Corrupt("chapters"))?;
         let fst = sec(b"CFST", "code map missing")?;
         let map = fst::Map::new(&bytes[fst.0..fst.0 + fst.1])
             .map_err(|_| IndexError::Corrupt("code map"))?;
@@ -473,7 +473,10 @@ impl<'a> View<'a> {
 
     #[inline]
     fn count(&self, ord: u32, field: usize) -> usize {
-        self.cnts.get(ord as usize * 4 + field).copied().unwrap_or(0) as usize
+        self.cnts
+            .get(ord as usize * 4 + field)
+            .copied()
+            .unwrap_or(0) as usize
     }
 
     /// The parent node, if any.
@@ -568,7 +571,9 @@ impl<'a> View<'a> {
         let (start, end) = self.succ_of(ord);
         (start..end).map(move |i| {
             (
-                u32_at(self.succ, i * 8).unwrap_or(0).min(self.len.saturating_sub(1) as u32),
+                u32_at(self.succ, i * 8)
+                    .unwrap_or(0)
+                    .min(self.len.saturating_sub(1) as u32),
                 Date::from_days(u32_at(self.succ, i * 8 + 4).unwrap_or(0) as i32),
             )
         })
@@ -602,14 +607,20 @@ impl<'a> View<'a> {
         };
         let mut r = In::new(self.desc);
         r.pos = off as usize;
-        let Some(n) = r.varint() else { return String::new() };
-        let Some(first) = r.take(n as usize) else { return String::new() };
+        let Some(n) = r.varint() else {
+            return String::new();
+        };
+        let Some(first) = r.take(n as usize) else {
+            return String::new();
+        };
         let mut cur = first.to_vec();
         for _ in 0..ord as usize % write::DESC_BLOCK {
             let (Some(shared), Some(n)) = (r.varint(), r.varint()) else {
                 return String::new();
             };
-            let Some(rest) = r.take(n as usize) else { return String::new() };
+            let Some(rest) = r.take(n as usize) else {
+                return String::new();
+            };
             cur.truncate((shared as usize).min(cur.len()));
             cur.extend_from_slice(rest);
         }

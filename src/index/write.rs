@@ -125,7 +125,8 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     // SPBK/SCBK where each block of records starts in SPAN/SUCC, SPOF where
     // each record's spans start within its block (span lookups are hot).
     let parents = parents(codes.iter().map(|c| c.code.as_str()), &ordinal);
-    let ends = crate::model::subtree_ends(&codes.iter().map(|c| c.code.as_str()).collect::<Vec<_>>());
+    let ends =
+        crate::model::subtree_ends(&codes.iter().map(|c| c.code.as_str()).collect::<Vec<_>>());
     let mut pard = Out::default();
     let mut subt = Out::default();
     let mut cnts = Out::default();
@@ -141,9 +142,17 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
             spbk.u32(n_spans);
             scbk.u32(n_succ);
         }
-        let block_start = u32::from_le_bytes(spbk.buf[spbk.buf.len() - 4..].try_into().unwrap_or([0; 4]));
-        spof.u16(u16::try_from(n_spans - block_start).map_err(|_| too_many("too many spans in a block", &c.code))?);
-        let pd = if parents[i] == u32::MAX { 0 } else { i as u32 - parents[i] };
+        let block_start =
+            u32::from_le_bytes(spbk.buf[spbk.buf.len() - 4..].try_into().unwrap_or([0; 4]));
+        spof.u16(
+            u16::try_from(n_spans - block_start)
+                .map_err(|_| too_many("too many spans in a block", &c.code))?,
+        );
+        let pd = if parents[i] == u32::MAX {
+            0
+        } else {
+            i as u32 - parents[i]
+        };
         pard.u16(u16::try_from(pd).map_err(|_| too_many("parent too far", &c.code))?);
         subt.u16(u16::try_from(ends[i] - i).map_err(|_| too_many("subtree too large", &c.code))?);
         let count = |n: usize, what| u8::try_from(n).map_err(|_| too_many(what, &c.code));
@@ -152,7 +161,8 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
         cnts.u8(count(c.successors.len(), "too many successors")?);
         cnts.u8(match c.seventh {
             None => 0,
-            Some(s) => u8::try_from(s + 1).map_err(|_| too_many("too many 7th-character rules", &c.code))?,
+            Some(s) => u8::try_from(s + 1)
+                .map_err(|_| too_many("too many 7th-character rules", &c.code))?,
         });
         for p in c.billable.iter().chain(&c.header) {
             spans.i32(p.from.days());

@@ -11,7 +11,8 @@ pub fn root() -> PathBuf {
 
 /// The bundled index, as committed in vocab/.
 pub fn index() -> Index<Vec<u8>> {
-    let bytes = std::fs::read(root().join("vocab/icd10cm.rcx")).expect("vocab/icd10cm.rcx (run vocab-build)");
+    let bytes = std::fs::read(root().join("vocab/icd10cm.rcx"))
+        .expect("vocab/icd10cm.rcx (run vocab-build)");
     let index = Index::open(bytes).expect("bundled index opens");
     index.verify().expect("bundled index checksum");
     index
@@ -19,13 +20,18 @@ pub fn index() -> Index<Vec<u8>> {
 
 /// A gzip-compressed source file from vocab-build/sources or tests/data, as text.
 pub fn source(name: &str) -> String {
-    let path = [root().join("vocab-build/sources").join(name), root().join("tests/data").join(name)]
-        .into_iter()
-        .find(|p| p.exists())
-        .unwrap_or_else(|| panic!("source file {name} not found"));
+    let path = [
+        root().join("vocab-build/sources").join(name),
+        root().join("tests/data").join(name),
+    ]
+    .into_iter()
+    .find(|p| p.exists())
+    .unwrap_or_else(|| panic!("source file {name} not found"));
     let raw = std::fs::read(&path).unwrap();
     let mut s = String::new();
-    flate2::read::MultiGzDecoder::new(&raw[..]).read_to_string(&mut s).unwrap();
+    flate2::read::MultiGzDecoder::new(&raw[..])
+        .read_to_string(&mut s)
+        .unwrap();
     s
 }
 
@@ -38,7 +44,11 @@ pub fn on(s: &str) -> CheckOptions {
 }
 
 pub fn period(a: &str, b: &str) -> CheckOptions {
-    CheckOptions { from: day(a), to: day(b), billable: false }
+    CheckOptions {
+        from: day(a),
+        to: day(b),
+        billable: false,
+    }
 }
 
 /// The Elixhauser v2026.1 list (AHRQ), as shipped: category,icd10cm,description.

@@ -75,7 +75,11 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         nodes.extend(rows.iter().map(|(c, _)| c.clone()));
     }
     let codes: Vec<String> = nodes.into_iter().collect();
-    progress(format!("nodes in the union of {} trees: {}", trees.len(), codes.len()));
+    progress(format!(
+        "nodes in the union of {} trees: {}",
+        trees.len(),
+        codes.len()
+    ));
 
     // 3. Header spans: a node is a header on a day when a billable code lies
     // under it that day, it is not billable itself, and no tree in force that
@@ -173,7 +177,10 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         s.dedup();
         entries.push(CodeEntry {
             code: code.clone(),
-            description: desc.get(code.as_str()).map(|d| d.to_string()).unwrap_or_default(),
+            description: desc
+                .get(code.as_str())
+                .map(|d| d.to_string())
+                .unwrap_or_default(),
             billable: b,
             header: std::mem::take(&mut header[i]),
             successors: s,
@@ -191,9 +198,18 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         rules.len()
     ));
 
-    let from = entries.iter().flat_map(|e| e.billable.iter().map(|p| p.from)).min();
-    let to = entries.iter().flat_map(|e| e.billable.iter().map(|p| p.to)).max();
-    let latest_start = entries.iter().flat_map(|e| e.billable.iter().map(|p| p.from)).max();
+    let from = entries
+        .iter()
+        .flat_map(|e| e.billable.iter().map(|p| p.from))
+        .min();
+    let to = entries
+        .iter()
+        .flat_map(|e| e.billable.iter().map(|p| p.to))
+        .max();
+    let latest_start = entries
+        .iter()
+        .flat_map(|e| e.billable.iter().map(|p| p.from))
+        .max();
     let (from, to) = match (from, to) {
         (Some(f), Some(t)) => (f, t),
         _ => (rollcall::Date::from_days(0), rollcall::Date::from_days(0)),
@@ -275,9 +291,15 @@ mod tests {
 
     #[test]
     fn merges_adjacent_and_subtracts() {
-        let m = merge(vec![p("2016-10-01", "2017-09-30"), p("2015-10-01", "2016-09-30")]);
+        let m = merge(vec![
+            p("2016-10-01", "2017-09-30"),
+            p("2015-10-01", "2016-09-30"),
+        ]);
         assert_eq!(m, vec![p("2015-10-01", "2017-09-30")]);
         let s = subtract(m, &[p("2016-01-01", "2016-01-31")]);
-        assert_eq!(s, vec![p("2015-10-01", "2015-12-31"), p("2016-02-01", "2017-09-30")]);
+        assert_eq!(
+            s,
+            vec![p("2015-10-01", "2015-12-31"), p("2016-02-01", "2017-09-30")]
+        );
     }
 }

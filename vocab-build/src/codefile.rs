@@ -28,7 +28,11 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<(String, String)>, BuildError
 mod tests {
     #[test]
     fn reads_code_and_description() {
-        let rows = super::parse("c.txt", "A000    Cholera due to Vibrio cholerae 01, biovar cholerae\n").unwrap();
+        let rows = super::parse(
+            "c.txt",
+            "A000    Cholera due to Vibrio cholerae 01, biovar cholerae\n",
+        )
+        .unwrap();
         assert_eq!(rows[0].0, "A000");
         assert!(super::parse("c.txt", "A0.00 x\n").is_err());
     }

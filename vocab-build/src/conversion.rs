@@ -16,8 +16,12 @@ pub struct Row {
 /// Reads the TSV; the first line must be the column header.
 pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
     let mut lines = text.lines().enumerate();
-    let header = lines.next().map(|(_, l)| l.trim_end_matches('\r')).unwrap_or("");
-    if header.split('\t').collect::<Vec<_>>() != ["effective_date", "current_code", "previous_code"] {
+    let header = lines
+        .next()
+        .map(|(_, l)| l.trim_end_matches('\r'))
+        .unwrap_or("");
+    if header.split('\t').collect::<Vec<_>>() != ["effective_date", "current_code", "previous_code"]
+    {
         return Err(BuildError::at(
             file,
             1,
@@ -32,9 +36,14 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
         }
         let f: Vec<&str> = line.split('\t').collect();
         if f.len() != 3 {
-            return Err(BuildError::at(file, i + 1, "expected 3 tab-separated columns"));
+            return Err(BuildError::at(
+                file,
+                i + 1,
+                "expected 3 tab-separated columns",
+            ));
         }
-        let effective = Date::parse(f[0]).map_err(|e| BuildError::at(file, i + 1, e.to_string()))?;
+        let effective =
+            Date::parse(f[0]).map_err(|e| BuildError::at(file, i + 1, e.to_string()))?;
         let code = |s: &str| s.trim().replace('.', "").to_ascii_uppercase();
         out.push(Row {
             effective,

@@ -32,11 +32,13 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
         }
         let f: Vec<&str> = line.split('\t').collect();
         if f.len() < 3 {
-            return Err(BuildError::at(file, i + 1, "expected at least 3 tab-separated columns"));
+            return Err(BuildError::at(
+                file,
+                i + 1,
+                "expected at least 3 tab-separated columns",
+            ));
         }
-        let date = |s: &str| {
-            Date::parse(s).map_err(|e| BuildError::at(file, i + 1, e.to_string()))
-        };
+        let date = |s: &str| Date::parse(s).map_err(|e| BuildError::at(file, i + 1, e.to_string()));
         let (from, to) = (date(f[1])?, date(f[2])?);
         if to < from {
             return Err(BuildError::at(file, i + 1, "valid_to is before valid_from"));

@@ -50,13 +50,18 @@ fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildErro
         .map(|n| n.to_string_lossy().to_string())
         .unwrap_or_default();
     let raw = std::fs::read(path).map_err(|e| {
-        BuildError::file(&path.display().to_string(), format!("cannot be read ({e}); check the path"))
+        BuildError::file(
+            &path.display().to_string(),
+            format!("cannot be read ({e}); check the path"),
+        )
     })?;
     let sha = rollcall::sha256::hex(&rollcall::sha256::digest(&raw));
     if let Some(sums) = sums {
-        let want = sums
-            .lines()
-            .find_map(|l| l.split_once("  ").filter(|(_, f)| *f == name).map(|(h, _)| h));
+        let want = sums.lines().find_map(|l| {
+            l.split_once("  ")
+                .filter(|(_, f)| *f == name)
+                .map(|(h, _)| h)
+        });
         match want {
             Some(h) if h == sha => {}
             Some(h) => {
@@ -72,7 +77,12 @@ fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildErro
         let mut s = String::new();
         flate2::read::MultiGzDecoder::new(&raw[..])
             .read_to_string(&mut s)
-            .map_err(|e| BuildError::file(&name, format!("is not valid gzip-compressed UTF-8 text ({e})")))?;
+            .map_err(|e| {
+                BuildError::file(
+                    &name,
+                    format!("is not valid gzip-compressed UTF-8 text ({e})"),
+                )
+            })?;
         s
     } else {
         String::from_utf8(raw).map_err(|_| BuildError::file(&name, "is not UTF-8 text"))?
@@ -89,10 +99,13 @@ fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildErro
 }
 
 fn period(s: &str) -> Result<Period, String> {
-    let (a, b) = s
-        .split_once("..")
-        .ok_or_else(|| format!("\"{s}\" is not a period; write FROM..TO, e.g. 2025-10-01..2026-09-30"))?;
-    let (a, b) = (Date::parse(a).map_err(|e| e.to_string())?, Date::parse(b).map_err(|e| e.to_string())?);
+    let (a, b) = s.split_once("..").ok_or_else(|| {
+        format!("\"{s}\" is not a period; write FROM..TO, e.g. 2025-10-01..2026-09-30")
+    })?;
+    let (a, b) = (
+        Date::parse(a).map_err(|e| e.to_string())?,
+        Date::parse(b).map_err(|e| e.to_string())?,
+    );
     if b < a {
         return Err(format!("period {s} ends before it starts"));
     }
@@ -112,25 +125,47 @@ fn bundled(dir: &Path) -> Vec<Arg> {
     let f = |n: &str| dir.join(n);
     vec![
         Arg::History(f("icd10cm-history-FY2016-FY2027.tsv.gz")),
-        Arg::Tabular(f("icd10cm-tabular-2021.xml.gz"), p("2020-10-01", "2020-12-31")),
-        Arg::Order(f("icd10cm-order-2021-01.txt.gz"), p("2021-01-01", "2021-09-30")),
-        Arg::Codes(f("icd10cm-codes-FY2024.txt.gz"), p("2023-10-01", "2024-09-30")),
-        Arg::Tabular(f("icd10cm-tabular-2025-04-01.xml.gz"), p("2025-04-01", "2025-09-30")),
-        Arg::Tabular(f("icd10cm-tabular-2026-04-01.xml.gz"), p("2026-04-01", "2026-09-30")),
+        Arg::Tabular(
+            f("icd10cm-tabular-2021.xml.gz"),
+            p("2020-10-01", "2020-12-31"),
+        ),
+        Arg::Order(
+            f("icd10cm-order-2021-01.txt.gz"),
+            p("2021-01-01", "2021-09-30"),
+        ),
+        Arg::Codes(
+            f("icd10cm-codes-FY2024.txt.gz"),
+            p("2023-10-01", "2024-09-30"),
+        ),
+        Arg::Tabular(
+            f("icd10cm-tabular-2025-04-01.xml.gz"),
+            p("2025-04-01", "2025-09-30"),
+        ),
+        Arg::Tabular(
+            f("icd10cm-tabular-2026-04-01.xml.gz"),
+            p("2026-04-01", "2026-09-30"),
+        ),
         Arg::Conversion(f("icd10cm-conversion-FY2017-FY2026.tsv.gz")),
     ]
 }
 
-fn parse_args(args: &[String]) -> Result<(Vec<Arg>, Option<PathBuf>, Option<String>), String> {
+/// Files to read, where to write, or the help text to print instead.
+type Parsed = (Vec<Arg>, Option<PathBuf>, Option<String>);
+
+fn parse_args(args: &[String]) -> Result<Parsed, String> {
     let mut out = Vec::new();
     let mut dest = None;
     let mut it = args.iter();
     while let Some(a) = it.next() {
-        let mut val = || it.next().cloned().ok_or_else(|| format!("{a} needs a value"));
+        let mut val = || {
+            it.next()
+                .cloned()
+                .ok_or_else(|| format!("{a} needs a value"))
+        };
         let dated = |v: String| -> Result<(PathBuf, Period), String> {
-            let (f, p) = v
-                .rsplit_once('@')
-                .ok_or_else(|| format!("{a} takes FILE@FROM..TO, e.g. order.txt@2024-10-01..2025-09-30"))?;
+            let (f, p) = v.rsplit_once('@').ok_or_else(|| {
+                format!("{a} takes FILE@FROM..TO, e.g. order.txt@2024-10-01..2025-09-30")
+            })?;
             Ok((PathBuf::from(f), period(p)?))
         };
         match a.as_str() {
@@ -150,7 +185,11 @@ fn parse_args(args: &[String]) -> Result<(Vec<Arg>, Option<PathBuf>, Option<Stri
                 out.push(Arg::Codes(f, p))
             }
             "--out" => dest = Some(PathBuf::from(val()?)),
-            other => return Err(format!("unknown argument \"{other}\"; see vocab-build --help")),
+            other => {
+                return Err(format!(
+                    "unknown argument \"{other}\"; see vocab-build --help"
+                ))
+            }
         }
     }
     Ok((out, dest, None))
@@ -185,7 +224,12 @@ fn run(args: &[String]) -> Result<(), String> {
                 inp.sources.push(l.source);
             }
             Arg::Tabular(f, p) => {
-                let l = load(f, &format!("hierarchy in force {}..{}", p.from, p.to), sums.as_deref()).map_err(e)?;
+                let l = load(
+                    f,
+                    &format!("hierarchy in force {}..{}", p.from, p.to),
+                    sums.as_deref(),
+                )
+                .map_err(e)?;
                 let t = tabular::parse(&l.text).map_err(|x| format!("{}: {x}", l.name))?;
                 eprintln!(
                     "read {}: version {}, {} chapters, {} sections, {} nodes, {} with 7th-character rules",
@@ -200,16 +244,30 @@ fn run(args: &[String]) -> Result<(), String> {
                 inp.sources.push(l.source);
             }
             Arg::Order(f, p) => {
-                let l = load(f, &format!("hierarchy and billable flags in force {}..{}", p.from, p.to), sums.as_deref())
-                    .map_err(e)?;
+                let l = load(
+                    f,
+                    &format!("hierarchy and billable flags in force {}..{}", p.from, p.to),
+                    sums.as_deref(),
+                )
+                .map_err(e)?;
                 let rows = order::parse(&l.name, &l.text).map_err(e)?;
                 let b = rows.iter().filter(|r| r.billable).count();
-                eprintln!("read {}: {} rows, {b} billable, {} headers", l.name, rows.len(), rows.len() - b);
+                eprintln!(
+                    "read {}: {} rows, {b} billable, {} headers",
+                    l.name,
+                    rows.len(),
+                    rows.len() - b
+                );
                 inp.orders.push((*p, rows));
                 inp.sources.push(l.source);
             }
             Arg::Codes(f, p) => {
-                let l = load(f, &format!("billable codes in force {}..{}", p.from, p.to), sums.as_deref()).map_err(e)?;
+                let l = load(
+                    f,
+                    &format!("billable codes in force {}..{}", p.from, p.to),
+                    sums.as_deref(),
+                )
+                .map_err(e)?;
                 let rows = codefile::parse(&l.name, &l.text).map_err(e)?;
                 eprintln!("read {}: {} billable codes", l.name, rows.len());
                 inp.codefiles.push((*p, rows));
@@ -273,10 +331,21 @@ fn cross_check(inp: &Inputs) {
         );
     };
     for (p, rows) in &inp.orders {
-        report("order file", p, rows.iter().filter(|r| r.billable).map(|r| r.code.as_str()).collect());
+        report(
+            "order file",
+            p,
+            rows.iter()
+                .filter(|r| r.billable)
+                .map(|r| r.code.as_str())
+                .collect(),
+        );
     }
     for (p, rows) in &inp.codefiles {
-        report("code file", p, rows.iter().map(|(c, _)| c.as_str()).collect());
+        report(
+            "code file",
+            p,
+            rows.iter().map(|(c, _)| c.as_str()).collect(),
+        );
     }
 }
 

@@ -32,9 +32,20 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
         let billable = match b[14] {
             b'1' => true,
             b'0' => false,
-            _ => return Err(BuildError::at(file, i + 1, "column 15 must be 1 (billable) or 0 (header)")),
+            _ => {
+                return Err(BuildError::at(
+                    file,
+                    i + 1,
+                    "column 15 must be 1 (billable) or 0 (header)",
+                ))
+            }
         };
-        let cut = |from: usize, to: usize| line.get(from..to.min(line.len())).unwrap_or("").trim().to_string();
+        let cut = |from: usize, to: usize| {
+            line.get(from..to.min(line.len()))
+                .unwrap_or("")
+                .trim()
+                .to_string()
+        };
         out.push(Row {
             code: cut(6, 13).to_ascii_uppercase(),
             billable,
@@ -56,7 +67,10 @@ mod tests {
         assert_eq!(rows[0].code, "A00");
         assert!(!rows[0].billable);
         assert!(rows[1].billable);
-        assert_eq!(rows[1].long, "Cholera due to Vibrio cholerae 01, biovar cholerae");
+        assert_eq!(
+            rows[1].long,
+            "Cholera due to Vibrio cholerae 01, biovar cholerae"
+        );
         assert!(super::parse("o.txt", "A00 x\n").is_err());
     }
 }

@@ -65,7 +65,9 @@ impl<'a> Reader<'a> {
                 return Ok(Some(Event::Text(decode(&rest[..end]))));
             }
             if rest.starts_with("<!--") {
-                let end = rest.find("-->").ok_or_else(|| self.err("unclosed comment"))?;
+                let end = rest
+                    .find("-->")
+                    .ok_or_else(|| self.err("unclosed comment"))?;
                 self.pos += end + 3;
                 continue;
             }
@@ -75,7 +77,9 @@ impl<'a> Reader<'a> {
                 return Ok(Some(Event::Text(rest[9..end].to_string())));
             }
             if rest.starts_with("<?") || rest.starts_with("<!") {
-                let end = rest.find('>').ok_or_else(|| self.err("unclosed declaration"))?;
+                let end = rest
+                    .find('>')
+                    .ok_or_else(|| self.err("unclosed declaration"))?;
                 self.pos += end + 1;
                 continue;
             }
@@ -89,9 +93,7 @@ impl<'a> Reader<'a> {
                 Some(t) => (t, true),
                 None => (tag, false),
             };
-            let name_end = tag
-                .find(|c: char| c.is_whitespace())
-                .unwrap_or(tag.len());
+            let name_end = tag.find(|c: char| c.is_whitespace()).unwrap_or(tag.len());
             let name = &tag[..name_end];
             let attrs = parse_attrs(&tag[name_end..]).ok_or_else(|| self.err("bad attribute"))?;
             if empty {
@@ -184,9 +186,8 @@ mod tests {
 
     #[test]
     fn reads_elements_attributes_and_entities() {
-        let mut r = Reader::new(
-            "<?xml version=\"1.0\"?><!-- c --><a x=\"1 &amp; 2\"><b/>T &lt; U</a>",
-        );
+        let mut r =
+            Reader::new("<?xml version=\"1.0\"?><!-- c --><a x=\"1 &amp; 2\"><b/>T &lt; U</a>");
         let mut ev = Vec::new();
         while let Some(e) = r.next().unwrap() {
             ev.push(e);

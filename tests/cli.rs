@@ -1,0 +1,234 @@
+//! The command line: exit status, options, formats and messages.
+
+mod common;
+
+use common::*;
+use std::io::Write;
+use std::process::{Command, Output, Stdio};
+
+fn rollcall(args: &[&str], stdin: Option<&str>) -> Output {
+    let mut c = Command::new(env!("CARGO_BIN_EXE_rollcall"));
+    c.args(args).current_dir(root());
+    c.stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped());
+    let mut child = c.spawn().unwrap();
+    if let Some(s) = stdin {
+        // The process may exit before reading (a usage error): ignore a closed pipe.
+        let _ = child.stdin.take().unwrap().write_all(s.as_bytes());
+    }
+    drop(child.stdin.take());
+    child.wait_with_output().unwrap()
+}
+
+fn out(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).to_string()
+}
+
+fn err(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).to_string()
+}
+
+#[test]
+fn exit_status_is_0_without_errors_and_1_with_errors() {
+    let ok = rollcall(&["check", "-", "--on", "2026-01-01"], Some("E11.9\nI10\n"));
+    assert_eq!(ok.status.code(), Some(0), "{}", err(&ok));
+    let bad = rollcall(
+        &["check", "-", "--on", "2026-01-01"],
+        Some("E11.9\nE11.56\n"),
+    );
+    assert_eq!(bad.status.code(), Some(1));
+    assert!(out(&bad).contains("E11.65"));
+}
+
+#[test]
+fn usage_errors_exit_2_with_a_message() {
+    for (args, says) in [
+        (vec!["check", "-", "--on", "2026-13-01"], "not a date"),
+        (
+            vec!["check", "-", "--on", "2026-01-01", "--from", "2026-01-01"],
+            "either --on",
+        ),
+        (
+            vec!["check", "-", "--from", "2026-01-01"],
+            "both --from and --to",
+        ),
+        (
+            vec!["check", "-", "--from", "2026-02-01", "--to", "2026-01-01"],
+            "before",
+        ),
+        (vec!["check", "-", "--format", "xml"], "--format"),
+        (vec!["check", "no-such-file.txt"], "cannot read"),
+        (
+            vec!["check", "-", "--index", "no-such.rcx"],
+            "cannot read the index",
+        ),
+        (vec!["frobnicate"], "unknown command"),
+    ] {
+        let o = rollcall(&args, Some("E11.9\n"));
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        assert!(err(&o).contains(says), "{args:?}: {}", err(&o));
+    }
+}
+
+#[test]
+fn a_corrupted_index_file_is_refused_with_a_reason() {
+    let mut b = std::fs::read(root().join("vocab/icd10cm.rcx")).unwrap();
+    let n = b.len();
+    b[n - 5] ^= 1;
+    let dir = std::env::temp_dir().join(format!("rollcall-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let p = dir.join("bad.rcx");
+    std::fs::write(&p, &b).unwrap();
+    let o = rollcall(
+        &["check", "-", "--index", p.to_str().unwrap()],
+        Some("E11.9\n"),
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("corrupted"), "{}", err(&o));
+}
+
+#[test]
+fn json_output_has_the_documented_shape() {
+    let o = rollcall(
+        &[
+            "check",
+            "demo-data/demo-list.tsv",
+            "--from",
+            "2019-01-01",
+            "--to",
+            "2024-12-31",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    assert_eq!(o.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for k in [
+        "vocabulary",
+        "index",
+        "options",
+        "entries",
+        "list_findings",
+        "summary",
+    ] {
+        assert!(v.get(k).is_some(), "{k}");
+    }
+    for k in ["release", "coverage_from", "coverage_to", "sources"] {
+        assert!(v["index"].get(k).is_some(), "index.{k}");
+    }
+    assert_eq!(v["options"]["on"], serde_json::Value::Null);
+    assert_eq!(v["options"]["from"], "2019-01-01");
+    let e = &v["entries"][6];
+    for k in [
+        "line",
+        "input",
+        "code",
+        "label",
+        "description",
+        "status",
+        "findings",
+    ] {
+        assert!(e.get(k).is_some(), "entries[].{k}");
+    }
+    assert_eq!(e["findings"][0]["kind"], "unknown");
+    for k in ["kind", "severity", "message", "suggestions"] {
+        assert!(e["findings"][0].get(k).is_some());
+    }
+    for k in ["code", "description", "reason"] {
+        assert!(e["findings"][0]["suggestions"][0].get(k).is_some());
+    }
+    let lf = &v["list_findings"][0];
+    for k in [
+        "kind",
+        "severity",
+        "lines",
+        "codes",
+        "message",
+        "suggestions",
+    ] {
+        assert!(lf.get(k).is_some(), "list_findings[].{k}");
+    }
+    for k in ["lines", "entries", "errors", "warnings", "infos"] {
+        assert!(v["summary"][k].is_u64(), "summary.{k}");
+    }
+}
+
+#[test]
+fn text_output_matches_the_library_snapshot() {
+    let o = rollcall(
+        &[
+            "check",
+            "demo-data/demo-list.tsv",
+            "--from",
+            "2019-01-01",
+            "--to",
+            "2024-12-31",
+        ],
+        None,
+    );
+    let want = std::fs::read_to_string(root().join("tests/snapshots/demo.txt")).unwrap();
+    assert_eq!(out(&o), want);
+}
+
+#[test]
+fn csv_output_keeps_every_line_and_neutralises_formulas() {
+    let o = rollcall(
+        &["check", "-", "--on", "2026-01-01", "--format", "csv"],
+        Some("=E11.9\n\nI10\n"),
+    );
+    let s = out(&o);
+    let rows: Vec<&str> = s.lines().collect();
+    assert_eq!(
+        rows[0],
+        "lines,input,code,status,kind,severity,message,suggestions"
+    );
+    assert!(rows.iter().any(|r| r.starts_with("1,'=E11.9")), "{s}");
+    assert!(rows.iter().any(|r| r.starts_with("2,,,blank")), "{s}");
+    assert!(rows.iter().any(|r| r.starts_with("3,I10,I10,valid")), "{s}");
+}
+
+#[test]
+fn on_is_the_same_as_a_one_day_period() {
+    let a = rollcall(
+        &[
+            "check",
+            "demo-data/demo-list.tsv",
+            "--on",
+            "2020-06-01",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    let b = rollcall(
+        &[
+            "check",
+            "demo-data/demo-list.tsv",
+            "--from",
+            "2020-06-01",
+            "--to",
+            "2020-06-01",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    assert_eq!(out(&a), out(&b));
+}
+
+#[test]
+fn info_lists_the_bundled_index_with_size_and_sources() {
+    let o = rollcall(&["info", "--format", "json"], None);
+    assert_eq!(o.status.code(), Some(0));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let i = &v["indexes"][0];
+    assert_eq!(i["vocabulary"], "icd10cm");
+    let size = std::fs::metadata(root().join("vocab/icd10cm.rcx"))
+        .unwrap()
+        .len();
+    assert_eq!(i["bytes"].as_u64(), Some(size));
+    assert_eq!(i["coverage_from"], "2015-10-01");
+    assert!(i["sources"].as_array().unwrap().len() >= 5);
+}

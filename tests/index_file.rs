@@ -1,0 +1,104 @@
+//! Opening index files: the header checks, the checksum, and damaged files.
+
+mod common;
+
+use common::*;
+use rollcall::{check, Index, IndexError};
+
+fn bundled_bytes() -> Vec<u8> {
+    std::fs::read(root().join("vocab/icd10cm.rcx")).unwrap()
+}
+
+#[test]
+fn a_truncated_file_says_how_much_is_missing() {
+    let b = bundled_bytes();
+    let cut = &b[..b.len() / 2];
+    let err = Index::open(cut).err().unwrap();
+    assert!(matches!(err, IndexError::Truncated { .. }));
+    let msg = err.to_string();
+    assert!(
+        msg.contains("truncated") && msg.contains(&format!("{} of {}", cut.len(), b.len())),
+        "{msg}"
+    );
+    assert!(Index::open(&b[..10]).is_err());
+    assert!(Index::open(&b[..0]).is_err());
+}
+
+#[test]
+fn a_wrong_version_names_both_versions() {
+    let mut b = bundled_bytes();
+    b[8] = 9;
+    let err = Index::open(&b[..]).err().unwrap();
+    assert_eq!(
+        err,
+        IndexError::Version {
+            expected: 1,
+            got: 9
+        }
+    );
+    assert!(err.to_string().contains("format version 9"));
+}
+
+#[test]
+fn not_an_index_at_all() {
+    let err = Index::open(&b"code\tvalid_from\n"[..]).err().unwrap();
+    assert_eq!(err, IndexError::NotAnIndex);
+}
+
+#[test]
+fn a_flipped_byte_is_caught_by_verify() {
+    let mut b = bundled_bytes();
+    let at = b.len() - 1000;
+    b[at] ^= 0x40;
+    let idx = Index::open(&b[..]).expect("the header is intact");
+    let err = idx.verify().err().unwrap();
+    assert!(matches!(err, IndexError::ChecksumMismatch { .. }));
+    assert!(err.to_string().contains("corrupted"));
+}
+
+/// Damaged files must never panic, verified or not: flip bytes all over the
+/// file, then open, look up and check a list.
+#[test]
+fn damaged_files_never_panic() {
+    let good = bundled_bytes();
+    let mut seed: u64 = 0x9e3779b97f4a7c15;
+    let mut next = || {
+        seed ^= seed << 13;
+        seed ^= seed >> 7;
+        seed ^= seed << 17;
+        seed
+    };
+    for round in 0..60 {
+        let mut b = good.clone();
+        for _ in 0..(1 + round % 7) * 20 {
+            let at = (next() as usize) % b.len();
+            b[at] = next() as u8;
+        }
+        if let Ok(idx) = Index::open(&b[..]) {
+            let _ = idx.verify();
+            let r = check(
+                &idx,
+                "E11.9\nE11.56\nI10\nE11.*\nC43.11\nI60.20\n",
+                &on("2026-01-01"),
+            );
+            assert_eq!(r.summary.lines, 6);
+        }
+    }
+}
+
+#[test]
+fn open_is_cheap_and_meta_is_right() {
+    let idx = index();
+    let m = idx.meta();
+    assert_eq!(m.vocabulary, "icd10cm");
+    assert_eq!(m.coverage_from.to_string(), "2015-10-01");
+    assert_eq!(m.coverage_to.to_string(), "2027-03-31");
+    let shipped = std::fs::read_to_string(root().join("vocab-build/sources/SHA256SUMS")).unwrap();
+    for s in &m.sources {
+        assert!(
+            shipped.contains(&format!("{}  {}", s.sha256, s.file)),
+            "{} recorded with its checksum",
+            s.file
+        );
+    }
+}
