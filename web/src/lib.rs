@@ -169,7 +169,11 @@ pub fn sha256_hex_of(bytes: &[u8]) -> String {
 }
 
 /// Describe an opened index whose file has the given size and SHA-256.
-pub fn describe_index<D: AsRef<[u8]>>(index: &Index<D>, byte_length: u64, sha256: String) -> IndexInfo {
+pub fn describe_index<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    byte_length: u64,
+    sha256: String,
+) -> IndexInfo {
     let meta = index.meta();
     IndexInfo {
         vocabulary: meta.vocabulary.clone(),
@@ -206,11 +210,12 @@ struct OptionsInput {
 }
 
 fn parse_day(what: &str, text: &str) -> Result<Date, String> {
-    Date::parse(text.trim()).map_err(|e| format!("{what} \u{201c}{text}\u{201d} is not a date: {e}"))
+    Date::parse(text.trim())
+        .map_err(|e| format!("{what} \u{201c}{text}\u{201d} is not a date: {e}"))
 }
 
 fn blank(value: &Option<String>) -> bool {
-    value.as_deref().map_or(true, |s| s.trim().is_empty())
+    value.as_deref().is_none_or(|s| s.trim().is_empty())
 }
 
 /// Turn the page's options into core options the way the CLI does: a single
@@ -225,11 +230,20 @@ fn resolve_options(input: &OptionsInput, today: Date) -> Result<CheckOptions, St
         }
         (Some(d), None, None) => Ok(CheckOptions::on(parse_day("date", d)?, input.billable)),
         (None, Some(f), Some(t)) => {
-            let (from, to) = (parse_day("study period start", f)?, parse_day("study period end", t)?);
+            let (from, to) = (
+                parse_day("study period start", f)?,
+                parse_day("study period end", t)?,
+            );
             if from > to {
-                return Err(format!("the study period starts ({from}) after it ends ({to})"));
+                return Err(format!(
+                    "the study period starts ({from}) after it ends ({to})"
+                ));
             }
-            Ok(CheckOptions { from, to, billable: input.billable })
+            Ok(CheckOptions {
+                from,
+                to,
+                billable: input.billable,
+            })
         }
         (None, Some(_), None) | (None, None, Some(_)) => {
             Err("a study period needs both a start and an end".into())
@@ -252,7 +266,11 @@ pub enum Edit {
     /// Delete `line`.
     Remove { line: usize },
     /// Add a line with `code` (and `label`, in the label column) after `after`.
-    Add { after: usize, code: String, label: Option<String> },
+    Add {
+        after: usize,
+        code: String,
+        label: Option<String>,
+    },
 }
 
 /// Byte range of cell `col` of a CSV line (quote-aware, as the core splits it).
@@ -330,7 +348,9 @@ fn new_line(layout: rollcall::input::Layout, code: &str, label: Option<&str>) ->
 
 fn check_code(code: &str) -> Result<(), String> {
     if code.trim().is_empty() || code.contains(['\t', '\n', '\r', ',', '"']) {
-        return Err(format!("\u{201c}{code}\u{201d} cannot be written into the list"));
+        return Err(format!(
+            "\u{201c}{code}\u{201d} cannot be written into the list"
+        ));
     }
     Ok(())
 }
@@ -338,7 +358,7 @@ fn check_code(code: &str) -> Result<(), String> {
 /// Apply edits to a list, leaving every other character as it was (labels,
 /// other columns, line endings). All line numbers refer to `text` as given.
 pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
-    use rollcall::input::{LineKind, Layout};
+    use rollcall::input::{Layout, LineKind};
     let (layout, lines) = rollcall::input::parse_list(text);
     let mut physical: Vec<Option<String>> = text.split('\n').map(|l| Some(l.to_string())).collect();
     let mut added: std::collections::BTreeMap<usize, Vec<String>> = Default::default();
@@ -365,9 +385,15 @@ pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
                 if *after > count {
                     return Err(format!("the list has no line {after}"));
                 }
-                added.entry(*after).or_default().push(new_line(layout, code, label.as_deref()));
+                added
+                    .entry(*after)
+                    .or_default()
+                    .push(new_line(layout, code, label.as_deref()));
             }
-            Edit::Replace { line, code: new_code } => {
+            Edit::Replace {
+                line,
+                code: new_code,
+            } => {
                 let written = entry_code(*line)?;
                 check_code(new_code)?;
                 let Some(raw) = physical[line - 1].as_mut() else {
@@ -394,13 +420,21 @@ pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
                     Layout::Plain => plain_code_range(&body, written),
                 };
                 let Some((a, b)) = range else {
-                    return Err(format!("the code on line {line} could not be found in the line"));
+                    return Err(format!(
+                        "the code on line {line} could not be found in the line"
+                    ));
                 };
                 // Keep the cell's surrounding spaces.
                 let cell = &body[a..b];
                 let lead = cell.len() - cell.trim_start().len();
                 let trail = cell.len() - cell.trim_end().len();
-                *raw = format!("{}{}{}{}", &body[..a + lead], new_code, &body[b - trail..], cr);
+                *raw = format!(
+                    "{}{}{}{}",
+                    &body[..a + lead],
+                    new_code,
+                    &body[b - trail..],
+                    cr
+                );
             }
         }
     }
@@ -443,7 +477,9 @@ impl Checker {
         let sha = sha256_hex_of(&bytes);
         let len = bytes.len() as u64;
         let index = Index::open(bytes).map_err(|e| fail("cannot open the index", e))?;
-        index.verify().map_err(|e| fail("the index is damaged", e))?;
+        index
+            .verify()
+            .map_err(|e| fail("the index is damaged", e))?;
         let info = describe_index(&index, len, sha);
         Ok(Checker {
             index,
@@ -464,6 +500,19 @@ impl Checker {
         let input: OptionsInput = if options.is_undefined() || options.is_null() {
             OptionsInput::default()
         } else {
+            // serde-wasm-bindgen reads only the fields it knows; name any other.
+            if options.is_object() {
+                let object: &js_sys::Object = options.unchecked_ref();
+                for key in js_sys::Object::keys(object).iter() {
+                    let key = key.as_string().unwrap_or_default();
+                    if !matches!(key.as_str(), "on" | "from" | "to" | "billable") {
+                        return Err(fail(
+                            "bad check options",
+                            format!("unknown option \u{201c}{key}\u{201d} (known: on, from, to, billable)"),
+                        ));
+                    }
+                }
+            }
             serde_wasm_bindgen::from_value(options).map_err(|e| fail("bad check options", e))?
         };
         let opts = resolve_options(&input, today()).map_err(|e| fail("bad check options", e))?;
@@ -493,8 +542,8 @@ impl Checker {
     /// line, add a line), every other character kept. Used to apply suggestions.
     #[wasm_bindgen(js_name = editList)]
     pub fn edit_list(&self, text: &str, edits: JsEdits) -> Result<String, JsValue> {
-        let edits: Vec<Edit> = serde_wasm_bindgen::from_value(edits.into())
-            .map_err(|e| fail("bad edits", e))?;
+        let edits: Vec<Edit> =
+            serde_wasm_bindgen::from_value(edits.into()).map_err(|e| fail("bad edits", e))?;
         edit_list(text, &edits).map_err(|e| fail("cannot apply the change", e))
     }
 
@@ -531,7 +580,10 @@ mod tests {
         let none = resolve_options(&OptionsInput::default(), today).unwrap();
         assert_eq!((none.from, none.to, none.billable), (today, today, false));
 
-        let on = OptionsInput { on: Some("2020-01-01".into()), ..Default::default() };
+        let on = OptionsInput {
+            on: Some("2020-01-01".into()),
+            ..Default::default()
+        };
         let o = resolve_options(&on, today).unwrap();
         assert_eq!((o.from, o.to), (day("2020-01-01"), day("2020-01-01")));
 
@@ -542,28 +594,60 @@ mod tests {
             ..Default::default()
         };
         let p = resolve_options(&period, today).unwrap();
-        assert_eq!((p.from, p.to, p.billable), (day("2019-01-01"), day("2020-12-31"), true));
+        assert_eq!(
+            (p.from, p.to, p.billable),
+            (day("2019-01-01"), day("2020-12-31"), true)
+        );
 
         // Blank strings count as not given.
-        let blanks = OptionsInput { on: Some(" ".into()), from: Some(String::new()), ..Default::default() };
+        let blanks = OptionsInput {
+            on: Some(" ".into()),
+            from: Some(String::new()),
+            ..Default::default()
+        };
         assert_eq!(resolve_options(&blanks, today).unwrap().from, today);
     }
 
     #[test]
     fn bad_options_give_messages() {
         let today = day("2025-03-04");
-        let both = OptionsInput { on: Some("2020-01-01".into()), from: Some("2019-01-01".into()), ..Default::default() };
-        assert!(resolve_options(&both, today).unwrap_err().contains("not both"));
-        let bad = OptionsInput { on: Some("2020-13-01".into()), ..Default::default() };
-        assert!(resolve_options(&bad, today).unwrap_err().contains("not a date"));
-        let backwards = OptionsInput { from: Some("2021-01-01".into()), to: Some("2020-01-01".into()), ..Default::default() };
-        assert!(resolve_options(&backwards, today).unwrap_err().contains("after it ends"));
-        let half = OptionsInput { from: Some("2021-01-01".into()), ..Default::default() };
-        assert!(resolve_options(&half, today).unwrap_err().contains("both a start and an end"));
+        let both = OptionsInput {
+            on: Some("2020-01-01".into()),
+            from: Some("2019-01-01".into()),
+            ..Default::default()
+        };
+        assert!(resolve_options(&both, today)
+            .unwrap_err()
+            .contains("not both"));
+        let bad = OptionsInput {
+            on: Some("2020-13-01".into()),
+            ..Default::default()
+        };
+        assert!(resolve_options(&bad, today)
+            .unwrap_err()
+            .contains("not a date"));
+        let backwards = OptionsInput {
+            from: Some("2021-01-01".into()),
+            to: Some("2020-01-01".into()),
+            ..Default::default()
+        };
+        assert!(resolve_options(&backwards, today)
+            .unwrap_err()
+            .contains("after it ends"));
+        let half = OptionsInput {
+            from: Some("2021-01-01".into()),
+            ..Default::default()
+        };
+        assert!(resolve_options(&half, today)
+            .unwrap_err()
+            .contains("both a start and an end"));
     }
 
     fn replace(line: usize, code: &str) -> Edit {
-        Edit::Replace { line, code: code.into() }
+        Edit::Replace {
+            line,
+            code: code.into(),
+        }
     }
 
     #[test]
@@ -588,27 +672,58 @@ mod tests {
     #[test]
     fn removing_and_adding_lines_follow_the_layout() {
         let plain = "E11.0\nE11.1\nE11.9\n";
-        let edits = [replace(1, "E11.*"), Edit::Remove { line: 2 }, Edit::Remove { line: 3 }];
+        let edits = [
+            replace(1, "E11.*"),
+            Edit::Remove { line: 2 },
+            Edit::Remove { line: 3 },
+        ];
         assert_eq!(edit_list(plain, &edits).unwrap(), "E11.*\n");
-        let add = |after, code: &str, label: Option<&str>| Edit::Add { after, code: code.into(), label: label.map(Into::into) };
+        let add = |after, code: &str, label: Option<&str>| Edit::Add {
+            after,
+            code: code.into(),
+            label: label.map(Into::into),
+        };
         assert_eq!(
-            edit_list("label,code\nDiabetes,E11.9\n", &[add(2, "E10.9", Some("Type 1, other"))]).unwrap(),
+            edit_list(
+                "label,code\nDiabetes,E11.9\n",
+                &[add(2, "E10.9", Some("Type 1, other"))]
+            )
+            .unwrap(),
             "label,code\nDiabetes,E11.9\n\"Type 1, other\",E10.9\n"
         );
         assert_eq!(
-            edit_list("E11.9\tdiabetes\nI10\thypertension", &[add(1, "E10.9", Some("type 1"))]).unwrap(),
+            edit_list(
+                "E11.9\tdiabetes\nI10\thypertension",
+                &[add(1, "E10.9", Some("type 1"))]
+            )
+            .unwrap(),
             "E11.9\tdiabetes\nE10.9\ttype 1\nI10\thypertension"
         );
-        assert_eq!(edit_list("E11.9 diabetes", &[add(1, "E10.9", None)]).unwrap(), "E11.9 diabetes\nE10.9");
+        assert_eq!(
+            edit_list("E11.9 diabetes", &[add(1, "E10.9", None)]).unwrap(),
+            "E11.9 diabetes\nE10.9"
+        );
     }
 
     #[test]
     fn edits_refuse_what_they_cannot_do() {
-        assert!(edit_list("E11.9\n# note\n", &[replace(2, "E10.9")]).unwrap_err().contains("no code"));
-        assert!(edit_list("E11.9", &[replace(5, "E10.9")]).unwrap_err().contains("no line 5"));
-        assert!(edit_list("E11.9", &[replace(1, "E10.9\tx")]).unwrap_err().contains("cannot be written"));
-        assert!(edit_list("E11.9", &[Edit::Remove { line: 1 }, replace(1, "E10.9")]).unwrap_err().contains("removed"));
-        assert!(edit_list("E11.9", &[Edit::Remove { line: 0 }]).unwrap_err().contains("no line 0"));
+        assert!(edit_list("E11.9\n# note\n", &[replace(2, "E10.9")])
+            .unwrap_err()
+            .contains("no code"));
+        assert!(edit_list("E11.9", &[replace(5, "E10.9")])
+            .unwrap_err()
+            .contains("no line 5"));
+        assert!(edit_list("E11.9", &[replace(1, "E10.9\tx")])
+            .unwrap_err()
+            .contains("cannot be written"));
+        assert!(
+            edit_list("E11.9", &[Edit::Remove { line: 1 }, replace(1, "E10.9")])
+                .unwrap_err()
+                .contains("removed")
+        );
+        assert!(edit_list("E11.9", &[Edit::Remove { line: 0 }])
+            .unwrap_err()
+            .contains("no line 0"));
     }
 
     #[test]

@@ -22,7 +22,10 @@ fn options(json: &str) -> rollcall_web::JsCheckOptions {
 }
 
 fn message(err: JsValue) -> String {
-    err.dyn_into::<js_sys::Error>().expect("an Error").message().into()
+    err.dyn_into::<js_sys::Error>()
+        .expect("an Error")
+        .message()
+        .into()
 }
 
 #[wasm_bindgen_test]
@@ -30,8 +33,14 @@ fn opens_the_bundled_index_and_describes_it() {
     let c = Checker::new(INDEX.to_vec()).expect("index opens");
     let info: JsValue = c.info().unwrap().into();
     assert_eq!(get(&info, "vocabulary").as_string().unwrap(), "icd10cm");
-    assert_eq!(get(&info, "byte_length").as_f64().unwrap() as usize, INDEX.len());
-    assert_eq!(get(&info, "sha256").as_string().unwrap(), rollcall_web::sha256_hex(INDEX));
+    assert_eq!(
+        get(&info, "byte_length").as_f64().unwrap() as usize,
+        INDEX.len()
+    );
+    assert_eq!(
+        get(&info, "sha256").as_string().unwrap(),
+        rollcall_web::sha256_hex(INDEX)
+    );
     let from = get(&info, "coverage_from").as_string().unwrap();
     let to = get(&info, "coverage_to").as_string().unwrap();
     assert!(from < to, "{from} < {to}");
@@ -41,13 +50,20 @@ fn opens_the_bundled_index_and_describes_it() {
 fn a_check_gives_the_cli_report_shape() {
     let mut c = Checker::new(INDEX.to_vec()).unwrap();
     let report: JsValue = c
-        .check("E11.9\ne119\nnot a code\n", options(r#"{"from":"2016-01-01","to":"2024-12-31","billable":true}"#))
+        .check(
+            "E11.9\ne119\nnot a code\n",
+            options(r#"{"from":"2016-01-01","to":"2024-12-31","billable":true}"#),
+        )
         .unwrap()
         .into();
     // Same JSON as the core's serde output.
     let idx = rollcall::Index::open(INDEX).unwrap();
     let day = |s| rollcall::Date::parse(s).unwrap();
-    let opts = rollcall::CheckOptions { from: day("2016-01-01"), to: day("2024-12-31"), billable: true };
+    let opts = rollcall::CheckOptions {
+        from: day("2016-01-01"),
+        to: day("2024-12-31"),
+        billable: true,
+    };
     let core = rollcall::check(&idx, "E11.9\ne119\nnot a code\n", &opts);
     let expected = serde_json::to_string(&core).unwrap();
     let got: String = js_sys::JSON::stringify(&report).unwrap().into();
@@ -70,7 +86,9 @@ fn timelines_know_codes_and_not_nonsense() {
     assert_eq!(get(&spans.get(0), "kind").as_string().unwrap(), "billable");
     let none: JsValue = c.timeline("QQQ.Q").unwrap().into();
     assert!(none.is_null());
-    let codes: rollcall_web::JsCodes = js_sys::JSON::parse(r#"["E11.9","E11","QQQ"]"#).unwrap().unchecked_into();
+    let codes: rollcall_web::JsCodes = js_sys::JSON::parse(r#"["E11.9","E11","QQQ"]"#)
+        .unwrap()
+        .unchecked_into();
     let map: JsValue = c.timelines(codes).unwrap().into();
     assert!(get(&map, "QQQ").is_null());
     assert!(js_sys::Array::is_array(&get(&map, "E11")));
@@ -79,11 +97,23 @@ fn timelines_know_codes_and_not_nonsense() {
 #[wasm_bindgen_test]
 fn bad_options_are_errors_with_messages() {
     let mut c = Checker::new(INDEX.to_vec()).unwrap();
-    let e = c.check("E11.9", options(r#"{"on":"2020-02-30"}"#)).map(|_| ()).unwrap_err();
+    let e = c
+        .check("E11.9", options(r#"{"on":"2020-02-30"}"#))
+        .map(|_| ())
+        .unwrap_err();
     assert!(message(e).contains("not a date"));
-    let e = c.check("E11.9", options(r#"{"from":"2021-01-01","to":"2020-01-01"}"#)).map(|_| ()).unwrap_err();
+    let e = c
+        .check(
+            "E11.9",
+            options(r#"{"from":"2021-01-01","to":"2020-01-01"}"#),
+        )
+        .map(|_| ())
+        .unwrap_err();
     assert!(message(e).contains("after it ends"));
-    let e = c.check("E11.9", options(r#"{"when":"soon"}"#)).map(|_| ()).unwrap_err();
+    let e = c
+        .check("E11.9", options(r#"{"when":"soon"}"#))
+        .map(|_| ())
+        .unwrap_err();
     assert!(message(e).starts_with("bad check options"));
     let fresh = Checker::new(INDEX.to_vec()).unwrap();
     assert!(message(fresh.coverage().map(|_| ()).unwrap_err()).contains("check a list first"));
@@ -94,15 +124,28 @@ fn damaged_and_foreign_files_are_refused_with_messages() {
     let empty = Checker::new(Vec::new()).map(|_| ()).unwrap_err();
     assert!(message(empty).contains("empty"));
 
-    let junk = Checker::new(b"not an index at all, only some text".to_vec()).map(|_| ()).unwrap_err();
+    let junk = Checker::new(b"not an index at all, only some text".to_vec())
+        .map(|_| ())
+        .unwrap_err();
     assert!(message(junk).starts_with("cannot open the index"));
 
-    let truncated = message(Checker::new(INDEX[..INDEX.len() / 2].to_vec()).map(|_| ()).unwrap_err());
-    assert!(truncated.starts_with("cannot open the index") || truncated.starts_with("the index is damaged"), "{truncated}");
+    let truncated = message(
+        Checker::new(INDEX[..INDEX.len() / 2].to_vec())
+            .map(|_| ())
+            .unwrap_err(),
+    );
+    assert!(
+        truncated.starts_with("cannot open the index")
+            || truncated.starts_with("the index is damaged"),
+        "{truncated}"
+    );
 
     let mut flipped = INDEX.to_vec();
     let at = flipped.len() * 2 / 3;
     flipped[at] ^= 0x55;
     let m = message(Checker::new(flipped).map(|_| ()).unwrap_err());
-    assert!(m.starts_with("the index is damaged") || m.starts_with("cannot open the index"), "{m}");
+    assert!(
+        m.starts_with("the index is damaged") || m.starts_with("cannot open the index"),
+        "{m}"
+    );
 }

@@ -13,8 +13,11 @@ fn run(args: &[String]) -> Result<(), String> {
     let bytes = std::fs::read(index_path).map_err(|e| format!("cannot read {index_path}: {e}"))?;
     let len = bytes.len() as u64;
     let sha = rollcall_web::sha256_hex_of(&bytes);
-    let index = rollcall::Index::open(bytes).map_err(|e| format!("cannot open {index_path}: {e}"))?;
-    index.verify().map_err(|e| format!("{index_path} is damaged: {e}"))?;
+    let index =
+        rollcall::Index::open(bytes).map_err(|e| format!("cannot open {index_path}: {e}"))?;
+    index
+        .verify()
+        .map_err(|e| format!("{index_path} is damaged: {e}"))?;
     let info = rollcall_web::describe_index(&index, len, sha);
     // The manifest names the file as the page fetches it.
     let file = std::path::Path::new(index_path)
