@@ -426,6 +426,10 @@ test("100,000 lines are checked while the page keeps answering", async () => {
   }, lines.join("\n"));
   // Count main-thread timer ticks while the worker checks.
   await page.evaluate(() => {
+    // Input delay: from the click event's creation to its handler running.
+    document.getElementById("opt-billable").addEventListener("click", (e) => {
+      window.__delay = performance.now() - e.timeStamp;
+    });
     window.__ticks = [];
     window.__tick = setInterval(() => window.__ticks.push(performance.now()), 10);
   });
@@ -435,10 +439,9 @@ test("100,000 lines are checked while the page keeps answering", async () => {
     return performance.now();
   });
   // While the worker checks, the page answers typing in another field at once.
-  const t = Date.now();
   await page.click("#opt-billable");
   const answered = await page.isChecked("#opt-billable");
-  const latency = Date.now() - t;
+  const latency = await page.evaluate(() => Math.round(window.__delay));
   const typedAt = await page.evaluate(() => performance.now());
   await page.waitForFunction((n) => Number(document.body.dataset.checked || 0) > n && document.body.dataset.checking === "false", before, { timeout: 180_000 });
   const { ticks, checkMs } = await page.evaluate(() => {
@@ -450,10 +453,10 @@ test("100,000 lines are checked while the page keeps answering", async () => {
   assert.ok(Number(summary.errors) + Number(summary.warnings) + Number(summary.infos) > 0);
   assert.match(await page.textContent("#check-status"), /Checked 100,000 lines/);
   assert.ok(typedAt - clickedAt < checkMs, `the click was answered after the check ended (${(typedAt - clickedAt).toFixed(0)} ms, check ${checkMs.toFixed(0)} ms)`);
-  assert.ok(latency < 1000, `the page took ${latency} ms to answer a click during the check`);
+  assert.ok(latency < 100, `a click waited ${latency} ms for the page during the check`);
   // Timer ticks kept coming while the worker checked.
   const during = ticks.filter((x) => x > clickedAt + 50 && x < clickedAt + checkMs * 0.9);
-  assert.ok(during.length >= Math.floor((checkMs * 0.85) / 100), `only ${during.length} timer ticks in ${checkMs.toFixed(0)} ms of checking`);
+  assert.ok(during.length >= Math.floor((checkMs * 0.85) / 40), `only ${during.length} timer ticks in ${checkMs.toFixed(0)} ms of checking`);
   console.log(`# 100,000 lines: ${checkMs.toFixed(0)} ms in the worker; a click answered in ${latency} ms; ${during.length} main-thread ticks meanwhile`);
   await page.close();
 });
