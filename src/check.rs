@@ -62,6 +62,28 @@ pub(crate) enum Item {
     BadPattern(String),
 }
 
+/// A hasher for ordinals (small integers chosen by us, not by an attacker):
+/// one multiply instead of SipHash.
+#[derive(Default, Clone, Copy)]
+pub(crate) struct OrdHasher(u64);
+
+impl std::hash::Hasher for OrdHasher {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.0 = (self.0.rotate_left(5) ^ b as u64).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
+        }
+    }
+    fn write_u32(&mut self, n: u32) {
+        self.0 = (self.0 ^ n as u64).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+    }
+}
+
+/// Maps keyed by ordinal.
+pub(crate) type OrdMap<V> = HashMap<u32, V, std::hash::BuildHasherDefault<OrdHasher>>;
+
 /// A set of ordinals as a bitmap, remembering insertion order for iteration.
 pub(crate) struct Marks {
     bits: Vec<u64>,
@@ -105,13 +127,13 @@ impl<'a> IntoIterator for &'a Marks {
 /// The list as a whole, for judging each entry against the others.
 pub(crate) struct ListContext {
     /// Explicit code entries: ordinal → lines.
-    pub listed: HashMap<u32, Vec<usize>>,
+    pub listed: OrdMap<Vec<usize>>,
     /// Billable-in-period codes reached by explicit entries or patterns.
     pub reached: Marks,
     /// Billable-in-period codes written explicitly.
     pub explicit: Marks,
     /// Codes matched by a pattern → the first pattern line.
-    pub by_pattern: HashMap<u32, usize>,
+    pub by_pattern: OrdMap<usize>,
     /// Whether any code of the list is written with a dot. A list written
     /// wholly without dots uses the official undotted form of the release
     /// files, so a missing dot is only worth a note in a list that mixes forms.
@@ -139,10 +161,10 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
 
     // The list context.
     let mut ctx = ListContext {
-        listed: HashMap::new(),
+        listed: OrdMap::default(),
         reached: Marks::new(view.len()),
         explicit: Marks::new(view.len()),
-        by_pattern: HashMap::new(),
+        by_pattern: OrdMap::default(),
         dotted: false,
     };
     for (l, item) in lines.iter().zip(&items) {
@@ -513,6 +535,11 @@ fn judge_dates(
     shown: &str,
     e: &mut Entry,
 ) {
+    // The common case first: billable on every day of the period.
+    if view.billable(ord).any(|p| p.covers(period)) {
+        e.status = Status::Valid;
+        return;
+    }
     let segs = segments(view, ord, period);
     let billable: Vec<Period> = view.billable(ord).collect();
     let header: Vec<Period> = view.header(ord).collect();

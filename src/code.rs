@@ -63,6 +63,7 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
     }
     let found = |code: &str, mut changes: Vec<&'static str>| {
         let ord = view.ordinal(code)?;
+        view.note_code(ord, code);
         let official = view.display(code);
         let dots = upper.matches('.').count();
         if dots > 1 {

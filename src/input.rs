@@ -123,44 +123,60 @@ fn heading_word(cell: &str) -> Option<String> {
 /// Splits one CSV line (RFC 4180 quoting, on one line). `Err` for an
 /// unterminated quote.
 pub fn split_csv(line: &str) -> Result<Vec<String>, String> {
-    if !line.contains('"') {
+    if !line.as_bytes().contains(&b'"') {
         return Ok(line.split(',').map(str::to_string).collect());
     }
     let mut out = Vec::new();
-    let mut cur = String::new();
-    let mut chars = line.chars().peekable();
-    let mut quoted = false;
-    let mut at_start = true;
-    while let Some(c) = chars.next() {
-        match (quoted, c) {
-            (false, '"') if at_start && cur.trim().is_empty() => {
-                quoted = true;
-                cur.clear();
-            }
-            (true, '"') => {
-                if chars.peek() == Some(&'"') {
-                    cur.push('"');
-                    chars.next();
+    let mut rest = line;
+    loop {
+        let lead = rest.len() - rest.trim_start().len();
+        if rest[lead..].starts_with('"') {
+            // A quoted cell: up to the closing quote, "" standing for one quote.
+            let body = &rest[lead + 1..];
+            let mut cell = String::new();
+            let mut i = 0;
+            loop {
+                let Some(q) = body[i..].find('"') else {
+                    return Err(
+                        "a quoted cell is not closed; add the closing \" or remove the opening one"
+                            .into(),
+                    );
+                };
+                cell.push_str(&body[i..i + q]);
+                i += q + 1;
+                if body[i..].starts_with('"') {
+                    cell.push('"');
+                    i += 1;
                 } else {
-                    quoted = false;
+                    break;
                 }
             }
-            (false, ',') => {
-                out.push(std::mem::take(&mut cur));
-                at_start = true;
-                continue;
+            let after = &body[i..];
+            match after.find(',') {
+                Some(c) => {
+                    cell.push_str(after[..c].trim());
+                    out.push(cell);
+                    rest = &after[c + 1..];
+                }
+                None => {
+                    cell.push_str(after.trim());
+                    out.push(cell);
+                    return Ok(out);
+                }
             }
-            _ => cur.push(c),
+        } else {
+            match rest.find(',') {
+                Some(c) => {
+                    out.push(rest[..c].to_string());
+                    rest = &rest[c + 1..];
+                }
+                None => {
+                    out.push(rest.to_string());
+                    return Ok(out);
+                }
+            }
         }
-        at_start = false;
     }
-    if quoted {
-        return Err(
-            "a quoted cell is not closed; add the closing \" or remove the opening one".into(),
-        );
-    }
-    out.push(cur);
-    Ok(out)
 }
 
 fn split(layout: Layout, line: &str) -> Result<Vec<String>, String> {

@@ -7,7 +7,6 @@ use crate::index::View;
 use crate::model::Period;
 use crate::pattern::Pattern;
 use crate::report::{Kind, ListFinding, Severity, Suggestion};
-use std::collections::{BTreeSet, HashSet};
 
 /// Runs the whole-list checks.
 pub(crate) fn run(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
@@ -65,6 +64,21 @@ fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
         .collect()
 }
 
+/// Every ancestor of the marked codes, sorted, once each.
+fn ancestors_of(view: &View<'_>, marks: &Marks) -> Vec<u32> {
+    let mut seen = Marks::new(view.len());
+    for &o in marks {
+        for a in view.ancestors(o) {
+            if !seen.insert(a) {
+                break; // its ancestors are in already
+            }
+        }
+    }
+    let mut v: Vec<u32> = seen.into_iter().copied().collect();
+    v.sort_unstable();
+    v
+}
+
 /// Counts billable-in-period codes under `n`: (all, marked). Stops early,
 /// returning `None`, when `stop_on_unmarked` and an unmarked one is found.
 fn count_under(
@@ -93,11 +107,8 @@ fn count_under(
 /// highest such node is reported; its suggestion, a pattern, matches
 /// exactly the codes it replaces.
 fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
-    let mut candidates: BTreeSet<u32> = BTreeSet::new();
-    for &o in &ctx.explicit {
-        candidates.extend(view.ancestors(o));
-    }
-    let mut full: HashSet<u32> = HashSet::new();
+    let candidates = ancestors_of(view, &ctx.explicit);
+    let mut full = Marks::new(view.len());
     for &n in &candidates {
         if ctx.listed.contains_key(&n) {
             continue;
@@ -140,16 +151,13 @@ fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFind
 /// (written or matched by a pattern). Reported at the lowest such node; a
 /// higher node is reported only if it is missing codes the lower ones do not name.
 fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
-    let mut candidates: BTreeSet<u32> = BTreeSet::new();
-    for &o in &ctx.reached {
-        candidates.extend(view.ancestors(o));
-    }
+    let candidates = ancestors_of(view, &ctx.reached);
     let mut by_depth: Vec<(usize, u32)> = candidates
         .into_iter()
         .map(|n| (view.ancestors(n).count(), n))
         .collect();
     by_depth.sort_by(|a, b| b.0.cmp(&a.0).then(a.1.cmp(&b.1)));
-    let mut named: HashSet<u32> = HashSet::new();
+    let mut named = Marks::new(view.len());
     let mut out = Vec::new();
     for (_, n) in by_depth {
         if ctx.listed.contains_key(&n) {
@@ -166,7 +174,9 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
         if missing.iter().all(|o| named.contains(o)) {
             continue;
         }
-        named.extend(missing.iter().copied());
+        for &m in &missing {
+            named.insert(m);
+        }
         let shown = view.display(&view.code(n));
         out.push(ListFinding {
             kind: Kind::SiblingGap,

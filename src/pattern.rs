@@ -97,6 +97,7 @@ impl Pattern {
                 break;
             }
             if view.billable_in(o as u32, period) {
+                view.note_code(o as u32, k);
                 out.push(o as u32);
             }
         }

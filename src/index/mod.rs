@@ -277,6 +277,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             meta: &self.meta,
             tree: &self.tree,
             predecessors: std::cell::OnceCell::new(),
+            known: Default::default(),
         }
     }
 
@@ -395,6 +396,9 @@ pub struct View<'a> {
     meta: &'a Meta,
     tree: &'a Tree,
     predecessors: std::cell::OnceCell<std::collections::HashMap<u32, Vec<(u32, Date)>>>,
+    /// Codes already known by ordinal (reading one back from the fst costs
+    /// a walk; a check notes the codes it looked up).
+    known: std::cell::RefCell<std::collections::HashMap<u32, Box<str>>>,
 }
 
 impl<'a> View<'a> {
@@ -428,6 +432,26 @@ impl<'a> View<'a> {
     /// ranks, so at each node the path to take is the last transition whose
     /// output does not pass the ordinal.
     pub fn code(&self, ord: u32) -> String {
+        if let Some(k) = self.known.borrow().get(&ord) {
+            return k.to_string();
+        }
+        let key = self.code_from_fst(ord);
+        self.known
+            .borrow_mut()
+            .insert(ord, key.clone().into_boxed_str());
+        key
+    }
+
+    /// Remembers that `code` is at `ord` (from a lookup), so [`code`](Self::code)
+    /// need not walk the fst for it.
+    pub fn note_code(&self, ord: u32, code: &str) {
+        self.known
+            .borrow_mut()
+            .entry(ord)
+            .or_insert_with(|| code.into());
+    }
+
+    fn code_from_fst(&self, ord: u32) -> String {
         let fst = self.map.as_fst();
         let target = ord as u64;
         let mut node = fst.root();
@@ -460,7 +484,11 @@ impl<'a> View<'a> {
     pub fn display(&self, code: &str) -> String {
         let n = self.meta.dot_after as usize;
         if n > 0 && code.len() > n && code.is_char_boundary(n) {
-            format!("{}.{}", &code[..n], &code[n..])
+            let mut s = String::with_capacity(code.len() + 1);
+            s.push_str(&code[..n]);
+            s.push('.');
+            s.push_str(&code[n..]);
+            s
         } else {
             code.to_string()
         }
