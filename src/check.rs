@@ -189,6 +189,7 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
 
     // Pass 2: judge each entry.
     let mut suggestions_left = SUGGESTION_LIMIT;
+    let mut memo = Memo::default();
     let mut entries = Vec::with_capacity(lines.len());
     for (l, item) in lines.iter().zip(items) {
         let label = match &l.kind {
@@ -213,6 +214,7 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
             l.number,
             &mut e,
             &mut suggestions_left,
+            &mut memo,
         );
         e.findings.sort_by_key(|f| f.severity);
         entries.push(e);
@@ -368,6 +370,14 @@ fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<S
     out
 }
 
+/// Findings already made in this check, by code: a list that repeats a code
+/// gets the same judgement for each line without redoing it.
+#[derive(Default)]
+struct Memo {
+    dates: OrdMap<(Status, Vec<Finding>)>,
+    unknown: HashMap<String, Finding>,
+}
+
 #[allow(clippy::too_many_arguments)]
 fn judge(
     view: &View<'_>,
@@ -378,6 +388,7 @@ fn judge(
     line: usize,
     e: &mut Entry,
     suggestions_left: &mut usize,
+    memo: &mut Memo,
 ) {
     let title = &view.meta().title;
     let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
@@ -440,6 +451,10 @@ fn judge(
                 msg.push_str(&extra);
             }
             let mut sugg = Vec::new();
+            if let Some(f) = memo.unknown.get(&c) {
+                e.findings.push(f.clone());
+                return;
+            }
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
                 let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
@@ -470,8 +485,9 @@ fn judge(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
                 ));
             }
-            e.findings
-                .push(finding(Kind::Unknown, Severity::Error, msg, sugg));
+            let f = finding(Kind::Unknown, Severity::Error, msg, sugg);
+            memo.unknown.insert(c, f.clone());
+            e.findings.push(f);
         }
         Item::Code {
             ord,
@@ -493,7 +509,15 @@ fn judge(
                     vec![suggestion(view, ord, "the official form")],
                 ));
             }
-            judge_dates(view, options, period, ctx, ord, &shown, e);
+            // The same code on many lines is judged once.
+            if let Some((status, found)) = memo.dates.get(&ord) {
+                e.status = *status;
+                e.findings.extend(found.iter().cloned());
+            } else {
+                let before = e.findings.len();
+                judge_dates(view, options, period, ctx, ord, &shown, e);
+                memo.dates.insert(ord, (e.status, e.findings[before..].to_vec()));
+            }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);
             }
