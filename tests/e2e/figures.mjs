@@ -35,11 +35,19 @@ function sizes() {
   console.log(`html+js+css          ${kb(js)} raw, ${kb(jsGz)} gzip`);
 }
 
+// A list as a large study might send: the demo list, then distinct real codes
+// of the release history (every k-th row), each with its description.
+const HISTORY = path.join(ROOT, "vocab-build/sources/icd10cm-history-FY2016-FY2027.tsv.gz");
+let historyRows = null;
 function listOf(n) {
-  let base = ["E11.9", "e119", "I10", "E10.9\tType 1", "J45.909", "Z99.9", "E11", "K21.9"];
-  if (fs.existsSync(DEMO)) base = fs.readFileSync(DEMO, "utf8").split("\n").filter((l) => l.trim() && !l.startsWith("#"));
-  const out = [];
-  for (let i = 0; out.length < n; i++) out.push(base[i % base.length]);
+  const demo = fs.readFileSync(DEMO, "utf8").split("\n").filter((l) => l.trim() && !l.startsWith("#"));
+  if (!historyRows) {
+    historyRows = zlib.gunzipSync(fs.readFileSync(HISTORY)).toString("utf8").split("\n").slice(1).filter(Boolean)
+      .map((l) => { const [code, , , desc] = l.split("\t"); return `${code}\t${desc || ""}`; });
+  }
+  const out = demo.slice(0, n);
+  const step = Math.max(1, Math.floor(historyRows.length / n));
+  for (let i = 0; out.length < n; i = (i + step) % historyRows.length) out.push(historyRows[i]);
   return out.join("\n");
 }
 

@@ -147,6 +147,8 @@ pub struct IndexInfo {
     pub coverage_to: String,
     pub sources: Vec<SourceInfo>,
     pub byte_length: u64,
+    /// SHA-256 of the index content (everything after the 56-byte header),
+    /// as sealed in the header and verified on open.
     pub sha256: String,
 }
 
@@ -160,12 +162,7 @@ pub struct SourceInfo {
 
 /// Lower-case hex SHA-256 of `bytes`.
 pub fn sha256_hex_of(bytes: &[u8]) -> String {
-    let digest = rollcall::sha256::digest(bytes);
-    let mut out = String::with_capacity(64);
-    for b in digest {
-        out.push_str(&format!("{b:02x}"));
-    }
-    out
+    rollcall::sha256::hex(&rollcall::sha256::digest(bytes))
 }
 
 /// Describe an opened index whose file has the given size and SHA-256.
@@ -474,13 +471,15 @@ impl Checker {
         if bytes.is_empty() {
             return Err(fail("cannot open the index", "the file is empty"));
         }
-        let sha = sha256_hex_of(&bytes);
         let len = bytes.len() as u64;
         let index = Index::open(bytes).map_err(|e| fail("cannot open the index", e))?;
+        // One pass over the bytes: verify() hashes the content and compares
+        // it with the header; the page then compares that checksum with the
+        // manifest's.
         index
             .verify()
             .map_err(|e| fail("the index is damaged", e))?;
-        let info = describe_index(&index, len, sha);
+        let info = describe_index(&index, len, index.checksum());
         Ok(Checker {
             index,
             info,

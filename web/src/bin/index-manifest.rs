@@ -1,5 +1,6 @@
 //! Writes the manifest of a bundled index: what the index says about itself
-//! (release, coverage, sources) plus its byte length and SHA-256, all read
+//! (release, coverage, sources) plus its byte length and its content SHA-256
+//! (everything after the 56-byte header, as sealed in the header), all read
 //! from the file itself.
 //!
 //! Usage: `index-manifest INDEX.rcx OUT.json`
@@ -12,13 +13,12 @@ fn run(args: &[String]) -> Result<(), String> {
     };
     let bytes = std::fs::read(index_path).map_err(|e| format!("cannot read {index_path}: {e}"))?;
     let len = bytes.len() as u64;
-    let sha = rollcall_web::sha256_hex_of(&bytes);
     let index =
         rollcall::Index::open(bytes).map_err(|e| format!("cannot open {index_path}: {e}"))?;
     index
         .verify()
         .map_err(|e| format!("{index_path} is damaged: {e}"))?;
-    let info = rollcall_web::describe_index(&index, len, sha);
+    let info = rollcall_web::describe_index(&index, len, index.checksum());
     // The manifest names the file as the page fetches it.
     let file = std::path::Path::new(index_path)
         .file_name()
