@@ -8,7 +8,9 @@ use std::hint::black_box;
 use std::time::Instant;
 
 fn main() {
-    let path = std::env::args().nth(1).unwrap_or_else(|| "vocab/icd10cm.rcx".into());
+    let path = std::env::args()
+        .nth(1)
+        .unwrap_or_else(|| "vocab/icd10cm.rcx".into());
     let bytes = std::fs::read(&path).expect("index file");
     let t = Instant::now();
     let index = Index::open(&bytes[..]).expect("index opens");
@@ -40,7 +42,19 @@ fn main() {
     }
     let status_rate = (rounds * codes.len()) as f64 / t.elapsed().as_secs_f64();
     black_box(live);
-    println!("index: {} bytes, {} codes; open {:?}, verify {:?}", bytes.len(), codes.len(), open, verify);
-    println!("code -> ordinal lookups per second: {:.2} M", map_rate / 1e6);
-    println!("code -> billable-on-a-date lookups per second: {:.2} M", status_rate / 1e6);
+    println!(
+        "index: {} bytes, {} codes; open {:?}, verify {:?}",
+        bytes.len(),
+        codes.len(),
+        open,
+        verify
+    );
+    println!(
+        "code -> ordinal lookups per second: {:.2} M",
+        map_rate / 1e6
+    );
+    println!(
+        "code -> billable-on-a-date lookups per second: {:.2} M",
+        status_rate / 1e6
+    );
 }
