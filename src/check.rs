@@ -516,7 +516,8 @@ fn judge(
             } else {
                 let before = e.findings.len();
                 judge_dates(view, options, period, ctx, ord, &shown, e);
-                memo.dates.insert(ord, (e.status, e.findings[before..].to_vec()));
+                memo.dates
+                    .insert(ord, (e.status, e.findings[before..].to_vec()));
             }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);
