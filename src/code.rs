@@ -43,14 +43,25 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
             ),
         };
     }
-    let compact: String = written.chars().filter(|c| !c.is_whitespace()).collect();
-    let upper = compact.to_ascii_uppercase();
-    let code: String = upper.chars().filter(|c| *c != '.').collect();
+    // One pass: the undotted upper-case code, and what differed from it.
+    let mut code = String::with_capacity(written.len());
+    let (mut spaces, mut lower, mut dots, mut dot_at) = (false, false, 0usize, None);
+    for c in written.chars() {
+        if c.is_whitespace() {
+            spaces = true;
+        } else if c == '.' {
+            dots += 1;
+            dot_at.get_or_insert(code.len());
+        } else {
+            lower |= c.is_ascii_lowercase();
+            code.push(c.to_ascii_uppercase());
+        }
+    }
     let mut changes = Vec::new();
-    if compact.len() != written.len() {
+    if spaces {
         changes.push("spaces removed");
     }
-    if upper != compact {
+    if lower {
         changes.push("upper case");
     }
     if code.is_empty() {
@@ -61,21 +72,17 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
             ),
         };
     }
+    let dot_after = view.meta().dot_after as usize;
     let found = |code: &str, mut changes: Vec<&'static str>| {
         let ord = view.ordinal(code)?;
         view.note_code(ord, code);
-        let official = view.display(code);
-        let dots = upper.matches('.').count();
-        if dots > 1 {
-            changes.push("extra dots removed");
-        } else if upper.replace('.', "") == code && upper != official {
-            if dots == 0 {
-                changes.push("dot added");
-            } else if official.contains('.') {
-                changes.push("dot moved");
-            } else {
-                changes.push("dot removed");
-            }
+        let dotted = dot_after > 0 && code.len() > dot_after;
+        match (dots, dotted) {
+            (2.., _) => changes.push("extra dots removed"),
+            (0, true) => changes.push("dot added"),
+            (1, true) if dot_at != Some(dot_after) => changes.push("dot moved"),
+            (1, false) => changes.push("dot removed"),
+            _ => {}
         }
         Some(Resolved::Found { ord, changes })
     };

@@ -1,0 +1,64 @@
+//! How written forms are read. The forms are common practice in hand-made
+//! lists (no outside source); the codes are real ones of the bundled index.
+
+mod common;
+
+use common::*;
+use rollcall::{check, Kind, Status};
+
+fn read(text: &str) -> Vec<(Option<String>, Vec<String>)> {
+    let index = index();
+    let r = check(&index, text, &on("2026-01-01"));
+    r.entries
+        .iter()
+        .map(|e| {
+            let notes = e
+                .findings
+                .iter()
+                .filter(|f| f.kind == Kind::Normalized)
+                .map(|f| f.message.clone())
+                .collect();
+            (e.code.clone(), notes)
+        })
+        .collect()
+}
+
+#[test]
+fn case_dots_and_letters_for_digits() {
+    let got = read("e11.9\nE119\nE1.19\nE11..9\nI1O\nE11.9\n0IO\n");
+    let want = [
+        ("E11.9", "upper case"),
+        ("E11.9", "dot added"),
+        ("E11.9", "dot moved"),
+        ("E11.9", "extra dots removed"),
+        ("I10", "letter O read as zero"),
+    ];
+    for (i, (code, note)) in want.iter().enumerate() {
+        assert_eq!(got[i].0.as_deref(), Some(*code), "line {}", i + 1);
+        assert!(
+            got[i].1.iter().any(|m| m.contains(note)),
+            "line {}: {:?}",
+            i + 1,
+            got[i].1
+        );
+    }
+    assert!(got[5].1.is_empty(), "the official form gets no note");
+    // O10 (pre-existing hypertension in pregnancy) written with a zero and an I.
+    assert_eq!(got[6].0.as_deref(), Some("O10"));
+}
+
+#[test]
+fn an_undotted_list_is_not_told_about_dots() {
+    let got = read("E119\nI10\nE1165\n");
+    assert!(got.iter().all(|(_, n)| n.is_empty()), "{got:?}");
+}
+
+#[test]
+fn impossible_characters_and_shapes_are_malformed() {
+    let index = index();
+    let r = check(&index, "E11/9\n250.00\nE11.9\n", &on("2026-01-01"));
+    assert_eq!(r.entries[0].status, Status::Malformed);
+    assert!(r.entries[0].findings[0].message.contains("\"/\""));
+    assert_eq!(r.entries[1].status, Status::Malformed);
+    assert_eq!(r.entries[2].status, Status::Valid);
+}
