@@ -150,3 +150,17 @@ fn damaged_and_foreign_files_are_refused_with_messages() {
         "{m}"
     );
 }
+
+#[wasm_bindgen_test]
+fn check_json_gives_the_same_report_as_check() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let text = "E11.9\nE11.56\nI50.2\nE14.*\n";
+    let opts = r#"{"from":"2019-01-01","to":"2024-12-31"}"#;
+    let object: JsValue = c.check(text, options(opts)).unwrap().into();
+    let from_object: String = js_sys::JSON::stringify(&object).unwrap().into();
+    let from_text = c.check_json(text, options(opts)).unwrap();
+    assert_eq!(
+        serde_json::from_str::<serde_json::Value>(&from_object).unwrap(),
+        serde_json::from_str::<serde_json::Value>(&from_text).unwrap()
+    );
+}
