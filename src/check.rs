@@ -330,11 +330,8 @@ fn in_list(have: usize, of: usize) -> String {
         (0, 1) => "not in the list".into(),
         (0, _) => "none of them in the list".into(),
         (1, 1) => "in the list".into(),
-        (h, n) if h == n => format!(
-            "all {} in the list",
-            if n == 2 { "both" } else { "of them" }
-        )
-        .replace("all both", "both"),
+        (_, 2) if have == 2 => "both in the list".into(),
+        (h, n) if h == n => "all of them in the list".into(),
         (h, _) => format!("{h} of them in the list"),
     }
 }
@@ -752,6 +749,14 @@ fn judge_dates(
     let mut parts = Vec::new();
     let mut sugg = Vec::new();
     let mut seen = HashSet::new();
+    // Codes covering a part of the period that the list lacks, each once.
+    let mut offer = |sugg: &mut Vec<Suggestion>, codes: &[u32], why: String| {
+        for &o in codes.iter().filter(|o| !ctx.reached.contains(o)) {
+            if seen.insert(o) && sugg.len() < NAMED_LIMIT {
+                sugg.push(suggestion(view, o, why.clone()));
+            }
+        }
+    };
     for (p, k) in &segs {
         match k {
             Some(SpanKind::Billable) => parts.push(format!("billable from {} to {}", p.from, p.to)),
@@ -767,15 +772,11 @@ fn judge_dates(
                     name_codes(view, &kids),
                     in_list(have, kids.len())
                 ));
-                for &o in kids.iter().filter(|o| !ctx.reached.contains(o)) {
-                    if seen.insert(o) && sugg.len() < NAMED_LIMIT {
-                        sugg.push(suggestion(
-                            view,
-                            o,
-                            format!("covers {} to {} under it", p.from, p.to),
-                        ));
-                    }
-                }
+                offer(
+                    &mut sugg,
+                    &kids,
+                    format!("covers {} to {} under it", p.from, p.to),
+                );
             }
             None => {
                 let before = p.to
@@ -806,15 +807,11 @@ fn judge_dates(
                         in_list(have, cover.len())
                     ));
                 }
-                for &o in cover.iter().filter(|o| !ctx.reached.contains(o)) {
-                    if seen.insert(o) && sugg.len() < NAMED_LIMIT {
-                        sugg.push(suggestion(
-                            view,
-                            o,
-                            format!("conversion table: covers {} to {}", p.from, p.to),
-                        ));
-                    }
-                }
+                offer(
+                    &mut sugg,
+                    &cover,
+                    format!("conversion table: covers {} to {}", p.from, p.to),
+                );
             }
         }
     }

@@ -53,6 +53,7 @@ pub struct Detected {
     pub headings: bool,
 }
 
+/// Column names that mark a row of headings (with [`LABEL_WORDS`]).
 const HEADING_WORDS: &[&str] = &[
     "code",
     "codes",
@@ -64,13 +65,6 @@ const HEADING_WORDS: &[&str] = &[
     "dx",
     "diagnosis",
     "concept",
-    "description",
-    "desc",
-    "label",
-    "name",
-    "term",
-    "display",
-    "title",
     "category",
     "system",
 ];
@@ -116,6 +110,7 @@ fn heading_word(cell: &str) -> Option<String> {
     let w = w.replace([' ', '_'], "");
     HEADING_WORDS
         .iter()
+        .chain(LABEL_WORDS)
         .any(|h| w == *h || w.starts_with(h) || w.ends_with("code"))
         .then_some(w)
 }

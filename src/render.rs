@@ -174,7 +174,7 @@ pub fn csv(report: &Report) -> String {
             .join("; ")
     };
     for e in &report.entries {
-        let status = serde_json_name(&e.status);
+        let status = e.status.name();
         let code = e.code.as_deref().unwrap_or("");
         if e.findings.is_empty() {
             let _ = writeln!(
@@ -215,23 +215,6 @@ pub fn csv(report: &Report) -> String {
         );
     }
     s
-}
-
-fn serde_json_name(s: &crate::report::Status) -> &'static str {
-    use crate::report::Status::*;
-    match s {
-        Valid => "valid",
-        Header => "header",
-        Partial => "partial",
-        Retired => "retired",
-        NotYetValid => "not-yet-valid",
-        Unknown => "unknown",
-        Malformed => "malformed",
-        Pattern => "pattern",
-        Blank => "blank",
-        Comment => "comment",
-        ColumnHeadings => "column-headings",
-    }
 }
 
 #[cfg(test)]

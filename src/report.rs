@@ -111,6 +111,23 @@ pub enum Status {
 }
 
 impl Status {
+    /// The stable name used in every output (`not-yet-valid`).
+    pub fn name(self) -> &'static str {
+        match self {
+            Status::Valid => "valid",
+            Status::Header => "header",
+            Status::Partial => "partial",
+            Status::Retired => "retired",
+            Status::NotYetValid => "not-yet-valid",
+            Status::Unknown => "unknown",
+            Status::Malformed => "malformed",
+            Status::Pattern => "pattern",
+            Status::Blank => "blank",
+            Status::Comment => "comment",
+            Status::ColumnHeadings => "column-headings",
+        }
+    }
+
     /// Whether the line was skipped rather than checked.
     pub fn skipped(self) -> bool {
         matches!(
