@@ -149,6 +149,25 @@ pub(crate) struct ListContext {
 /// assert_eq!(report.summary.entries, 2);
 /// ```
 pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOptions) -> Report {
+    run(index, text, options, false).0
+}
+
+/// [`check`], plus how much of each category the list covers (for the
+/// page's coverage bars), computed from the same pass over the list.
+pub fn check_with_coverage<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    text: &str,
+    options: &CheckOptions,
+) -> (Report, Vec<CategoryCoverage>) {
+    run(index, text, options, true)
+}
+
+fn run<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    text: &str,
+    options: &CheckOptions,
+    want_coverage: bool,
+) -> (Report, Vec<CategoryCoverage>) {
     let view = index.view();
     let period = options.period();
     let (_, lines) = parse_list(text);
@@ -222,6 +241,11 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
 
     // Pass 3: the whole list.
     let list_findings = listcheck::run(&view, &period, &ctx);
+    let coverage = if want_coverage {
+        coverage_of(&view, &period, &ctx.reached)
+    } else {
+        Vec::new()
+    };
 
     let mut summary = Summary {
         lines: lines.len(),
@@ -240,7 +264,7 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
         }
     }
     let meta = index.meta();
-    Report {
+    let report = Report {
         vocabulary: meta.vocabulary.clone(),
         index: IndexInfo {
             release: meta.release.clone(),
@@ -257,7 +281,8 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
         entries,
         list_findings,
         summary,
-    }
+    };
+    (report, coverage)
 }
 
 fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
@@ -902,31 +927,10 @@ pub struct CategoryCoverage {
     pub total: u32,
 }
 
-/// Coverage of every category the list touches, in code order.
-pub fn category_coverage<D: AsRef<[u8]>>(
-    index: &Index<D>,
-    report: &Report,
-    options: &CheckOptions,
-) -> Vec<CategoryCoverage> {
-    let view = index.view();
-    let period = options.period();
-    let mut reached: HashSet<u32> = HashSet::new();
-    for e in &report.entries {
-        let Some(code) = &e.code else { continue };
-        match pattern::parse(code) {
-            Some(Ok(p)) => reached.extend(p.expand(&view, &period)),
-            Some(Err(_)) => {}
-            None => {
-                if let Resolved::Found { ord, .. } = code::resolve(&view, code) {
-                    if view.billable_in(ord, &period) {
-                        reached.insert(ord);
-                    }
-                }
-            }
-        }
-    }
+/// Coverage of every category the reached codes fall in, in code order.
+fn coverage_of(view: &View<'_>, period: &Period, reached: &Marks) -> Vec<CategoryCoverage> {
     let mut cats: Vec<u32> = reached
-        .iter()
+        .into_iter()
         .filter_map(|&o| std::iter::once(o).chain(view.ancestors(o)).last())
         .collect::<HashSet<_>>()
         .into_iter()
@@ -936,7 +940,7 @@ pub fn category_coverage<D: AsRef<[u8]>>(
         .map(|c| {
             let all: Vec<u32> = std::iter::once(c)
                 .chain(c + 1..view.subtree_end(c))
-                .filter(|&o| view.billable_in(o, &period))
+                .filter(|&o| view.billable_in(o, period))
                 .collect();
             CategoryCoverage {
                 category: view.display(&view.code(c)),

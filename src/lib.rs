@@ -28,7 +28,7 @@ pub mod render;
 pub mod report;
 pub mod sha256;
 
-pub use check::{category_coverage, check, timeline, CategoryCoverage, CheckOptions};
+pub use check::{check, check_with_coverage, timeline, CategoryCoverage, CheckOptions};
 pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
 pub use input::{parse_list, InputLine, LineKind};

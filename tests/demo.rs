@@ -113,3 +113,27 @@ fn demo_with_billable_required_makes_headers_errors() {
     let plain = check(&index, &demo(), &demo_options());
     assert_eq!(r.summary.errors, plain.summary.errors + 1);
 }
+
+#[test]
+fn coverage_comes_from_the_same_check() {
+    let index = index();
+    let opts = on("2026-01-01");
+    let text = "I11.0\nI11.9\nE11.9\nE78.*\n";
+    let (report, cov) = rollcall::check_with_coverage(&index, text, &opts);
+    assert_eq!(report, check(&index, text, &opts));
+    let v = index.view();
+    let p = opts.period();
+    let all = |cat: &str| {
+        rollcall::pattern::Pattern::Prefix(cat.into())
+            .expand(&v, &p)
+            .len() as u32
+    };
+    let get = |c: &str| cov.iter().find(|x| x.category == c).unwrap();
+    assert_eq!((get("I11").included, get("I11").total), (2, 2));
+    assert_eq!((get("E11").included, get("E11").total), (1, all("E11")));
+    assert_eq!(
+        (get("E78").included, get("E78").total),
+        (all("E78"), all("E78"))
+    );
+    assert_eq!(cov.len(), 3);
+}

@@ -8,7 +8,7 @@
 //! Every core error goes through [`fail`], which turns it into a JS `Error`
 //! with a readable message; nothing here panics on bad input.
 
-use rollcall::{CheckOptions, Date, Index, Report};
+use rollcall::{CheckOptions, Date, Index};
 use serde::{Deserialize, Serialize};
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
@@ -457,7 +457,8 @@ pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
 pub struct Checker {
     index: Index<Vec<u8>>,
     info: IndexInfo,
-    last: Option<(Report, CheckOptions)>,
+    /// Category coverage of the last checked list, from the same pass.
+    last: Option<Vec<rollcall::CategoryCoverage>>,
 }
 
 #[wasm_bindgen]
@@ -496,9 +497,9 @@ impl Checker {
     /// JSON schema and keeps it for [`Checker::coverage`].
     pub fn check(&mut self, text: &str, options: JsCheckOptions) -> Result<JsReport, JsValue> {
         let opts = self.options(options)?;
-        let report = rollcall::check(&self.index, text, &opts);
+        let (report, coverage) = rollcall::check_with_coverage(&self.index, text, &opts);
         let out = to_js(&report)?;
-        self.last = Some((report, opts));
+        self.last = Some(coverage);
         Ok(out.unchecked_into())
     }
 
@@ -508,10 +509,10 @@ impl Checker {
     #[wasm_bindgen(js_name = checkJson)]
     pub fn check_json(&mut self, text: &str, options: JsCheckOptions) -> Result<String, JsValue> {
         let opts = self.options(options)?;
-        let report = rollcall::check(&self.index, text, &opts);
+        let (report, coverage) = rollcall::check_with_coverage(&self.index, text, &opts);
         let out = serde_json::to_string(&report)
             .map_err(|e| fail("could not hand the result to the page", e))?;
-        self.last = Some((report, opts));
+        self.last = Some(coverage);
         Ok(out)
     }
 
@@ -541,11 +542,10 @@ impl Checker {
     /// For each category in the last checked list: billable codes included of
     /// all billable codes under it in the checked period.
     pub fn coverage(&self) -> Result<JsCoverage, JsValue> {
-        let Some((report, opts)) = &self.last else {
+        let Some(cov) = &self.last else {
             return Err(fail("no coverage yet", "check a list first"));
         };
-        let cov = rollcall::category_coverage(&self.index, report, opts);
-        Ok(to_js(&cov)?.unchecked_into())
+        Ok(to_js(cov)?.unchecked_into())
     }
 
     /// The billable and header spans of one code (any input form), or `null`
