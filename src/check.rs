@@ -149,7 +149,7 @@ pub(crate) struct ListContext {
 /// assert_eq!(report.summary.entries, 2);
 /// ```
 pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOptions) -> Report {
-    run(index, text, options, false).0
+    run(index, text, options, Want::default()).0
 }
 
 /// [`check`], plus how much of each category the list covers (for the
@@ -159,15 +159,71 @@ pub fn check_with_coverage<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<CategoryCoverage>) {
-    run(index, text, options, true)
+    let want = Want {
+        coverage: true,
+        reach: false,
+    };
+    let (report, extras) = run(index, text, options, want);
+    (report, extras.coverage)
+}
+
+/// What an entry reaches: the billable codes of the period it stands for.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Reach {
+    /// The entry's line.
+    pub line: usize,
+    /// What the entry names, for telling entries written alike.
+    pub key: EntryKey,
+    /// How the entry reads in a report (dotted code or pattern).
+    pub written: String,
+    /// Ordinals of the billable codes of the period it reaches, ascending:
+    /// a code itself when billable and the billable codes under it; a
+    /// pattern's matches.
+    pub ords: Vec<u32>,
+}
+
+/// What an entry names.
+#[derive(Clone, Debug, PartialEq, Eq, Hash)]
+pub enum EntryKey {
+    /// A code of the index, by ordinal.
+    Code(u32),
+    /// A pattern, by its display.
+    Pattern(String),
+}
+
+/// [`check`], plus what each code and pattern entry reaches (for comparing
+/// lists), from the same pass over the list.
+pub fn check_with_reach<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    text: &str,
+    options: &CheckOptions,
+) -> (Report, Vec<Reach>) {
+    let want = Want {
+        coverage: false,
+        reach: true,
+    };
+    let (report, extras) = run(index, text, options, want);
+    (report, extras.reach)
+}
+
+#[derive(Default, Clone, Copy)]
+struct Want {
+    coverage: bool,
+    reach: bool,
+}
+
+#[derive(Default)]
+struct Extras {
+    coverage: Vec<CategoryCoverage>,
+    reach: Vec<Reach>,
 }
 
 fn run<D: AsRef<[u8]>>(
     index: &Index<D>,
     text: &str,
     options: &CheckOptions,
-    want_coverage: bool,
-) -> (Report, Vec<CategoryCoverage>) {
+    want: Want,
+) -> (Report, Extras) {
     let view = index.view();
     let period = options.period();
     let (_, lines) = parse_list(text);
@@ -186,20 +242,45 @@ fn run<D: AsRef<[u8]>>(
         by_pattern: OrdMap::default(),
         dotted: false,
     };
+    let mut extras = Extras::default();
     for (l, item) in lines.iter().zip(&items) {
         match item {
             Item::Code { ord, written, .. } => {
                 ctx.dotted |= written.contains('.');
                 ctx.listed.entry(*ord).or_default().push(l.number);
-                if view.billable_in(*ord, &period) {
+                let billable = view.billable_in(*ord, &period);
+                if billable {
                     ctx.reached.insert(*ord);
                     ctx.explicit.insert(*ord);
                 }
+                if want.reach {
+                    let mut ords = billable_under(&view, *ord, &period);
+                    if billable {
+                        ords.insert(0, *ord);
+                    }
+                    extras.reach.push(Reach {
+                        line: l.number,
+                        key: EntryKey::Code(*ord),
+                        written: view.display(&view.code(*ord)),
+                        ords,
+                    });
+                }
             }
-            Item::Pattern(_, m) => {
+            Item::Pattern(p, m) => {
                 for &o in m {
                     ctx.reached.insert(o);
                     ctx.by_pattern.entry(o).or_insert(l.number);
+                }
+                if want.reach {
+                    let written = p.display(&view);
+                    let mut ords = m.clone();
+                    ords.sort_unstable();
+                    extras.reach.push(Reach {
+                        line: l.number,
+                        key: EntryKey::Pattern(written.clone()),
+                        written,
+                        ords,
+                    });
                 }
             }
             _ => {}
@@ -241,11 +322,9 @@ fn run<D: AsRef<[u8]>>(
 
     // Pass 3: the whole list.
     let list_findings = listcheck::run(&view, &period, &ctx);
-    let coverage = if want_coverage {
-        coverage_of(&view, &period, &ctx.reached)
-    } else {
-        Vec::new()
-    };
+    if want.coverage {
+        extras.coverage = coverage_of(&view, &period, &ctx.reached);
+    }
 
     let mut summary = Summary {
         lines: lines.len(),
@@ -282,7 +361,7 @@ fn run<D: AsRef<[u8]>>(
         list_findings,
         summary,
     };
-    (report, coverage)
+    (report, extras)
 }
 
 fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {

@@ -9,6 +9,7 @@
 //!   (billable and header spans, parent and subtree, successors, descriptions).
 //! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
+//! - [`compare`] checks two lists and compares the billable codes they reach.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -18,6 +19,7 @@
 
 pub mod check;
 pub mod code;
+pub mod compare;
 pub mod date;
 pub mod index;
 pub mod input;
@@ -28,7 +30,10 @@ pub mod render;
 pub mod report;
 pub mod sha256;
 
-pub use check::{check, check_with_coverage, timeline, CategoryCoverage, CheckOptions};
+pub use check::{
+    check, check_with_coverage, check_with_reach, timeline, CategoryCoverage, CheckOptions,
+};
+pub use compare::{compare, Comparison};
 pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
 pub use input::{parse_list, InputLine, LineKind};

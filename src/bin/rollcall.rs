@@ -4,7 +4,7 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
-use rollcall::{check, render, CheckOptions, Date, Index};
+use rollcall::{check, compare, render, CheckOptions, Date, Index};
 use std::io::Read;
 use std::process::ExitCode;
 
@@ -18,6 +18,8 @@ rollcall: check a clinical code list against dated ICD-10-CM releases
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--index PATH]
+  rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
+                        [--format text|json|csv] [--index PATH]
   rollcall info [--format text|json] [--index PATH]
 
   FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
@@ -26,8 +28,11 @@ usage:
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
+  compare    checks both lists, then compares the billable codes each reaches in the
+             period; --format csv writes one row per code only one list reaches
 
-exit status: 0 no errors found, 1 error-level findings, 2 usage or input error.
+exit status: 0 no errors found (compare: and both lists reach the same codes),
+             1 error-level findings (compare: or the lists differ), 2 usage or input error.
 rollcall helps assemble research code lists; it is not coding or billing advice.
 Official coding guidelines and local policy prevail.
 ";
@@ -45,7 +50,7 @@ fn today() -> Date {
 #[derive(Default)]
 struct Args {
     command: String,
-    file: Option<String>,
+    files: Vec<String>,
     on: Option<Date>,
     from: Option<Date>,
     to: Option<Date>,
@@ -60,7 +65,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
     a.command = it
         .next()
         .cloned()
-        .ok_or_else(|| Usage("a command is needed: check or info".into()))?;
+        .ok_or_else(|| Usage("a command is needed: check, compare or info".into()))?;
     while let Some(arg) = it.next() {
         let mut value = || {
             it.next()
@@ -76,13 +81,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--format" => a.format = Some(value()?),
             "--index" => a.index = Some(value()?),
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
-            s => {
-                if a.file.replace(s.to_string()).is_some() {
-                    return Err(Usage(format!(
-                        "only one list can be checked at a time (got a second: {s})"
-                    )));
-                }
-            }
+            s => a.files.push(s.to_string()),
         }
     }
     Ok(a)
@@ -143,19 +142,16 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 return Err(format!("--format must be text, json or csv, not {format}"));
             }
             let opts = options(&a).map_err(|Usage(m)| m)?;
-            let file = a
-                .file
-                .as_deref()
-                .ok_or("check needs a list: a FILE, or - for standard input")?;
-            let mut raw = Vec::new();
-            if file == "-" {
-                std::io::stdin()
-                    .read_to_end(&mut raw)
-                    .map_err(|e| format!("cannot read standard input: {e}"))?;
-            } else {
-                raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
-            }
-            let text = decode(&raw).map_err(|e| format!("{file}: {e}"))?;
+            let file = match a.files.as_slice() {
+                [one] => one.as_str(),
+                [] => return Err("check needs a list: a FILE, or - for standard input".into()),
+                [_, second, ..] => {
+                    return Err(format!(
+                        "only one list can be checked at a time (got a second: {second}); to set two lists side by side use rollcall compare A B"
+                    ))
+                }
+            };
+            let text = read_list(file)?;
             let report = match load_index(a.index.as_deref())? {
                 Loaded::Bundled(i) => check(&i, &text, &opts),
                 Loaded::File(i, _) => check(&i, &text, &opts),
@@ -178,8 +174,40 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             std::mem::forget(text);
             Ok(status)
         }
+        "compare" => {
+            if !matches!(format.as_str(), "text" | "json" | "csv") {
+                return Err(format!("--format must be text, json or csv, not {format}"));
+            }
+            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let [fa, fb] = a.files.as_slice() else {
+                return Err(format!(
+                    "compare needs two lists, A and B (got {}); - reads one of them from standard input",
+                    a.files.len()
+                ));
+            };
+            if fa == "-" && fb == "-" {
+                return Err("only one of the two lists can come from standard input".into());
+            }
+            let (ta, tb) = (read_list(fa)?, read_list(fb)?);
+            let c = match load_index(a.index.as_deref())? {
+                Loaded::Bundled(i) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+                Loaded::File(i, _) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+            };
+            let out = match format.as_str() {
+                "json" => serde_json::to_string_pretty(&c).map_err(|e| e.to_string())? + "\n",
+                "csv" => render::comparison_csv(&c),
+                _ => render::comparison_text(&c),
+            };
+            write_out(&out);
+            let clean = c.same_codes() && !c.a.report.has_errors() && !c.b.report.has_errors();
+            Ok(if clean {
+                ExitCode::SUCCESS
+            } else {
+                ExitCode::from(1)
+            })
+        }
         "info" => {
-            if a.file.is_some()
+            if !a.files.is_empty()
                 || a.on.is_some()
                 || a.from.is_some()
                 || a.to.is_some()
@@ -231,9 +259,22 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             Ok(ExitCode::SUCCESS)
         }
         other => Err(format!(
-            "unknown command \"{other}\"; the commands are check and info (see rollcall --help)"
+            "unknown command \"{other}\"; the commands are check, compare and info (see rollcall --help)"
         )),
     }
+}
+
+/// A list from a file, or from standard input for `-`, as text.
+fn read_list(file: &str) -> Result<String, String> {
+    let mut raw = Vec::new();
+    if file == "-" {
+        std::io::stdin()
+            .read_to_end(&mut raw)
+            .map_err(|e| format!("cannot read standard input: {e}"))?;
+    } else {
+        raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
+    }
+    decode(&raw).map_err(|e| format!("{file}: {e}"))
 }
 
 fn write_out(s: &str) {

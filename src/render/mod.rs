@@ -1,4 +1,8 @@
-//! Text and CSV forms of a report (JSON is the report's serde form).
+//! Text and CSV forms of a report (JSON is the report's serde form), and of
+//! a comparison (`compare`).
+
+mod compare;
+pub use compare::{comparison_csv, comparison_text};
 
 use crate::report::{Report, Severity, Suggestion};
 use std::fmt::Write;
@@ -92,6 +96,34 @@ pub fn text(report: &Report) -> String {
             ""
         }
     );
+    write_findings(&mut s, report, "");
+    let m = &report.summary;
+    let _ = writeln!(
+        s,
+        "\n{} lines, {} entries: {}",
+        m.lines,
+        m.entries,
+        counts(m)
+    );
+    s.push_str(
+        "rollcall helps assemble research code lists; it is not coding or billing advice.\n",
+    );
+    s
+}
+
+/// `2 errors, 1 warning, 0 notes`.
+pub(crate) fn counts(m: &crate::report::Summary) -> String {
+    let plural = |n: usize, one: &str| format!("{n} {one}{}", if n == 1 { "" } else { "s" });
+    format!(
+        "{}, {}, {}",
+        plural(m.errors, "error"),
+        plural(m.warnings, "warning"),
+        plural(m.infos, "note")
+    )
+}
+
+/// The findings of a report grouped by severity, each line after `indent`.
+pub(crate) fn write_findings(s: &mut String, report: &Report, indent: &str) {
     let rows = rows(report);
     for sev in [Severity::Error, Severity::Warning, Severity::Info] {
         let group: Vec<&Row> = rows.iter().filter(|r| r.severity == sev).collect();
@@ -100,7 +132,7 @@ pub fn text(report: &Report) -> String {
         }
         let _ = writeln!(
             s,
-            "\n{} ({})",
+            "\n{indent}{} ({})",
             match sev {
                 Severity::Error => "ERRORS",
                 Severity::Warning => "WARNINGS",
@@ -112,7 +144,7 @@ pub fn text(report: &Report) -> String {
             let head = line_label(&r.lines);
             let _ = writeln!(
                 s,
-                "  {head:<10} {:<14} {}: {}",
+                "{indent}  {head:<10} {:<14} {}: {}",
                 if r.code.is_empty() { "-" } else { r.code },
                 r.kind,
                 r.message
@@ -120,32 +152,20 @@ pub fn text(report: &Report) -> String {
             for g in r.suggestions.iter().take(8) {
                 let _ = writeln!(
                     s,
-                    "  {:<10}   -> {:<12} {}  ({})",
+                    "{indent}  {:<10}   -> {:<12} {}  ({})",
                     "", g.code, g.description, g.reason
                 );
             }
             if r.suggestions.len() > 8 {
-                let _ = writeln!(s, "  {:<10}   -> and {} more", "", r.suggestions.len() - 8);
+                let _ = writeln!(
+                    s,
+                    "{indent}  {:<10}   -> and {} more",
+                    "",
+                    r.suggestions.len() - 8
+                );
             }
         }
     }
-    let m = &report.summary;
-    let _ = writeln!(
-        s,
-        "\n{} lines, {} entries: {} error{}, {} warning{}, {} note{}",
-        m.lines,
-        m.entries,
-        m.errors,
-        if m.errors == 1 { "" } else { "s" },
-        m.warnings,
-        if m.warnings == 1 { "" } else { "s" },
-        m.infos,
-        if m.infos == 1 { "" } else { "s" }
-    );
-    s.push_str(
-        "rollcall helps assemble research code lists; it is not coding or billing advice.\n",
-    );
-    s
 }
 
 /// One CSV cell, quoted when needed; a cell that a spreadsheet would read
