@@ -232,3 +232,69 @@ fn info_lists_the_bundled_index_with_size_and_sources() {
     assert_eq!(i["coverage_from"], "2015-10-01");
     assert!(i["sources"].as_array().unwrap().len() >= 5);
 }
+
+/// Exit status of compare: 0 when both lists reach the same billable codes
+/// and neither has an error-level finding, 1 otherwise, 2 for usage errors.
+/// E11.6 has twelve billable codes on 2026-01-01 (FY2026 tabular list), so
+/// listing them all reaches the same codes as E11.6*.
+#[test]
+fn compare_exit_status_and_formats() {
+    let a = std::env::temp_dir().join(format!("rollcall-cmp-{}.txt", std::process::id()));
+    std::fs::write(&a, "E11.6*\nI10\n").unwrap();
+    let a = a.to_str().unwrap();
+    let twelve = "E11.610\nE11.618\nE11.620\nE11.621\nE11.622\nE11.628\nE11.630\nE11.638\nE11.641\nE11.649\nE11.65\nE11.69\nI10\n";
+    let same = rollcall(&["compare", a, "-", "--on", "2026-01-01"], Some(twelve));
+    assert_eq!(same.status.code(), Some(0), "{}{}", out(&same), err(&same));
+    assert!(
+        out(&same).contains("reach the same billable codes"),
+        "{}",
+        out(&same)
+    );
+    assert!(
+        out(&same).contains("WRITTEN DIFFERENTLY, SAME CODES"),
+        "{}",
+        out(&same)
+    );
+
+    let differ = rollcall(
+        &["compare", a, "-", "--on", "2026-01-01", "--format", "json"],
+        Some("E11.65\nI10\n"),
+    );
+    assert_eq!(differ.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_str(&out(&differ)).unwrap();
+    for key in [
+        "vocabulary",
+        "index",
+        "options",
+        "a",
+        "b",
+        "agreement",
+        "chapters",
+        "differences",
+        "equivalents",
+    ] {
+        assert!(v.get(key).is_some(), "JSON has {key}");
+    }
+    assert_eq!(v["agreement"]["only_a"], 11);
+    assert_eq!(v["agreement"]["both"], 2);
+    assert_eq!(v["b"]["name"], "-");
+    assert_eq!(v["differences"][0]["side"], "a");
+
+    let csv = rollcall(
+        &["compare", a, "-", "--on", "2026-01-01", "--format", "csv"],
+        Some("E11.65\nI10\n"),
+    );
+    assert_eq!(out(&csv).lines().count(), 1 + 11);
+
+    for (args, says) in [
+        (vec!["compare", a], "two lists"),
+        (vec!["compare", "-", "-"], "standard input"),
+        (vec!["compare", a, a, a], "two lists"),
+        (vec!["check", a, a], "rollcall compare"),
+    ] {
+        let o = rollcall(&args, Some("E11.9\n"));
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        assert!(err(&o).contains(says), "{args:?}: {}", err(&o));
+    }
+    std::fs::remove_file(a).unwrap();
+}

@@ -137,3 +137,26 @@ fn coverage_comes_from_the_same_check() {
     );
     assert_eq!(cov.len(), 3);
 }
+
+fn demo_pair() -> rollcall::Comparison {
+    let read = |f: &str| std::fs::read_to_string(root().join("demo-data").join(f)).unwrap();
+    rollcall::compare(
+        &index(),
+        ("compare-draft.tsv", &read("compare-draft.tsv")),
+        ("compare-expert.tsv", &read("compare-expert.tsv")),
+        &demo_options(),
+    )
+}
+
+#[test]
+fn demo_comparison_text_snapshot() {
+    snapshot("demo-compare.txt", &render::comparison_text(&demo_pair()));
+}
+
+#[test]
+fn demo_comparison_json_snapshot() {
+    snapshot(
+        "demo-compare.json",
+        &(serde_json::to_string_pretty(&demo_pair()).unwrap() + "\n"),
+    );
+}
