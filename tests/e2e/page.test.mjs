@@ -466,3 +466,43 @@ test("no request leaves the page's origin", async () => {
   const foreign = requests.filter((u) => !(u.startsWith(origin + "/") || u.startsWith("blob:" + origin) || u.startsWith("data:")));
   assert.deepEqual(foreign, []);
 });
+
+test("comparing two lists shows the CLI's figures, runs and equivalents", async () => {
+  const draft = path.join(ROOT, "demo-data/compare-draft.tsv");
+  const expert = path.join(ROOT, "demo-data/compare-expert.tsv");
+  const r = spawnSync(CLI, ["compare", draft, expert, "--from", "2019-01-01", "--to", "2024-12-31", "--format", "json"], {
+    encoding: "utf8",
+  });
+  assert.equal(r.status, 1, `the lists differ: ${r.stderr}`);
+  const want = JSON.parse(r.stdout);
+
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, { from: "2019-01-01", to: "2024-12-31" });
+  await page.fill("#list", fs.readFileSync(draft, "utf8"));
+  await page.fill("#list-b", fs.readFileSync(expert, "utf8"));
+  await page.click("#compare-now");
+  await page.waitForFunction(() => document.body.dataset.comparing === "false" && document.body.dataset.compared, null, {
+    timeout: 30_000,
+  });
+  const g = want.agreement;
+  const summary = await page.textContent("#compare-summary");
+  assert.match(summary, new RegExp(`In both ${g.both}, only in A ${g.only_a}, only in B ${g.only_b}`));
+  assert.match(summary, new RegExp(`Jaccard index ${g.jaccard.toFixed(3)}`));
+  // One bar per chapter, with its numbers in words.
+  const rows = await page.$$eval(".cmp-row", (rs) => rs.map((x) => x.getAttribute("aria-label")));
+  assert.deepEqual(
+    rows,
+    want.chapters.map((t) => `Chapter ${t.chapter}: in both ${t.both}, only in A ${t.only_a}, only in B ${t.only_b}`),
+  );
+  const runs = await page.$$eval(".cmp-run", (rs) => rs.length);
+  assert.equal(runs, want.differences.length);
+  const eq = await page.$$eval(".cmp-equivalents li", (ls) => ls.map((l) => l.textContent));
+  assert.equal(eq.length, want.equivalents.length);
+  assert.match(eq[0], /E11\.21, E11\.22, E11\.29 = B line 4 E11\.2/);
+  assert.match(await page.textContent("#compare-legend"), /in both lists.*only in A.*only in B/s);
+  const panel = await page.$(".compare-panel");
+  await panel.screenshot({ path: path.join(OUT, "compare.png") });
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});

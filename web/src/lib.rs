@@ -90,6 +90,37 @@ export type Edit =
   | { op: "remove"; line: number }
   | { op: "add"; after: number; code: string; label?: string | null };
 
+/** A code and its description. */
+export interface Named { code: string; description: string }
+
+/** A run of billable codes only one list reaches (see the README's compare rules). */
+export interface Difference {
+  side: "a" | "b";
+  code: string;
+  description: string;
+  all_of: boolean;
+  codes: Named[];
+  within: Named | null;
+  within_total: number;
+  within_only: number;
+  category: string;
+  chapter: string;
+  nearest: { code: string; description: string; relation: "parent" | "child" | "sibling" | "same-category" } | null;
+}
+
+/** Two lists compared: the same schema as the CLI's `compare --format json`. */
+export interface Comparison {
+  vocabulary: string;
+  index: Report["index"];
+  options: Report["options"];
+  a: { name: string; summary: Report["summary"]; reaches: number; report: Report };
+  b: { name: string; summary: Report["summary"]; reaches: number; report: Report };
+  agreement: { both: number; only_a: number; only_b: number; union: number; jaccard: number; a_in_b: number; b_in_a: number };
+  chapters: { chapter: string; title: string; both: number; only_a: number; only_b: number }[];
+  differences: Difference[];
+  equivalents: { a_lines: number[]; a_entries: string[]; b_lines: number[]; b_entries: string[]; codes: number }[];
+}
+
 /** Spans per code; `null` for a code the index does not know. */
 export type Timelines = Record<string, Span[] | null>;
 "#;
@@ -514,6 +545,20 @@ impl Checker {
             .map_err(|e| fail("could not hand the result to the page", e))?;
         self.last = Some(coverage);
         Ok(out)
+    }
+
+    /// Check two lists and compare the billable codes each reaches in the
+    /// period; returns the comparison (`Comparison`) as JSON text.
+    #[wasm_bindgen(js_name = compareJson)]
+    pub fn compare_json(
+        &self,
+        text_a: &str,
+        text_b: &str,
+        options: JsCheckOptions,
+    ) -> Result<String, JsValue> {
+        let opts = self.options(options)?;
+        let c = rollcall::compare(&self.index, ("A", text_a), ("B", text_b), &opts);
+        serde_json::to_string(&c).map_err(|e| fail("could not hand the result to the page", e))
     }
 
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {

@@ -5,6 +5,7 @@ import { fileToLines } from "./inputs.js";
 import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
+import { setupCompare } from "./compare.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -601,6 +602,13 @@ function wire() {
   });
 }
 
+const compareView = setupCompare({
+  ask,
+  options: () => checkerOptions(readOptions()),
+  listA: () => $("list").value,
+  ready: () => !!state.info,
+});
+
 async function main() {
   document.body.dataset.state = "loading";
   wire();
@@ -614,6 +622,7 @@ async function main() {
     return;
   }
   showIndexReady(info);
+  compareView.enable();
   await restored;
   if ($("list").value.trim()) runCheck();
 }

@@ -8,6 +8,8 @@
 //   <- {id, ok: true, result: {report, coverage, checkMs, totalMs}}
 //   -> {id, type: "edit", text: string, edits: Edit[]}   (replace / remove / add)
 //   <- {id, ok: true, result: string}   (the list with the edits applied)
+//   -> {id, type: "compare", a: string, b: string, options: CheckOptionsInput}
+//   <- {id, ok: true, result: {comparison: Comparison, ms}}
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
 //   any failure: {id, ok: false, error: "readable message"}
@@ -81,6 +83,15 @@ self.onmessage = async (event) => {
         if (!checker) throw new Error("the index is not loaded");
         result = checker.editList(String(msg.text ?? ""), msg.edits ?? []);
         break;
+      case "compare": {
+        if (!checker) throw new Error("the index is not loaded");
+        const t0 = performance.now();
+        const comparison = JSON.parse(
+          checker.compareJson(String(msg.a ?? ""), String(msg.b ?? ""), msg.options ?? {}),
+        );
+        result = { comparison, ms: performance.now() - t0 };
+        break;
+      }
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
         break;
