@@ -164,3 +164,35 @@ fn check_json_gives_the_same_report_as_check() {
         serde_json::from_str::<serde_json::Value>(&from_text).unwrap()
     );
 }
+
+/// E11.2 has the billable children E11.21, E11.22 and E11.29 (FY2026
+/// tabular list): the two lists reach the same codes, written differently.
+#[wasm_bindgen_test]
+fn compare_json_gives_the_cli_comparison() {
+    let c = Checker::new(INDEX.to_vec()).unwrap();
+    let json = c
+        .compare_json(
+            "E11.2\nI10\n",
+            "E11.21\nE11.22\nE11.29\nE11.9\n",
+            options(r#"{"on":"2026-01-01"}"#),
+        )
+        .unwrap();
+    let want = rollcall::compare(
+        &rollcall::Index::open(INDEX).unwrap(),
+        ("A", "E11.2\nI10\n"),
+        ("B", "E11.21\nE11.22\nE11.29\nE11.9\n"),
+        &rollcall::CheckOptions::on(rollcall::Date::parse("2026-01-01").unwrap(), false),
+    );
+    assert_eq!(json, serde_json::to_string(&want).unwrap());
+    let v = js_sys::JSON::parse(&json).unwrap();
+    let g = get(&v, "agreement");
+    assert_eq!(get(&g, "both").as_f64(), Some(3.0));
+    assert_eq!(get(&g, "only_a").as_f64(), Some(1.0));
+    assert_eq!(get(&g, "only_b").as_f64(), Some(1.0));
+    let eq = js_sys::Array::from(&get(&v, "equivalents"));
+    assert_eq!(eq.length(), 1);
+    let err = c
+        .compare_json("E11.9", "E11.9", options(r#"{"when":"2026"}"#))
+        .unwrap_err();
+    assert!(message(err).contains("unknown option"));
+}
