@@ -21,3 +21,18 @@ idx = open(sys.argv[2], "rb").read()
 print(f"source history TSV: {len(tsv):,} bytes; gzip -9 {len(gzip.compress(tsv, 9)):,}; xz -9 {len(lzma.compress(tsv, preset=9)):,}")
 print(f"index (codes, dates, hierarchy, descriptions): {len(idx):,} bytes; gzip -9 {len(gzip.compress(idx, 9)):,}; xz -9 {len(lzma.compress(idx, preset=9)):,}")
 PY
+# 4. compare: the Elixhauser list against itself less its CANCER_SOLID rows,
+#    whole process, median of runs.
+grep -v '^CANCER_SOLID,' "$tmp/elix.csv" > "$tmp/elix-less.csv"
+python3 - "$tmp" "${RUNS:-15}" <<'PY'
+import subprocess, sys, time, statistics
+tmp, runs = sys.argv[1], int(sys.argv[2])
+cmd = ["target/release/rollcall", "compare", f"{tmp}/elix.csv", f"{tmp}/elix-less.csv",
+       "--from", "2015-10-01", "--to", "2026-09-30", "--format", "json"]
+times = []
+for _ in range(runs):
+    t = time.perf_counter()
+    subprocess.run(cmd, stdout=subprocess.DEVNULL, check=False)
+    times.append((time.perf_counter() - t) * 1000)
+print(f"compare Elixhauser (4,690 rows) with itself less CANCER_SOLID, JSON out: median {statistics.median(times):.0f} ms over {runs} runs")
+PY
