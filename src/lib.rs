@@ -29,6 +29,7 @@ pub mod pattern;
 pub mod render;
 pub mod report;
 pub mod sha256;
+pub mod systems;
 
 pub use check::{
     check, check_with_coverage, check_with_reach, timeline, CategoryCoverage, CheckOptions,

@@ -1,0 +1,177 @@
+//! The code systems a list may mix, and the shape checks for each: what a
+//! code of the system looks like, and its check digit where the system has
+//! one. A shape check cannot say that a code exists, only that it could.
+//! Systems whose content rollcall ships (ICD-10-CM today) are checked
+//! against their index; the others get these checks alone.
+
+mod digits;
+mod drugs;
+mod icd;
+mod procedures;
+mod terms;
+
+pub use digits::{luhn_check_digit, verhoeff_check_digit, verhoeff_valid};
+pub use drugs::{ndc, NdcForm, NdcReading};
+pub use terms::{loinc_check_digit, snomed_partition, Partition};
+
+/// A code system, by the names the CLI and the JSON report use.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub enum System {
+    /// ICD-10-CM diagnoses.
+    Icd10cm,
+    /// ICD-10-PCS procedures.
+    Icd10pcs,
+    /// ICD-9-CM diagnoses.
+    Icd9cm,
+    /// Human Phenotype Ontology terms.
+    Hpo,
+    /// LOINC (laboratory and clinical observations).
+    Loinc,
+    /// SNOMED CT identifiers.
+    Snomed,
+    /// National Drug Codes.
+    Ndc,
+    /// HCPCS Level II.
+    Hcpcs,
+    /// CPT (Category I, II and III).
+    Cpt,
+    /// RxNorm concept identifiers (RXCUI).
+    Rxnorm,
+}
+
+/// Every system, in the order detection tries them.
+pub const ALL: [System; 10] = [
+    System::Icd10cm,
+    System::Icd10pcs,
+    System::Icd9cm,
+    System::Hpo,
+    System::Loinc,
+    System::Snomed,
+    System::Ndc,
+    System::Hcpcs,
+    System::Cpt,
+    System::Rxnorm,
+];
+
+impl System {
+    /// The name used by `--system` and in JSON.
+    pub fn name(self) -> &'static str {
+        match self {
+            System::Icd10cm => "icd10cm",
+            System::Icd10pcs => "icd10pcs",
+            System::Icd9cm => "icd9cm",
+            System::Hpo => "hpo",
+            System::Loinc => "loinc",
+            System::Snomed => "snomed",
+            System::Ndc => "ndc",
+            System::Hcpcs => "hcpcs",
+            System::Cpt => "cpt",
+            System::Rxnorm => "rxnorm",
+        }
+    }
+
+    /// The system named `name` (as [`System::name`] gives it; case and
+    /// hyphens ignored).
+    pub fn parse(name: &str) -> Option<System> {
+        let n: String = name
+            .chars()
+            .filter(|c| !matches!(c, '-' | '_' | ' '))
+            .collect::<String>()
+            .to_ascii_lowercase();
+        ALL.into_iter().find(|s| s.name() == n)
+    }
+
+    /// A title for people.
+    pub fn title(self) -> &'static str {
+        match self {
+            System::Icd10cm => "ICD-10-CM",
+            System::Icd10pcs => "ICD-10-PCS",
+            System::Icd9cm => "ICD-9-CM",
+            System::Hpo => "HPO",
+            System::Loinc => "LOINC",
+            System::Snomed => "SNOMED CT",
+            System::Ndc => "NDC",
+            System::Hcpcs => "HCPCS Level II",
+            System::Cpt => "CPT",
+            System::Rxnorm => "RxNorm",
+        }
+    }
+}
+
+/// What a shape check says of one code.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Shape {
+    /// The code has the system's shape (and check digit, if any). `code` is
+    /// its normal written form; `note` says what was checked, for a report.
+    Fits {
+        /// The normal written form.
+        code: String,
+        /// What was checked, in words.
+        note: String,
+    },
+    /// The code could be one of several codes of the system and the text
+    /// cannot tell which (a hyphen-less 10-digit NDC).
+    Ambiguous {
+        /// Why.
+        reason: String,
+        /// The possible readings, in the normal form.
+        readings: Vec<String>,
+    },
+    /// The code cannot be a code of the system; `reason` says why and what to do.
+    Fails {
+        /// Why.
+        reason: String,
+    },
+}
+
+impl Shape {
+    /// Whether the shape fits (unambiguously).
+    pub fn fits(&self) -> bool {
+        matches!(self, Shape::Fits { .. })
+    }
+}
+
+/// Checks the shape of `code` as a code of `system`. Surrounding spaces
+/// are ignored; letter case is ignored where the system has one case.
+pub fn shape(system: System, code: &str) -> Shape {
+    let c = code.trim();
+    match system {
+        System::Icd10cm => icd::icd10cm(c),
+        System::Icd10pcs => procedures::icd10pcs(c),
+        System::Icd9cm => icd::icd9cm(c),
+        System::Hpo => terms::hpo(c),
+        System::Loinc => terms::loinc(c),
+        System::Snomed => terms::snomed(c),
+        System::Ndc => drugs::ndc_shape(c),
+        System::Hcpcs => procedures::hcpcs(c),
+        System::Cpt => procedures::cpt(c),
+        System::Rxnorm => drugs::rxnorm(c),
+    }
+}
+
+/// The systems whose shape `code` fits (ambiguous readings count), in the
+/// order of [`ALL`]. Many short codes fit several systems (`12345` is a
+/// CPT shape and an RxNorm identifier); membership in a loaded index, or
+/// an explicit system, decides.
+pub fn candidates(code: &str) -> Vec<System> {
+    ALL.into_iter()
+        .filter(|&s| !matches!(shape(s, code), Shape::Fails { .. }))
+        .collect()
+}
+
+pub(crate) fn fits(code: impl Into<String>, note: impl Into<String>) -> Shape {
+    Shape::Fits {
+        code: code.into(),
+        note: note.into(),
+    }
+}
+
+pub(crate) fn fails(reason: impl Into<String>) -> Shape {
+    Shape::Fails {
+        reason: reason.into(),
+    }
+}
+
+pub(crate) fn all_digits(s: &str) -> bool {
+    !s.is_empty() && s.bytes().all(|b| b.is_ascii_digit())
+}
