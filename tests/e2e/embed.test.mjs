@@ -254,6 +254,30 @@ test("warn only: the form is sent with its errors counted in the summary", async
   await page.close();
 });
 
+test("an index that cannot be loaded: the panel says so, the form goes with an unchecked summary", async () => {
+  const page = await openPage(`${origin}/form-example.html`);
+  await formState(page);
+  await page.evaluate(async () => {
+    const form = document.getElementById("request");
+    const copy = form.cloneNode(true);
+    copy.querySelectorAll(".rollcall-panel, input[type=hidden]").forEach((e) => e.remove());
+    copy.querySelector("#codes").setAttribute("data-rollcall-index", "no-such-index.rcx");
+    form.replaceWith(copy);
+    const { attachAll } = await import("./form-check.js");
+    attachAll(copy);
+  });
+  await formState(page, "error");
+  assert.match(await page.textContent(".rollcall-panel >> .status"), /could not be checked: the index file “no-such-index\.rcx” is missing \(the server answered 404\)/);
+  await Promise.all([page.waitForURL(/form-example\.html\?/), page.click("#send")]);
+  const summary = JSON.parse(await page.textContent('dd[data-field="codes_rollcall"]'));
+  assert.equal(summary.checked, false);
+  assert.match(summary.reason, /no-such-index\.rcx/);
+  // The 404 is the point of this test.
+  page.problems = page.problems.filter((p) => !p.includes("no-such-index.rcx"));
+  await assertClean(page);
+  await page.close();
+});
+
 test("the findings panel is usable from the keyboard and announces its status", async () => {
   const page = await openPage(`${origin}/form-example.html`);
   await formState(page);
@@ -424,6 +448,22 @@ test("a tampered Wasm file is refused by its integrity", async () => {
   await page.goto(`${origin}/`);
   await page.waitForSelector("#index-error:not([hidden])", { timeout: 30_000 });
   assert.match(await page.textContent("#index-error"), /cannot be used.*Wasm file .* does not match its integrity hash/);
+  await page.close();
+});
+
+test("a changed module is refused by the import map's integrity", async () => {
+  const page = await context.newPage();
+  const blocked = [];
+  page.on("console", (m) => m.type() === "error" && /integrity/.test(m.text()) && blocked.push(m.text()));
+  await page.route("**/inputs.js", async (route) => {
+    const res = await route.fetch();
+    route.fulfill({ response: res, body: `${await res.text()}\nwindow.__changed = true;\n` });
+  });
+  await page.goto(`${origin}/`);
+  await page.waitForTimeout(1500);
+  assert.equal(await page.evaluate(() => window.__changed), undefined, "the changed module ran");
+  assert.equal(await page.evaluate(() => document.body.dataset.state), undefined, "the page started with a changed module");
+  assert.ok(blocked.some((t) => t.includes("inputs.js")), `no integrity error for inputs.js: ${blocked.join("; ")}`);
   await page.close();
 });
 
