@@ -31,8 +31,11 @@ export function withHashes(policy, add) {
     .map((d) => d.split(/\s+/));
   for (const [name, hashes] of Object.entries(add)) {
     if (!hashes.length) continue;
-    const d = directives.find((x) => x[0] === name);
-    if (!d) die(`the CSP has no ${name} directive to add hashes to`);
+    const at = directives.findIndex((x) => x[0] === name);
+    if (at < 0) die(`the CSP has no ${name} directive to add hashes to`);
+    // Hashes of an earlier run are dropped: the page's inline parts are hashed anew.
+    const d = directives[at].filter((t) => !/^'sha(256|384|512)-/.test(t));
+    directives[at] = d;
     for (const h of hashes) if (!d.includes(h)) d.push(h);
   }
   const text = directives.map((d) => d.join(" ")).join("; ");

@@ -230,6 +230,31 @@ test("the form is held while the list has errors, sent once it is clean, with th
   await page.close();
 });
 
+test("a submit stopped by the form's own validation does not let a later one past the check", async () => {
+  const page = await openPage(`${origin}/form-example.html`);
+  await formState(page);
+  const url = page.url();
+  // A clean list, sent before its check; while it is checked a required field
+  // is emptied, so the browser's validation stops the submit made after the check.
+  await page.fill("#codes", "I10");
+  await page.evaluate(() => {
+    document.getElementById("send").click();
+    document.getElementById("requester").value = "";
+  });
+  await formState(page);
+  await page.waitForTimeout(300);
+  assert.equal(page.url(), url);
+  // Now a list with an error (a header with billable codes required), the field filled: held.
+  await page.fill("#requester", "Data team");
+  await typeList(page, "E11");
+  await page.click("#send");
+  await page.locator(".rollcall-panel >> .hold").waitFor({ state: "visible" });
+  await page.waitForTimeout(300);
+  assert.equal(page.url(), url, "the form was sent with errors");
+  await assertClean(page);
+  await page.close();
+});
+
 test("warn only: the form is sent with its errors counted in the summary", async () => {
   const page = await openPage(`${origin}/form-example.html`);
   await formState(page);
@@ -426,6 +451,11 @@ test("every built page carries a CSP without unsafe-inline or unsafe-eval, and i
     assert.doesNotMatch(csp[1], /'unsafe-inline'|'unsafe-eval'/, file);
     assert.match(csp[1], /script-src [^;]*'wasm-unsafe-eval'/, file);
     assert.match(csp[1], /object-src 'none'/, file);
+    if (file !== SINGLE) {
+      // The test server sends the same policy as a header, with frame-ancestors.
+      const res = await fetch(`${origin}/${path.basename(file)}`);
+      assert.equal(res.headers.get("content-security-policy"), `${csp[1]}; frame-ancestors 'none'`);
+    }
     for (const tag of html.match(/<script\b[^>]*\bsrc=[^>]*>|<link\b[^>]*rel="stylesheet"[^>]*>/g) || []) {
       const ref = tag.match(/(?:src|href)="([^"]+)"/)[1];
       const want = `sha384-${crypto.createHash("sha384").update(fs.readFileSync(path.join(DIST, ref))).digest("base64")}`;

@@ -309,10 +309,7 @@ function guard(form) {
   form.rollcallLists = lists;
   let releasing = false;
   form.addEventListener("submit", (event) => {
-    if (releasing) {
-      releasing = false;
-      return;
-    }
+    if (releasing) return;
     const stale = lists.filter((l) => l.checker && !l.fresh() && !l.problem);
     const loading = lists.filter((l) => !l.checker && !l.problem);
     if (stale.length || loading.length) {
@@ -321,9 +318,15 @@ function guard(form) {
       const submitter = event.submitter || null;
       Promise.all(lists.map((l) => (l.fresh() || l.problem ? null : l.ready.then(() => (l.fresh() ? null : l.check()))))).then(() => {
         if (lists.map((l) => l.holds()).some(Boolean)) return;
+        // requestSubmit dispatches the submit event at once, or none when the
+        // form's own validation fails; either way the flag is over after it.
         releasing = true;
-        if (submitter) form.requestSubmit(submitter);
-        else form.requestSubmit();
+        try {
+          if (submitter) form.requestSubmit(submitter);
+          else form.requestSubmit();
+        } finally {
+          releasing = false;
+        }
       });
       return;
     }
