@@ -256,7 +256,8 @@ class FormList {
       }
       const sev = el("span", { class: `sev sev-${f.severity}` });
       sev.append(el("span", { "aria-hidden": "true" }, `${SEVERITY_ICON[f.severity] || "?"} `), f.severity);
-      li.append(sev, " ", el("code", {}, f.code), ` ${f.kind}: ${f.message}`);
+      const message = /[.!?]$/.test(f.message) ? f.message : `${f.message}.`;
+      li.append(sev, " ", el("code", {}, f.code), ` ${f.kind}: ${message}`);
       if (f.suggestions && f.suggestions.length) {
         li.append(` Suggested: ${f.suggestions.slice(0, 3).map((x) => x.code).join(", ")}.`);
       }
