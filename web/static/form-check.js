@@ -72,7 +72,8 @@ function dateFrom(value) {
   if (!value) return null;
   if (value.startsWith("#")) {
     const field = document.getElementById(value.slice(1));
-    return field ? field.value || null : null;
+    // No such field: the value goes on as written, and the check says it is not a date.
+    return field ? field.value || null : value;
   }
   return value;
 }
