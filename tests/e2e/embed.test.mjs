@@ -303,6 +303,27 @@ test("an index that cannot be loaded: the panel says so, the form goes with an u
   await page.close();
 });
 
+test("a date attribute naming a missing field gets a clear message", async () => {
+  const page = await openPage(`${origin}/form-example.html`);
+  await formState(page);
+  await page.evaluate(async () => {
+    const form = document.getElementById("request");
+    const copy = form.cloneNode(true);
+    copy.querySelectorAll(".rollcall-panel, input[type=hidden]").forEach((e) => e.remove());
+    const ta = copy.querySelector("#codes");
+    ta.removeAttribute("data-rollcall-from");
+    ta.removeAttribute("data-rollcall-to");
+    ta.setAttribute("data-rollcall-on", "#no-such-field");
+    form.replaceWith(copy);
+    const { attachAll } = await import("./form-check.js");
+    attachAll(copy);
+  });
+  await formState(page, "error");
+  assert.match(await page.textContent(".rollcall-panel >> .status"), /could not be checked: .*“#no-such-field” is not a date/);
+  await assertClean(page);
+  await page.close();
+});
+
 test("the findings panel is usable from the keyboard and announces its status", async () => {
   const page = await openPage(`${origin}/form-example.html`);
   await formState(page);
