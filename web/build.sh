@@ -17,3 +17,5 @@ done
 cd "$WEB"
 trunk build "$@"
 test -s dist/index-manifest.json || { echo "build.sh: the manifest was not written" >&2; exit 1; }
+# Integrity of the script, modules and Wasm; CSP hashes of inline scripts.
+node "$WEB/post-build.mjs" "$WEB/dist"

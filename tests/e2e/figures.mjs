@@ -1,6 +1,7 @@
 // Prints the page's figures (not asserted): Wasm and index transfer sizes,
 // time from navigation to "ready", and worker check times for 1,000, 10,000
-// and 100,000 lines. Needs a built web/dist (web/build.sh).
+// and 100,000 lines; the single-file page's size and time to ready from
+// file://. Needs a built web/dist (web/build.sh) and web/dist-single.
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -73,6 +74,22 @@ async function main() {
       ready.push(await page.evaluate(() => performance.getEntriesByName("rollcall-ready")[0].startTime));
     }
     console.log(`navigation -> ready  ${median(ready).toFixed(0)} ms median of ${RUNS} (target <= 400 ms; runs: ${ready.map((x) => x.toFixed(0)).join(", ")})`);
+    // The single-file page (web/build-single.sh), opened from file://.
+    const single = process.env.SINGLE || path.join(ROOT, "web/dist-single/rollcall.html");
+    if (fs.existsSync(single)) {
+      const bytes = fs.readFileSync(single);
+      const fileReady = [];
+      for (let i = 0; i < RUNS; i++) {
+        const p = await ctx.newPage();
+        await p.goto(`file://${single}`);
+        await p.waitForFunction(() => document.body.dataset.state === "ready", null, { timeout: 30_000 });
+        fileReady.push(await p.evaluate(() => performance.getEntriesByName("rollcall-ready")[0].startTime));
+        await p.close();
+      }
+      console.log(`single-file page     ${bytes.length.toLocaleString("en-US")} bytes (${kb(bytes.length)}; ${kb(gz(bytes))} gzip); from file:// to ready ${median(fileReady).toFixed(0)} ms median of ${RUNS}`);
+    } else {
+      console.log("single-file page     not built (web/build-single.sh)");
+    }
     for (const n of [1_000, 10_000, 100_000]) {
       await page.evaluate((t) => { document.getElementById("list").value = t; }, listOf(n));
       const worker = [];

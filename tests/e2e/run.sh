@@ -9,5 +9,6 @@ cd "$E2E"
 [ -d node_modules/playwright-core ] || npm ci --no-audit --no-fund
 (cd "$ROOT" && cargo build --release --quiet -p rollcall --bin rollcall)
 bash "$ROOT/web/build.sh"
+node "$ROOT/web/build-single.mjs"
 mkdir -p out
-node --test --test-concurrency=1 --test-reporter=spec page.test.mjs
+node --test --test-concurrency=1 --test-reporter=spec page.test.mjs embed.test.mjs

@@ -39,11 +39,19 @@ export function serve(root, port = 0) {
         res.writeHead(404, { "content-type": "text/plain" }).end("not found");
         return;
       }
-      res.writeHead(200, {
+      const headers = {
         "content-type": TYPES[path.extname(file)] || "application/octet-stream",
         "content-length": st.size,
         "cache-control": "no-cache",
-      });
+        "x-content-type-options": "nosniff",
+      };
+      if (file.endsWith(".html")) {
+        // The page's own policy (its meta tag) as a header too, where it can
+        // also forbid framing.
+        const meta = fs.readFileSync(file, "utf8").match(/<meta http-equiv="Content-Security-Policy" content="([^"]*)">/);
+        if (meta) headers["content-security-policy"] = `${meta[1]}; frame-ancestors 'none'`;
+      }
+      res.writeHead(200, headers);
       if (req.method === "HEAD") return res.end();
       fs.createReadStream(file).pipe(res);
     });

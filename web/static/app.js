@@ -6,6 +6,8 @@ import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./output
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
 import { setupCompare } from "./compare.js";
+import { open, readManifest } from "./rollcall.js";
+import { embedded } from "./embedded.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -14,34 +16,16 @@ const ROW_PAGE = 500;
 const STRIP_LIMIT = 150;
 const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
 
-// ---------------------------------------------------------------- worker --
+// --------------------------------------------------------------- checker --
 
-const worker = new Worker("./worker.js");
-const pending = new Map();
-let nextId = 1;
+// The checker and its worker come from the module API (rollcall.js); this
+// page is one of its users. `embedded` is null here; the single-file build
+// puts the index, Wasm and worker into it.
+let checker = null;
 
-worker.onmessage = (event) => {
-  const { id, ok, result, error } = event.data;
-  document.body.dataset.replyAt = String(performance.now());
-  const p = pending.get(id);
-  if (!p) return;
-  pending.delete(id);
-  if (ok) p.resolve(result);
-  else p.reject(new Error(error));
-};
-worker.onerror = (event) => {
-  const msg = event.message || "the checker could not start";
-  for (const p of pending.values()) p.reject(new Error(msg));
-  pending.clear();
-  showIndexError(`The checker could not start: ${msg}`);
-};
-
-function ask(type, payload, transfer = []) {
-  const id = nextId++;
-  return new Promise((resolve, reject) => {
-    pending.set(id, { resolve, reject });
-    worker.postMessage({ id, type, ...payload }, transfer);
-  });
+function ask(type, payload) {
+  if (!checker) return Promise.reject(new Error("the index is not loaded"));
+  return checker.request(type, payload);
 }
 
 // ---------------------------------------------------------------- state --
@@ -83,66 +67,27 @@ function indexFileName(manifest) {
   return manifest.file || "icd10cm.rcx";
 }
 
-async function fetchIndex(name, expected) {
-  let res;
-  try {
-    res = await fetch(name, { cache: "no-cache" });
-  } catch (e) {
-    throw new Error(`the index file “${name}” could not be fetched (${e.message}).`);
-  }
-  if (!res.ok) throw new Error(`the index file “${name}” is missing (the server answered ${res.status}).`);
-  const total = expected || Number(res.headers.get("content-length")) || 0;
-  const bar = $("index-progress");
-  const text = $("index-progress-text");
-  if (!res.body) {
-    const buf = new Uint8Array(await res.arrayBuffer());
-    bar.value = 1;
-    return buf;
-  }
-  const reader = res.body.getReader();
-  const chunks = [];
-  let got = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    chunks.push(value);
-    got += value.length;
-    if (total) bar.value = Math.min(got / total, 1);
-    text.textContent = total ? `${formatBytes(got)} of ${formatBytes(total)}` : formatBytes(got);
-  }
-  const bytes = new Uint8Array(got);
-  let at = 0;
-  for (const c of chunks) {
-    bytes.set(c, at);
-    at += c.length;
-  }
-  return bytes;
+function showProgress(got, total) {
+  if (total) $("index-progress").value = Math.min(got / total, 1);
+  $("index-progress-text").textContent = total ? `${formatBytes(got)} of ${formatBytes(total)}` : formatBytes(got);
 }
 
 async function loadIndex() {
-  let manifest;
+  let opened;
   try {
-    const res = await fetch("index-manifest.json", { cache: "no-cache" });
-    if (!res.ok) throw new Error(`the server answered ${res.status}`);
-    manifest = await res.json();
+    if (embedded) {
+      opened = await open(await embedded.index(), { manifest: embedded.manifest, worker: embedded.worker(), wasm: await embedded.wasm() });
+    } else {
+      // The manifest is read first: it names the index file.
+      const manifest = await readManifest("index-manifest.json");
+      opened = await open(indexFileName(manifest), { manifest, onProgress: showProgress });
+    }
   } catch (e) {
-    throw new Error(`the index manifest (index-manifest.json) could not be read: ${e.message}.`);
-  }
-  if (!manifest || typeof manifest.sha256 !== "string" || typeof manifest.byte_length !== "number") {
-    throw new Error("the index manifest (index-manifest.json) is not in the expected form.");
-  }
-  const name = indexFileName(manifest);
-  const bytes = await fetchIndex(name, manifest.byte_length);
-  const got = bytes.byteLength; // the buffer moves to the worker
-  let info;
-  try {
-    info = await ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
-  } catch (e) {
-    let msg = e.message.replace(/^Error: /, "");
-    if (got !== manifest.byte_length) msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
+    const msg = e.message.replace(/^Error: /, "");
     throw new Error(`${msg.charAt(0).toUpperCase()}${msg.slice(1)}`);
   }
-  return info;
+  checker = opened;
+  return opened.info;
 }
 
 function showIndexReady(info) {

@@ -1,7 +1,11 @@
-// The page's background worker: it owns the WebAssembly checker so that
+// The checker's background worker: it owns the WebAssembly checker so that
 // loading the index and checking long lists never block the page.
+// rollcall.js starts it and speaks this protocol.
 //
 // Protocol (every message carries an `id`; every reply echoes it):
+//   -> {id, type: "init", wasm: ArrayBuffer}   (optional, first: the Wasm bytes
+//      instead of fetching rollcall-web_bg.wasm beside this file)
+//   <- {id, ok: true, result: true}
 //   -> {id, type: "load", bytes: ArrayBuffer, manifest: object}
 //   <- {id, ok: true, result: IndexInfo}
 //   -> {id, type: "check", text: string, options: CheckOptionsInput}
@@ -12,13 +16,40 @@
 //   <- {id, ok: true, result: {comparison: Comparison, ms}}
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
+//   -> {id, type: "digest", text: string}
+//   <- {id, ok: true, result: "hex SHA-256 of the text as UTF-8"}
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen */
 "use strict";
 
-importScripts("./rollcall-web.js");
+// The single-file page builds this worker from one Blob with the glue in it.
+if (typeof wasm_bindgen === "undefined") importScripts("./rollcall-web.js");
 
-const wasmReady = wasm_bindgen({ module_or_path: "./rollcall-web_bg.wasm" });
+// Set by web/post-build.mjs to the SRI hash of the built Wasm, which is then
+// fetched with that integrity.
+const WASM_INTEGRITY = "";
+
+let wasmReady = null;
+
+function startWasm(bytes) {
+  if (!wasmReady) {
+    let source = bytes;
+    if (!source) {
+      const url = new URL("./rollcall-web_bg.wasm", self.location.href);
+      source = WASM_INTEGRITY
+        ? fetch(url, { integrity: WASM_INTEGRITY }).catch((e) => {
+            throw new Error(
+              `the checker's Wasm file (rollcall-web_bg.wasm) could not be loaded or does not match its integrity hash (${e.message}); ` +
+                "the page's files may be damaged or from different builds",
+            );
+          })
+        : url;
+    }
+    wasmReady = wasm_bindgen({ module_or_path: source });
+  }
+  return wasmReady;
+}
+
 let checker = null;
 
 function load(bytes, manifest) {
@@ -70,9 +101,16 @@ self.onmessage = async (event) => {
   const msg = event.data || {};
   const id = msg.id;
   try {
-    await wasmReady;
+    if (msg.type === "init") {
+      if (wasmReady) throw new Error("the checker has already started");
+      startWasm(new Uint8Array(msg.wasm));
+    }
+    await startWasm();
     let result;
     switch (msg.type) {
+      case "init":
+        result = true;
+        break;
       case "load":
         result = load(msg.bytes, msg.manifest);
         break;
@@ -94,6 +132,9 @@ self.onmessage = async (event) => {
       }
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
+        break;
+      case "digest":
+        result = wasm_bindgen.sha256Hex(new TextEncoder().encode(String(msg.text ?? "")));
         break;
       default:
         throw new Error(`unknown request “${msg.type}”`);

@@ -1,0 +1,155 @@
+// Types of rollcall.js, the JavaScript API of the checker. The report types
+// are those of the Wasm binding (web/src/lib.rs) and of the CLI's
+// `--format json`.
+
+/** What an index says about itself, plus the file's size and SHA-256 of its content. */
+export interface IndexInfo {
+  vocabulary: string;
+  title: string;
+  release: string;
+  coverage_from: string;
+  coverage_to: string;
+  sources: { file: string; sha256: string; role: string }[];
+  byte_length: number;
+  sha256: string;
+}
+
+/** index-manifest.json: an IndexInfo written at build time, with the index's file name. */
+export interface IndexManifest extends IndexInfo {
+  file?: string;
+}
+
+/** Options of one check. Give `on`, or `from` and `to`, or neither (today, UTC). Dates are YYYY-MM-DD. */
+export interface CheckOptionsInput {
+  on?: string | null;
+  from?: string | null;
+  to?: string | null;
+  /** Header (non-billable) codes are errors. */
+  billable?: boolean;
+}
+
+export type Severity = "error" | "warning" | "info";
+
+export interface Suggestion {
+  code: string;
+  description: string;
+  reason: string;
+}
+
+export interface Finding {
+  kind: string;
+  severity: Severity;
+  message: string;
+  suggestions: Suggestion[];
+}
+
+export interface Entry {
+  line: number;
+  input: string;
+  code: string | null;
+  label: string | null;
+  description: string | null;
+  status: string;
+  findings: Finding[];
+}
+
+export interface ListFinding {
+  kind: string;
+  severity: Severity;
+  lines: number[];
+  codes: string[];
+  message: string;
+  suggestions: Suggestion[];
+}
+
+/** The check report: the same schema as the CLI's `--format json`. */
+export interface Report {
+  vocabulary: string;
+  index: {
+    release: string;
+    coverage_from: string;
+    coverage_to: string;
+    sources: { file: string; sha256: string; role: string }[];
+  };
+  options: { on: string | null; from: string; to: string; billable: boolean };
+  entries: Entry[];
+  list_findings: ListFinding[];
+  summary: { lines: number; entries: number; errors: number; warnings: number; infos: number };
+}
+
+export interface Span {
+  kind: "billable" | "header";
+  from: string;
+  to: string;
+}
+
+export interface CategoryCoverage {
+  category: string;
+  description: string;
+  included: number;
+  total: number;
+}
+
+/** A change to the list; line numbers are those of the list as it is. */
+export type Edit =
+  | { op: "replace"; line: number; code: string }
+  | { op: "remove"; line: number }
+  | { op: "add"; after: number; code: string; label?: string | null };
+
+/** Spans per code; `null` for a code the index does not know. */
+export type Timelines = Record<string, Span[] | null>;
+
+/** One row of a list: a line as written, `{code, label}`, or `[code, label]`. */
+export type Row = string | { code: string; label?: string | null } | [string, (string | null)?];
+
+/** A list: text (one entry per line) or rows (row i is line i + 1 of the report). */
+export type List = string | Row[];
+
+/** Where an index comes from: a URL (relative to the page) or its bytes. */
+export type IndexSource = string | URL | ArrayBuffer | ArrayBufferView | Blob | Response;
+
+export interface OpenOptions {
+  /** The manifest, or its URL: the index must match its SHA-256 and release. */
+  manifest?: IndexManifest | string | URL | null;
+  /** Called while a URL downloads. `total` is 0 when unknown. */
+  onProgress?: (received: number, total: number) => void;
+  /** A Worker running worker.js; default: worker.js beside rollcall.js. */
+  worker?: Worker;
+  /** The Wasm bytes, for a worker that cannot fetch rollcall-web_bg.wasm itself. */
+  wasm?: ArrayBuffer | ArrayBufferView;
+}
+
+export interface CheckResult {
+  report: Report;
+  coverage: CategoryCoverage[];
+  /** Time of the check itself in the worker, ms. */
+  checkMs: number;
+  /** Check plus coverage in the worker, ms. */
+  totalMs: number;
+}
+
+/** A loaded, verified index in its own worker. */
+export class Checker {
+  readonly info: IndexInfo;
+  /** Check a list; the report in the CLI's JSON schema. */
+  check(list: List, options?: CheckOptionsInput): Promise<Report>;
+  checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
+  /** The list with edits applied, every other character kept. */
+  edit(text: string, edits: Edit[]): Promise<string>;
+  timelines(codes: Iterable<string>): Promise<Timelines>;
+  /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
+  digest(list: List): Promise<string>;
+  /** A request by name to the worker (the protocol is described in worker.js). */
+  request(type: string, payload?: object, transfer?: Transferable[]): Promise<unknown>;
+  /** Stop the worker; later calls reject. */
+  close(): void;
+}
+
+/** Start a worker, load and verify an index. Rejects with a readable message. */
+export function open(source: IndexSource, options?: OpenOptions): Promise<Checker>;
+
+/** A manifest object as it is, or fetched from its URL and checked for shape. */
+export function readManifest(manifest: IndexManifest | string | URL | null | undefined): Promise<IndexManifest | null>;
+
+/** The text the checker reads for a list (rows joined with newlines, code and label by a tab). */
+export function listText(list: List): string;

@@ -1,0 +1,249 @@
+// rollcall's JavaScript API: open an index, check lists, get the CLI's JSON
+// report. The checker (the core compiled to WebAssembly) runs in a Web
+// Worker that this module starts and owns, so a long check never blocks the
+// page. Types: rollcall.d.ts next to this file.
+//
+//   import { open } from "./rollcall.js";
+//   const checker = await open("icd10cm.rcx", { manifest: "index-manifest.json" });
+//   const report = await checker.check("E11.9\nE11\n", { from: "2019-01-01", to: "2024-12-31", billable: true });
+
+/** The folder this module was loaded from: worker.js, the Wasm and the index sit beside it. */
+const HERE = new URL(".", import.meta.url);
+
+function messageOf(err) {
+  const m = err && err.message ? err.message : String(err);
+  return m.replace(/^Error: /, "");
+}
+
+function formatBytes(n) {
+  if (n >= 1e6) return `${(n / 1e6).toFixed(1)} MB`;
+  if (n >= 1e3) return `${(n / 1e3).toFixed(0)} kB`;
+  return `${n} bytes`;
+}
+
+function nameOf(url) {
+  const s = String(url);
+  return s.startsWith("blob:") || s.startsWith("data:") ? "index" : s.split(/[?#]/)[0].split("/").pop() || s;
+}
+
+/** One conversation with a worker: requests carry an id, replies echo it. */
+class Channel {
+  constructor(worker) {
+    this.worker = worker;
+    this.pending = new Map();
+    this.nextId = 1;
+    this.broken = null;
+    worker.onmessage = (event) => {
+      const { id, ok, result, error } = event.data || {};
+      const p = this.pending.get(id);
+      if (!p) return;
+      this.pending.delete(id);
+      if (ok) p.resolve(result);
+      else p.reject(new Error(error));
+    };
+    worker.onerror = (event) => {
+      if (event.preventDefault) event.preventDefault();
+      this.fail(new Error(`the checker could not start: ${event.message || "the worker failed to load"}`));
+    };
+    worker.onmessageerror = () => this.fail(new Error("the checker sent a reply the page could not read"));
+  }
+
+  fail(err) {
+    this.broken = err;
+    for (const p of this.pending.values()) p.reject(err);
+    this.pending.clear();
+  }
+
+  ask(type, payload = {}, transfer = []) {
+    if (this.broken) return Promise.reject(this.broken);
+    const id = this.nextId++;
+    return new Promise((resolve, reject) => {
+      this.pending.set(id, { resolve, reject });
+      this.worker.postMessage({ id, type, ...payload }, transfer);
+    });
+  }
+
+  close() {
+    this.fail(new Error("the checker is closed"));
+    this.worker.terminate();
+  }
+}
+
+/**
+ * A list as the checker reads it: text as it is, or rows (strings, `{code,
+ * label}` objects or `[code, label]` pairs) as one line each, code and label
+ * separated by a tab. Row i is line i + 1 of the report.
+ */
+export function listText(list) {
+  if (typeof list === "string") return list;
+  if (!Array.isArray(list)) {
+    throw new TypeError(`a list is text or an array of rows, not ${list === null ? "null" : typeof list}`);
+  }
+  const flat = (v) => String(v ?? "").replace(/[\t\r\n]+/g, " ");
+  return list
+    .map((row, i) => {
+      let code;
+      let label = null;
+      if (typeof row === "string") code = row;
+      else if (Array.isArray(row)) [code, label = null] = row;
+      else if (row && typeof row === "object") ({ code, label = null } = row);
+      else {
+        throw new TypeError(`row ${i + 1} of the list is ${row === null ? "null" : `a ${typeof row}`}; give a string, {code, label} or [code, label]`);
+      }
+      if (code !== undefined && code !== null && typeof code !== "string") {
+        throw new TypeError(`row ${i + 1}: the code is a ${typeof code}; give it as a string`);
+      }
+      // A string row keeps its own layout (it may already hold a label).
+      if (typeof row === "string") return row.replace(/[\r\n]+/g, " ");
+      return label === null || label === undefined || label === "" ? flat(code) : `${flat(code)}\t${flat(label)}`;
+    })
+    .join("\n");
+}
+
+/** An index manifest: the object itself, or fetched from its URL and checked for shape. */
+export async function readManifest(manifest) {
+  if (manifest === undefined || manifest === null) return null;
+  if (typeof manifest === "object" && !(manifest instanceof URL)) return manifest;
+  const name = nameOf(manifest);
+  let m;
+  try {
+    const res = await fetch(manifest, { cache: "no-cache" });
+    if (!res.ok) throw new Error(`the server answered ${res.status}`);
+    m = await res.json();
+  } catch (e) {
+    throw new Error(`the index manifest (${name}) could not be read: ${messageOf(e)}.`);
+  }
+  if (!m || typeof m.sha256 !== "string" || typeof m.byte_length !== "number") {
+    throw new Error(`the index manifest (${name}) is not in the expected form.`);
+  }
+  return m;
+}
+
+async function fetchBytes(url, expected, onProgress) {
+  const name = nameOf(url);
+  let res;
+  try {
+    res = await fetch(url, { cache: "no-cache" });
+  } catch (e) {
+    throw new Error(`the index file “${name}” could not be fetched (${messageOf(e)}).`);
+  }
+  if (!res.ok) throw new Error(`the index file “${name}” is missing (the server answered ${res.status}).`);
+  const total = expected || Number(res.headers.get("content-length")) || 0;
+  if (!res.body) {
+    const buf = new Uint8Array(await res.arrayBuffer());
+    if (onProgress) onProgress(buf.length, total || buf.length);
+    return buf;
+  }
+  const reader = res.body.getReader();
+  const chunks = [];
+  let got = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    chunks.push(value);
+    got += value.length;
+    if (onProgress) onProgress(got, total);
+  }
+  const bytes = new Uint8Array(got);
+  let at = 0;
+  for (const c of chunks) {
+    bytes.set(c, at);
+    at += c.length;
+  }
+  return bytes;
+}
+
+/** The bytes of an index given as a URL, bytes, a Blob or a Response. */
+async function indexBytes(source, expected, onProgress) {
+  if (typeof source === "string" || source instanceof URL) {
+    const base = globalThis.document ? document.baseURI : globalThis.location.href;
+    return fetchBytes(new URL(source, base), expected, onProgress);
+  }
+  // A copy: the buffer moves to the worker and the caller keeps theirs.
+  if (source instanceof ArrayBuffer) return new Uint8Array(source.slice(0));
+  if (ArrayBuffer.isView(source)) return new Uint8Array(source.buffer.slice(source.byteOffset, source.byteOffset + source.byteLength));
+  if (typeof Blob !== "undefined" && source instanceof Blob) return new Uint8Array(await source.arrayBuffer());
+  if (typeof Response !== "undefined" && source instanceof Response) {
+    if (!source.ok) throw new Error(`the index could not be read (the server answered ${source.status}).`);
+    return new Uint8Array(await source.arrayBuffer());
+  }
+  throw new TypeError("an index is given as a URL, an ArrayBuffer, a typed array, a Blob or a Response");
+}
+
+/** A loaded, verified index in its own worker. */
+export class Checker {
+  constructor(channel, info) {
+    this.channel = channel;
+    /** Release, coverage, sources, byte length and SHA-256 of the index. */
+    this.info = info;
+  }
+
+  /** Check a list; resolves to the report in the CLI's JSON schema. */
+  async check(list, options = {}) {
+    return (await this.checkWithCoverage(list, options)).report;
+  }
+
+  /** The report, the category coverage of the same pass, and timings in ms. */
+  checkWithCoverage(list, options = {}) {
+    return this.channel.ask("check", { text: listText(list), options: options ?? {} });
+  }
+
+  /** The list with edits applied (replace a line's code, remove or add a line). */
+  edit(text, edits) {
+    return this.channel.ask("edit", { text: String(text), edits });
+  }
+
+  /** Billable and header spans per code (`null` for a code the index lacks). */
+  timelines(codes) {
+    return this.channel.ask("timelines", { codes: [...codes].map(String) });
+  }
+
+  /** Lower-case hex SHA-256 of the list's text (UTF-8), as `listText` gives it. */
+  digest(list) {
+    return this.channel.ask("digest", { text: listText(list) });
+  }
+
+  /** A request by name to the worker (see worker.js for the protocol). */
+  request(type, payload = {}, transfer = []) {
+    return this.channel.ask(type, payload, transfer);
+  }
+
+  /** Stop the worker; later calls reject. */
+  close() {
+    this.channel.close();
+  }
+}
+
+/**
+ * Start a worker, load and verify an index, and resolve to a Checker.
+ * `source`: the index as a URL (relative to the page), bytes, a Blob or a
+ * Response. Options: `manifest` (an object or the URL of
+ * index-manifest.json; the index must match its SHA-256 and release),
+ * `onProgress(received, total)` while a URL downloads, `worker` (a Worker
+ * running worker.js, default the one beside this module) and `wasm` (the
+ * Wasm bytes, when the worker cannot fetch them itself).
+ */
+export async function open(source, options = {}) {
+  const worker = options.worker || new Worker(new URL("worker.js", HERE));
+  const channel = new Channel(worker);
+  try {
+    if (options.wasm) await channel.ask("init", { wasm: options.wasm });
+    const manifest = await readManifest(options.manifest);
+    const bytes = await indexBytes(source, manifest && manifest.byte_length, options.onProgress);
+    const got = bytes.byteLength; // the buffer moves to the worker
+    let info;
+    try {
+      info = await channel.ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
+    } catch (e) {
+      let msg = messageOf(e);
+      if (manifest && got !== manifest.byte_length) {
+        msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
+      }
+      throw new Error(msg);
+    }
+    return new Checker(channel, info);
+  } catch (e) {
+    channel.close();
+    throw e;
+  }
+}
