@@ -392,7 +392,7 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
 pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
     Suggestion {
         code: view.display(&view.code(ord)),
-        description: view.description(ord),
+        description: view.description_or_note(ord),
         reason: reason.into(),
     }
 }
@@ -601,7 +601,7 @@ fn judge(
             let code = view.code(ord);
             let shown = view.display(&code);
             e.code = Some(shown.clone());
-            e.description = Some(view.description(ord));
+            e.description = Some(view.description_or_note(ord));
             if !changes.is_empty() {
                 e.findings.push(finding(
                     Kind::Normalized,
@@ -706,7 +706,7 @@ fn judge_dates(
             let p = Pattern::Prefix(view.code(ord)).display(view);
             sugg.push(Suggestion {
                 code: p.clone(),
-                description: view.description(ord),
+                description: view.description_or_note(ord),
                 reason: format!(
                     "{p} matches its {} billable codes in the period",
                     under.len()
@@ -1023,7 +1023,7 @@ fn coverage_of(view: &View<'_>, period: &Period, reached: &Marks) -> Vec<Categor
                 .collect();
             CategoryCoverage {
                 category: view.display(&view.code(c)),
-                description: view.description(c),
+                description: view.description_or_note(c),
                 included: all.iter().filter(|o| reached.contains(o)).count() as u32,
                 total: all.len() as u32,
             }

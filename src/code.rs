@@ -116,7 +116,7 @@ pub fn shape_hint(view: &View<'_>) -> String {
     let letter_first = shapes.iter().all(|s| s.starts_with('A'));
     let digit_third = shapes.iter().all(|s| s.as_bytes().get(2) == Some(&b'9'));
     format!(
-        "{} codes have {min} to {max} letters or digits{}{}, with a dot after the {}",
+        "{} codes have {min} to {max} letters or digits{}{}{}",
         view.meta().title,
         if letter_first {
             ", starting with a letter"
@@ -129,8 +129,9 @@ pub fn shape_hint(view: &View<'_>) -> String {
             ""
         },
         match view.meta().dot_after {
-            3 => "third (E11.9)".to_string(),
-            n => format!("character {n}"),
+            0 => ", with no dot".to_string(),
+            3 => ", with a dot after the third (E11.9)".to_string(),
+            n => format!(", with a dot after character {n}"),
         }
     )
 }

@@ -383,13 +383,13 @@ impl<'v, 'a> Grouper<'v, 'a> {
             };
             let within = parent.map(|p| Named {
                 code: view.display(&view.code(p)),
-                description: view.description(p),
+                description: view.description_or_note(p),
             });
             let codes: Vec<Named> = only[i..j]
                 .iter()
                 .map(|&o| Named {
                     code: view.display(&view.code(o)),
-                    description: view.description(o),
+                    description: view.description_or_note(o),
                 })
                 .collect();
             let code = view.display(&view.code(node));
@@ -405,7 +405,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
                 .unwrap_or_default();
             out.push(Difference {
                 side,
-                description: view.description(node),
+                description: view.description_or_note(node),
                 all_of: j - i > 1 || node != only[i],
                 nearest: nearest(view, node, other),
                 within,
@@ -427,7 +427,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
 fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
     let make = |o: u32, relation| Nearest {
         code: view.display(&view.code(o)),
-        description: view.description(o),
+        description: view.description_or_note(o),
         relation,
     };
     if let Some(a) = view

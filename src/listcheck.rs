@@ -138,7 +138,7 @@ fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFind
             ),
             suggestions: vec![Suggestion {
                 code: pat.clone(),
-                description: view.description(n),
+                description: view.description_or_note(n),
                 reason: format!("replaces the {} lines with one pattern", u.len()),
             }],
         });

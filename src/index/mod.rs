@@ -90,6 +90,8 @@ struct Layout {
     fst: Range,
     pard: Range,
     subt: Range,
+    /// PARD and SUBT hold u32s (else u16s).
+    wide: bool,
     cnts: Range,
     spbk: Range,
     spof: Range,
@@ -194,8 +196,10 @@ impl<D: AsRef<[u8]>> Index<D> {
         let doff = sec(b"DOFF", "descriptions missing")?;
         let desc = sec(b"DESC", "descriptions missing")?;
         let rec_blocks = len.div_ceil(REC_BLOCK);
-        if pard.1 != len * 2
-            || subt.1 != len * 2
+        let wide = pard.1 == len * 4 && len > 0;
+        let col = if wide { 4 } else { 2 };
+        if pard.1 != len * col
+            || subt.1 != len * col
             || cnts.1 != len * 4
             || spbk.1 != rec_blocks * 4
             || spof.1 != len * 2
@@ -210,6 +214,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             fst,
             pard,
             subt,
+            wide,
             cnts,
             spbk,
             spof,
@@ -265,6 +270,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             map: fst::Map::new(s(l.fst)).expect("checked on open"),
             pard: s(l.pard),
             subt: s(l.subt),
+            wide: l.wide,
             cnts: s(l.cnts),
             spbk: s(l.spbk),
             spof: s(l.spof),
@@ -384,6 +390,7 @@ pub struct View<'a> {
     map: fst::Map<&'a [u8]>,
     pard: &'a [u8],
     subt: &'a [u8],
+    wide: bool,
     cnts: &'a [u8],
     spbk: &'a [u8],
     spof: &'a [u8],
@@ -494,6 +501,18 @@ impl<'a> View<'a> {
         }
     }
 
+    /// Entry `ord` of PARD or SUBT.
+    #[inline]
+    fn column(&self, data: &[u8], ord: u32) -> u32 {
+        let i = ord as usize;
+        if self.wide {
+            data.get(i * 4..i * 4 + 4)
+                .map_or(0, |b| u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
+        } else {
+            Self::u16_at(data, i) as u32
+        }
+    }
+
     fn u16_at(data: &[u8], i: usize) -> u16 {
         data.get(i * 2..i * 2 + 2)
             .map_or(0, |b| u16::from_le_bytes([b[0], b[1]]))
@@ -509,7 +528,7 @@ impl<'a> View<'a> {
 
     /// The parent node, if any.
     pub fn parent(&self, ord: u32) -> Option<u32> {
-        let d = Self::u16_at(self.pard, ord as usize) as u32;
+        let d = self.column(self.pard, ord);
         (d != 0 && d <= ord).then(|| ord - d)
     }
 
@@ -527,7 +546,7 @@ impl<'a> View<'a> {
 
     /// One past the last descendant: the subtree of `ord` is `ord..end`.
     pub fn subtree_end(&self, ord: u32) -> u32 {
-        let size = Self::u16_at(self.subt, ord as usize).max(1) as u32;
+        let size = self.column(self.subt, ord).max(1);
         (ord + size).min(self.len as u32).max(ord + 1)
     }
 
@@ -676,6 +695,18 @@ impl<'a> View<'a> {
             .partition_point(|s| s.first.as_str() <= cat);
         let s = self.tree.sections.get(i.checked_sub(1)?)?;
         (cat <= s.last.as_str()).then(|| (s, self.tree.chapters.get(s.chapter as usize)))
+    }
+
+    /// The description, or a note saying the bundled release files have
+    /// none for this code (ICD-10-PCS codes not valid in the FY2024 code
+    /// file, headers of positional hierarchies).
+    pub fn description_or_note(&self, ord: u32) -> String {
+        let d = self.description(ord);
+        if d.is_empty() {
+            "(no description in the bundled release files)".to_string()
+        } else {
+            d
+        }
     }
 
     /// All chapters.

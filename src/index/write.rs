@@ -121,7 +121,9 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     sections.push((*b"CFST", fst_bytes));
 
     // Columns by ordinal (the code itself is read back from the fst):
-    // PARD parent distance, SUBT subtree size, CNTS counts per record,
+    // PARD parent distance, SUBT subtree size (both u16, or both u32 when a
+    // distance or size needs it: the reader tells by the section's length),
+    // CNTS counts per record,
     // SPBK/SCBK where each block of records starts in SPAN/SUCC, SPOF where
     // each record's spans start within its block (span lookups are hot).
     let parents = parents(codes.iter().map(|c| c.code.as_str()), &ordinal);
@@ -137,6 +139,22 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     let mut succ = Out::default();
     let (mut n_spans, mut n_succ) = (0u32, 0u32);
     let too_many = |what: &str, c: &str| WriteError::TooLarge(format!("{c}: {what}"));
+    let distance = |i: usize| {
+        if parents[i] == u32::MAX {
+            0
+        } else {
+            i as u32 - parents[i]
+        }
+    };
+    let wide =
+        (0..codes.len()).any(|i| distance(i) > u16::MAX as u32 || ends[i] - i > u16::MAX as usize);
+    let column = |out: &mut Out, v: u32| {
+        if wide {
+            out.u32(v)
+        } else {
+            out.u16(v as u16)
+        }
+    };
     for (i, c) in codes.iter().enumerate() {
         if i % REC_BLOCK == 0 {
             spbk.u32(n_spans);
@@ -148,13 +166,11 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
             u16::try_from(n_spans - block_start)
                 .map_err(|_| too_many("too many spans in a block", &c.code))?,
         );
-        let pd = if parents[i] == u32::MAX {
-            0
-        } else {
-            i as u32 - parents[i]
-        };
-        pard.u16(u16::try_from(pd).map_err(|_| too_many("parent too far", &c.code))?);
-        subt.u16(u16::try_from(ends[i] - i).map_err(|_| too_many("subtree too large", &c.code))?);
+        column(&mut pard, distance(i));
+        column(
+            &mut subt,
+            u32::try_from(ends[i] - i).map_err(|_| too_many("subtree too large", &c.code))?,
+        );
         let count = |n: usize, what| u8::try_from(n).map_err(|_| too_many(what, &c.code));
         cnts.u8(count(c.billable.len(), "too many billable spans")?);
         cnts.u8(count(c.header.len(), "too many header spans")?);

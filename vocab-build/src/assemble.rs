@@ -13,9 +13,46 @@ pub struct Tree {
     pub codes: HashSet<String>,
 }
 
+/// The vocabulary an index is for: its id, title, where its codes are
+/// written with a dot, and whether its hierarchy is by position.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Vocabulary {
+    pub id: &'static str,
+    pub title: &'static str,
+    pub dot_after: u8,
+    /// The first one to four characters of a code are nodes above it
+    /// (ICD-10-PCS: each of the seven characters has its own meaning, and the
+    /// first four name the section, body system, root operation and body
+    /// part; ICD-10-PCS Official Guidelines, A.2-A.4). The approach, device
+    /// and qualifier levels are left out: they would add 100,000 nodes for
+    /// little use in a code list.
+    pub positional: bool,
+}
+
+pub const ICD10CM: Vocabulary = Vocabulary {
+    id: "icd10cm",
+    title: "ICD-10-CM",
+    dot_after: 3,
+    positional: false,
+};
+
+pub const ICD10PCS: Vocabulary = Vocabulary {
+    id: "icd10pcs",
+    title: "ICD-10-PCS",
+    dot_after: 0,
+    positional: true,
+};
+
+impl Default for Vocabulary {
+    fn default() -> Self {
+        ICD10CM
+    }
+}
+
 /// Everything read from the source files.
 #[derive(Default)]
 pub struct Inputs {
+    pub vocabulary: Vocabulary,
     pub sources: Vec<Source>,
     pub history: Vec<history::Row>,
     /// Tabular files with the days each was in force, newest last.
@@ -73,6 +110,13 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
     }
     for (_, rows) in &inp.codefiles {
         nodes.extend(rows.iter().map(|(c, _)| c.clone()));
+    }
+    if inp.vocabulary.positional {
+        let prefixes: Vec<String> = nodes
+            .iter()
+            .flat_map(|c| (1..c.len().min(5)).map(move |n| c[..n].to_string()))
+            .collect();
+        nodes.extend(prefixes);
     }
     let codes: Vec<String> = nodes.into_iter().collect();
     progress(format!(
@@ -228,13 +272,13 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         .unwrap_or_default();
     Release {
         meta: Meta {
-            vocabulary: "icd10cm".into(),
-            title: "ICD-10-CM".into(),
+            vocabulary: inp.vocabulary.id.into(),
+            title: inp.vocabulary.title.into(),
             release,
             coverage_from: from,
             coverage_to: to,
             sources: inp.sources,
-            dot_after: 3,
+            dot_after: inp.vocabulary.dot_after,
             shapes: shapes.into_iter().collect(),
         },
         codes: entries,

@@ -25,8 +25,9 @@ const HELP: &str = "\
 vocab-build: write a rollcall index from official ICD-10-CM release files
 
 usage:
-  vocab-build                      build the bundled index (vocab-build/sources -> vocab/icd10cm.rcx)
-  vocab-build [FILES...] --out PATH
+  vocab-build                      build the bundled indexes (vocab-build/sources ->
+                                   vocab/icd10cm.rcx and vocab/icd10pcs.rcx)
+  vocab-build [--vocabulary icd10cm|icd10pcs] [FILES...] --out PATH
 
 files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in force):
   --history FILE               release-history TSV (code, valid_from, valid_to, description)
@@ -36,6 +37,8 @@ files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in 
   --conversion FILE            CMS conversion table (effective_date, current_code, previous_code)
 
 Without --history, billable dates come from the order and code files' periods.
+--vocabulary icd10pcs builds an ICD-10-PCS index: no dots, and the hierarchy by
+position (every prefix of a code is a node above it); the default is icd10cm.
 ";
 
 struct Loaded {
@@ -149,12 +152,31 @@ fn bundled(dir: &Path) -> Vec<Arg> {
     ]
 }
 
-/// Files to read, where to write, or the help text to print instead.
-type Parsed = (Vec<Arg>, Option<PathBuf>, Option<String>);
+/// The bundled ICD-10-PCS recipe: the history gives the billable dates, the
+/// FY2024 code file the descriptions of the codes valid that year.
+fn bundled_pcs(dir: &Path) -> Vec<Arg> {
+    let p = |a: &str, b: &str| Period::new(Date::parse(a).unwrap(), Date::parse(b).unwrap());
+    vec![
+        Arg::History(dir.join("icd10pcs-history-FY2016-FY2027.tsv.gz")),
+        Arg::Codes(
+            dir.join("icd10pcs-codes-FY2024.txt.gz"),
+            p("2023-10-01", "2024-09-30"),
+        ),
+    ]
+}
+
+/// Files to read, where to write, the vocabulary, or the help text to print instead.
+type Parsed = (
+    Vec<Arg>,
+    Option<PathBuf>,
+    assemble::Vocabulary,
+    Option<String>,
+);
 
 fn parse_args(args: &[String]) -> Result<Parsed, String> {
     let mut out = Vec::new();
     let mut dest = None;
+    let mut vocabulary = assemble::ICD10CM;
     let mut it = args.iter();
     while let Some(a) = it.next() {
         let mut val = || {
@@ -169,7 +191,18 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             Ok((PathBuf::from(f), period(p)?))
         };
         match a.as_str() {
-            "-h" | "--help" => return Ok((Vec::new(), None, Some(HELP.to_string()))),
+            "-h" | "--help" => return Ok((Vec::new(), None, vocabulary, Some(HELP.to_string()))),
+            "--vocabulary" => {
+                vocabulary = match val()?.as_str() {
+                    "icd10cm" => assemble::ICD10CM,
+                    "icd10pcs" => assemble::ICD10PCS,
+                    v => {
+                        return Err(format!(
+                            "--vocabulary {v} is not known; use icd10cm or icd10pcs"
+                        ))
+                    }
+                }
+            }
             "--history" => out.push(Arg::History(val()?.into())),
             "--conversion" => out.push(Arg::Conversion(val()?.into())),
             "--tabular" => {
@@ -192,44 +225,71 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             }
         }
     }
-    Ok((out, dest, None))
+    Ok((out, dest, vocabulary, None))
 }
 
 fn run(args: &[String]) -> Result<(), String> {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
-    let (mut files, dest, help) = parse_args(args)?;
+    let (files, dest, vocabulary, help) = parse_args(args)?;
     if let Some(h) = help {
         print!("{h}");
         return Ok(());
     }
-    let mut sums = None;
-    if files.is_empty() {
-        let dir = root.join("sources");
-        sums = Some(
-            std::fs::read_to_string(dir.join("SHA256SUMS"))
-                .map_err(|e| format!("{}: {e}", dir.join("SHA256SUMS").display()))?,
-        );
-        files = bundled(&dir);
+    if !files.is_empty() {
+        let dest = dest.unwrap_or_else(|| {
+            root.join("..")
+                .join("vocab")
+                .join(format!("{}.rcx", vocabulary.id))
+        });
+        return build(&files, &dest, vocabulary, None);
     }
-    let dest = dest.unwrap_or_else(|| root.join("..").join("vocab").join("icd10cm.rcx"));
+    let dir = root.join("sources");
+    let sums = std::fs::read_to_string(dir.join("SHA256SUMS"))
+        .map_err(|e| format!("{}: {e}", dir.join("SHA256SUMS").display()))?;
+    let vocab = root.join("..").join("vocab");
+    if dest.is_some() {
+        return Err(
+            "--out needs source files; with none, vocab-build writes the bundled indexes to vocab/"
+                .into(),
+        );
+    }
+    build(
+        &bundled(&dir),
+        &vocab.join("icd10cm.rcx"),
+        assemble::ICD10CM,
+        Some(&sums),
+    )?;
+    build(
+        &bundled_pcs(&dir),
+        &vocab.join("icd10pcs.rcx"),
+        assemble::ICD10PCS,
+        Some(&sums),
+    )
+}
+
+fn build(
+    files: &[Arg],
+    dest: &Path,
+    vocabulary: assemble::Vocabulary,
+    sums: Option<&str>,
+) -> Result<(), String> {
     let started = std::time::Instant::now();
-    let mut inp = Inputs::default();
+    let mut inp = Inputs {
+        vocabulary,
+        ..Inputs::default()
+    };
     let e = |e: BuildError| e.to_string();
-    for a in &files {
+    for a in files {
         match a {
             Arg::History(f) => {
-                let l = load(f, "billable dates and descriptions", sums.as_deref()).map_err(e)?;
+                let l = load(f, "billable dates and descriptions", sums).map_err(e)?;
                 inp.history = history::parse(&l.name, &l.text).map_err(e)?;
                 eprintln!("read {}: {} history rows", l.name, inp.history.len());
                 inp.sources.push(l.source);
             }
             Arg::Tabular(f, p) => {
-                let l = load(
-                    f,
-                    &format!("hierarchy in force {}..{}", p.from, p.to),
-                    sums.as_deref(),
-                )
-                .map_err(e)?;
+                let l = load(f, &format!("hierarchy in force {}..{}", p.from, p.to), sums)
+                    .map_err(e)?;
                 let t = tabular::parse(&l.text).map_err(|x| format!("{}: {x}", l.name))?;
                 eprintln!(
                     "read {}: version {}, {} chapters, {} sections, {} nodes, {} with 7th-character rules",
@@ -247,7 +307,7 @@ fn run(args: &[String]) -> Result<(), String> {
                 let l = load(
                     f,
                     &format!("hierarchy and billable flags in force {}..{}", p.from, p.to),
-                    sums.as_deref(),
+                    sums,
                 )
                 .map_err(e)?;
                 let rows = order::parse(&l.name, &l.text).map_err(e)?;
@@ -265,7 +325,7 @@ fn run(args: &[String]) -> Result<(), String> {
                 let l = load(
                     f,
                     &format!("billable codes in force {}..{}", p.from, p.to),
-                    sums.as_deref(),
+                    sums,
                 )
                 .map_err(e)?;
                 let rows = codefile::parse(&l.name, &l.text).map_err(e)?;
@@ -274,7 +334,7 @@ fn run(args: &[String]) -> Result<(), String> {
                 inp.sources.push(l.source);
             }
             Arg::Conversion(f) => {
-                let l = load(f, "successors of retired codes", sums.as_deref()).map_err(e)?;
+                let l = load(f, "successors of retired codes", sums).map_err(e)?;
                 inp.conversion = conversion::parse(&l.name, &l.text).map_err(e)?;
                 eprintln!("read {}: {} conversion pairs", l.name, inp.conversion.len());
                 inp.sources.push(l.source);
@@ -287,7 +347,7 @@ fn run(args: &[String]) -> Result<(), String> {
     if let Some(dir) = dest.parent() {
         std::fs::create_dir_all(dir).map_err(|x| format!("{}: {x}", dir.display()))?;
     }
-    std::fs::write(&dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
+    std::fs::write(dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
     eprintln!(
         "wrote {} ({} bytes, {} entries, release {}, coverage {} to {}) in {:.1} s",
         dest.display(),
