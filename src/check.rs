@@ -10,6 +10,7 @@ use crate::listcheck;
 use crate::model::{Period, Span, SpanKind};
 use crate::pattern::{self, Pattern};
 use crate::report::*;
+use crate::systems::{self, Shape, System};
 use serde::Serialize;
 use std::collections::{HashMap, HashSet};
 
@@ -57,9 +58,11 @@ pub(crate) enum Item {
         written: String,
     },
     Unknown(String),
-    Malformed(String),
+    Malformed {
+        reason: String,
+        written: String,
+    },
     Pattern(Pattern, Vec<u32>),
-    BadPattern(String),
 }
 
 /// A hasher for ordinals (small integers chosen by us, not by an attacker):
@@ -138,6 +141,57 @@ pub(crate) struct ListContext {
     /// wholly without dots uses the official undotted form of the release
     /// files, so a missing dot is only worth a note in a list that mixes forms.
     pub dotted: bool,
+}
+
+/// The other systems whose shape a code that is no code of the index's
+/// vocabulary fits, and a sentence saying so.
+fn other_systems(view: &View<'_>, written: &str) -> Option<(Vec<System>, String)> {
+    let own = view.meta().vocabulary.as_str();
+    let fits: Vec<(System, String)> = systems::ALL
+        .into_iter()
+        .filter(|s| s.name() != own)
+        .filter_map(|s| match systems::shape(s, written) {
+            Shape::Fits { note, .. } => Some((s, note)),
+            Shape::Ambiguous { reason, .. } => Some((s, reason)),
+            Shape::Fails { .. } => None,
+        })
+        .collect();
+    if fits.is_empty() {
+        return None;
+    }
+    let title = &view.meta().title;
+    let message = match fits.as_slice() {
+        [(s, note)] => format!(
+            "\"{written}\" is not {} {title} code; it {note}, so it looks like {} {} code. Check it in a list of its own with --system {}{}",
+            article(title),
+            s.article(),
+            s.title(),
+            s.name(),
+            if s.bundled() {
+                ", whose bundled index checks it fully"
+            } else {
+                "; rollcall checks that system by shape only"
+            }
+        ),
+        many => format!(
+            "\"{written}\" is not {article} {title} code; it has the shape of a code of {}. Say which system it is from (--system NAME) and check it in a list of its own",
+            many.iter()
+                .map(|(s, _)| format!("{} ({})", s.title(), s.name()))
+                .collect::<Vec<_>>()
+                .join(", "),
+            article = article(title)
+        ),
+    };
+    Some((fits.into_iter().map(|(s, _)| s).collect(), message))
+}
+
+/// `a` or `an` before a system's title (`an ICD-10-CM`).
+fn article(title: &str) -> &'static str {
+    if title.starts_with(['I', 'H', 'N', 'R', 'A', 'E', 'O']) && !title.starts_with("HCPCS") {
+        "an"
+    } else {
+        "a"
+    }
 }
 
 /// Checks a list against an index for the period in `options`.
@@ -300,6 +354,7 @@ fn run<D: AsRef<[u8]>>(
             line: l.number,
             input: l.text.clone(),
             code: None,
+            system: None,
             label,
             description: None,
             status: Status::Malformed,
@@ -316,6 +371,12 @@ fn run<D: AsRef<[u8]>>(
             &mut suggestions_left,
             &mut memo,
         );
+        if e.system.is_none()
+            && !e.status.skipped()
+            && !matches!(e.status, Status::Malformed | Status::OtherSystem)
+        {
+            e.system = Some(view.meta().vocabulary.clone());
+        }
         e.findings.sort_by_key(|f| f.severity);
         entries.push(e);
     }
@@ -331,6 +392,9 @@ fn run<D: AsRef<[u8]>>(
         entries: entries.iter().filter(|e| !e.status.skipped()).count(),
         ..Summary::default()
     };
+    for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
+        *summary.systems.entry(sys.clone()).or_default() += 1;
+    }
     let sevs = entries
         .iter()
         .flat_map(|e| e.findings.iter().map(|f| f.severity))
@@ -373,9 +437,20 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Entry { code, .. } => match pattern::parse(code) {
             Some(Ok(p)) => {
                 let m = p.expand(view, period);
-                Item::Pattern(p, m)
+                // `2345-7` reads as a range but is a LOINC code.
+                if m.is_empty() && other_systems(view, code.trim()).is_some() {
+                    Item::Malformed {
+                        reason: String::new(),
+                        written: code.trim().to_string(),
+                    }
+                } else {
+                    Item::Pattern(p, m)
+                }
             }
-            Some(Err(m)) => Item::BadPattern(m),
+            Some(Err(m)) => Item::Malformed {
+                reason: m,
+                written: code.trim().to_string(),
+            },
             None => match code::resolve(view, code) {
                 Resolved::Found { ord, changes } => Item::Code {
                     ord,
@@ -383,7 +458,10 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
                     written: code.trim().to_string(),
                 },
                 Resolved::Unknown { code } => Item::Unknown(code),
-                Resolved::Malformed { reason } => Item::Malformed(reason),
+                Resolved::Malformed { reason } => Item::Malformed {
+                    reason,
+                    written: code.trim().to_string(),
+                },
             },
         },
     }
@@ -500,16 +578,25 @@ fn judge(
             e.findings
                 .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
         }
-        Item::Malformed(reason) => {
-            e.status = Status::Malformed;
-            e.findings
-                .push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
-        }
-        Item::BadPattern(m) => {
-            e.status = Status::Malformed;
-            e.findings
-                .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
-        }
+        Item::Malformed { reason, written } => match other_systems(view, &written) {
+            Some((systems, message)) => {
+                e.status = Status::OtherSystem;
+                if let [one] = systems.as_slice() {
+                    e.system = Some(one.name().to_string());
+                }
+                e.findings.push(finding(
+                    Kind::OtherSystem,
+                    Severity::Warning,
+                    message,
+                    vec![],
+                ));
+            }
+            None => {
+                e.status = Status::Malformed;
+                e.findings
+                    .push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
+            }
+        },
         Item::Pattern(p, matched) => {
             let shown = p.display(view);
             e.status = Status::Pattern;

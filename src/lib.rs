@@ -29,6 +29,7 @@ pub mod pattern;
 pub mod render;
 pub mod report;
 pub mod sha256;
+pub mod shapecheck;
 pub mod systems;
 
 pub use check::{

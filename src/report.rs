@@ -59,6 +59,14 @@ pub enum Kind {
     Pattern,
     /// A pattern or range that matches nothing in the period.
     PatternEmpty,
+    /// Not a code of the index's vocabulary, but shaped like a code of
+    /// another system.
+    OtherSystem,
+    /// Checked by shape (and check digit) alone: the system's content is
+    /// not bundled, so existence cannot be checked.
+    ShapeOnly,
+    /// Could be several codes of the system (a hyphen-less 10-digit NDC).
+    Ambiguous,
 }
 
 impl Kind {
@@ -78,6 +86,9 @@ impl Kind {
             Kind::SiblingGap => "sibling-gap",
             Kind::Pattern => "pattern",
             Kind::PatternEmpty => "pattern-empty",
+            Kind::OtherSystem => "other-system",
+            Kind::ShapeOnly => "shape-only",
+            Kind::Ambiguous => "ambiguous",
         }
     }
 }
@@ -102,6 +113,12 @@ pub enum Status {
     Malformed,
     /// A pattern or range.
     Pattern,
+    /// A code of another system than the one checked.
+    OtherSystem,
+    /// Has the system's shape; its content is not bundled.
+    ShapeOnly,
+    /// Could be several codes (a hyphen-less 10-digit NDC).
+    Ambiguous,
     /// A blank line (skipped).
     Blank,
     /// A comment line (skipped).
@@ -122,6 +139,9 @@ impl Status {
             Status::Unknown => "unknown",
             Status::Malformed => "malformed",
             Status::Pattern => "pattern",
+            Status::OtherSystem => "other-system",
+            Status::ShapeOnly => "shape-only",
+            Status::Ambiguous => "ambiguous",
             Status::Blank => "blank",
             Status::Comment => "comment",
             Status::ColumnHeadings => "column-headings",
@@ -170,6 +190,10 @@ pub struct Entry {
     pub input: String,
     /// The code it was read as (dotted), or the pattern, if any.
     pub code: Option<String>,
+    /// The code system the entry was checked in (`icd10cm`, `loinc`, ...);
+    /// for an `other-system` entry, the one system its shape fits, if only
+    /// one; none for skipped lines.
+    pub system: Option<String>,
     /// The label written beside the code.
     pub label: Option<String>,
     /// The official description of the code.
@@ -236,6 +260,8 @@ pub struct Summary {
     pub warnings: usize,
     /// Infos.
     pub infos: usize,
+    /// Entries per code system (`system` of each entry), in name order.
+    pub systems: std::collections::BTreeMap<String, usize>,
 }
 
 /// The result of checking one list.

@@ -298,3 +298,81 @@ fn compare_exit_status_and_formats() {
     }
     std::fs::remove_file(a).unwrap();
 }
+
+/// --system: the bundled ICD-10-PCS index (0DTJ4ZZ, FY2024 PCS code file),
+/// shape-only systems (LOINC 2345-7 and its mod 10 check digit, LOINC
+/// Users' Guide), and names that are not systems.
+#[test]
+fn system_option_picks_the_index_or_the_shape_rules() {
+    let pcs = rollcall(
+        &[
+            "check",
+            "-",
+            "--system",
+            "icd10pcs",
+            "--on",
+            "2024-01-01",
+            "--format",
+            "json",
+        ],
+        Some("0DTJ4ZZ\n0DTJ\n"),
+    );
+    assert_eq!(pcs.status.code(), Some(0), "{}", err(&pcs));
+    let v: serde_json::Value = serde_json::from_str(&out(&pcs)).unwrap();
+    assert_eq!(v["vocabulary"], "icd10pcs");
+    assert_eq!(v["entries"][0]["status"], "valid");
+    assert_eq!(v["entries"][0]["system"], "icd10pcs");
+    assert_eq!(v["entries"][1]["status"], "header");
+
+    let loinc = rollcall(
+        &["check", "-", "--system", "LOINC", "--format", "json"],
+        Some("2345-7\n2345-8\n"),
+    );
+    assert_eq!(loinc.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_str(&out(&loinc)).unwrap();
+    assert_eq!(v["entries"][0]["status"], "shape-only");
+    assert!(v["entries"][0]["findings"][0]["message"]
+        .as_str()
+        .unwrap()
+        .contains("cannot say whether 2345-7 exists"));
+    assert_eq!(v["entries"][1]["status"], "malformed");
+    assert_eq!(v["summary"]["systems"]["loinc"], 1);
+
+    for (args, says) in [
+        (vec!["check", "-", "--system", "icd11"], "not known"),
+        (
+            vec![
+                "check",
+                "-",
+                "--system",
+                "icd10pcs",
+                "--index",
+                "vocab/icd10cm.rcx",
+            ],
+            "not icd10pcs",
+        ),
+        (
+            vec![
+                "compare",
+                "-",
+                "vocab/../demo-data/compare-expert.tsv",
+                "--system",
+                "loinc",
+            ],
+            "compare needs",
+        ),
+    ] {
+        let o = rollcall(&args, Some("E11.9\n"));
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        assert!(err(&o).contains(says), "{args:?}: {}", err(&o));
+    }
+    let info = rollcall(&["info", "--format", "json"], None);
+    let v: serde_json::Value = serde_json::from_str(&out(&info)).unwrap();
+    let names: Vec<&str> = v["indexes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|i| i["vocabulary"].as_str().unwrap())
+        .collect();
+    assert_eq!(names, ["icd10cm", "icd10pcs"]);
+}

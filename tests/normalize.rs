@@ -56,9 +56,14 @@ fn an_undotted_list_is_not_told_about_dots() {
 #[test]
 fn impossible_characters_and_shapes_are_malformed() {
     let index = index();
-    let r = check(&index, "E11/9\n250.00\nE11.9\n", &on("2026-01-01"));
+    let r = check(&index, "E11/9\nT2DM\nE11.9\n250.00\n", &on("2026-01-01"));
     assert_eq!(r.entries[0].status, Status::Malformed);
     assert!(r.entries[0].findings[0].message.contains("\"/\""));
     assert_eq!(r.entries[1].status, Status::Malformed);
     assert_eq!(r.entries[2].status, Status::Valid);
+    // 250.00 has the ICD-9-CM shape (CMS version 32 code file: 25000,
+    // diabetes mellitus without complication): another system, not malformed.
+    assert_eq!(r.entries[3].status, Status::OtherSystem);
+    assert_eq!(r.entries[3].system.as_deref(), Some("icd9cm"));
+    assert_eq!(r.summary.systems.get("icd10cm"), Some(&1));
 }

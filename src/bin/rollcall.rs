@@ -4,6 +4,7 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
+use rollcall::systems::System;
 use rollcall::{check, compare, render, CheckOptions, Date, Index};
 use std::io::Read;
 use std::process::ExitCode;
@@ -11,15 +12,18 @@ use std::process::ExitCode;
 /// The bundled ICD-10-CM index, built by vocab-build from vocab-build/sources.
 static BUNDLED: &[u8] = include_bytes!("../../vocab/icd10cm.rcx");
 const BUNDLED_NAME: &str = "vocab/icd10cm.rcx (built into this binary)";
+/// The bundled ICD-10-PCS index.
+static BUNDLED_PCS: &[u8] = include_bytes!("../../vocab/icd10pcs.rcx");
+const BUNDLED_PCS_NAME: &str = "vocab/icd10pcs.rcx (built into this binary)";
 
 const HELP: &str = "\
 rollcall: check a clinical code list against dated ICD-10-CM releases
 
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
-                        [--format text|json|csv] [--index PATH]
+                        [--format text|json|csv] [--system NAME | --index PATH]
   rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
-                        [--format text|json|csv] [--index PATH]
+                        [--format text|json|csv] [--system NAME | --index PATH]
   rollcall info [--format text|json] [--index PATH]
 
   FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
@@ -27,6 +31,8 @@ usage:
   --on       a single reference date (default: today)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
+  --system   icd10cm (default) or icd10pcs: the bundled index of that system; icd9cm, hpo,
+             loinc, snomed, ndc, hcpcs, cpt or rxnorm: checks by shape and check digit only
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
   compare    checks both lists, then compares the billable codes each reaches in the
              period; --format csv writes one row per code only one list reaches
@@ -57,6 +63,7 @@ struct Args {
     billable: bool,
     format: Option<String>,
     index: Option<String>,
+    system: Option<String>,
 }
 
 fn parse(argv: &[String]) -> Result<Args, Usage> {
@@ -80,6 +87,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--billable" => a.billable = true,
             "--format" => a.format = Some(value()?),
             "--index" => a.index = Some(value()?),
+            "--system" => a.system = Some(value()?),
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
             s => a.files.push(s.to_string()),
         }
@@ -109,6 +117,46 @@ fn options(a: &Args) -> Result<CheckOptions, Usage> {
 enum Loaded {
     Bundled(Index<&'static [u8]>),
     File(Index<Vec<u8>>, String),
+}
+
+/// What a list is checked against: an index, or a system's shape rules.
+enum Target {
+    Index(Loaded),
+    Shapes(System),
+}
+
+fn target(a: &Args) -> Result<Target, String> {
+    let system = match a.system.as_deref() {
+        None => None,
+        Some(n) => Some(System::parse(n).ok_or_else(|| {
+            format!(
+                "--system {n} is not known; the names are {}",
+                rollcall::systems::ALL.map(|s| s.name()).join(", ")
+            )
+        })?),
+    };
+    match (system, a.index.as_deref()) {
+        (None, path) => load_index(path).map(Target::Index),
+        (Some(s), Some(path)) => {
+            let loaded = load_index(Some(path))?;
+            let Loaded::File(i, _) = &loaded else {
+                unreachable!("a path loads a file")
+            };
+            if i.meta().vocabulary != s.name() {
+                return Err(format!(
+                    "{path} is an {} index, not {}; drop --system or give an index of that system",
+                    i.meta().vocabulary,
+                    s.name()
+                ));
+            }
+            Ok(Target::Index(loaded))
+        }
+        (Some(System::Icd10cm), None) => load_index(None).map(Target::Index),
+        (Some(System::Icd10pcs), None) => Index::open(BUNDLED_PCS)
+            .map(|i| Target::Index(Loaded::Bundled(i)))
+            .map_err(|e| e.to_string()),
+        (Some(s), None) => Ok(Target::Shapes(s)),
+    }
 }
 
 fn load_index(path: Option<&str>) -> Result<Loaded, String> {
@@ -152,9 +200,10 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 }
             };
             let text = read_list(file)?;
-            let report = match load_index(a.index.as_deref())? {
-                Loaded::Bundled(i) => check(&i, &text, &opts),
-                Loaded::File(i, _) => check(&i, &text, &opts),
+            let report = match target(&a)? {
+                Target::Index(Loaded::Bundled(i)) => check(&i, &text, &opts),
+                Target::Index(Loaded::File(i, _)) => check(&i, &text, &opts),
+                Target::Shapes(s) => rollcall::shapecheck::check_shapes(s, &text, &opts),
             };
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n",
@@ -189,9 +238,15 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 return Err("only one of the two lists can come from standard input".into());
             }
             let (ta, tb) = (read_list(fa)?, read_list(fb)?);
-            let c = match load_index(a.index.as_deref())? {
-                Loaded::Bundled(i) => compare(&i, (fa, &ta), (fb, &tb), &opts),
-                Loaded::File(i, _) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+            let c = match target(&a)? {
+                Target::Index(Loaded::Bundled(i)) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+                Target::Index(Loaded::File(i, _)) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+                Target::Shapes(s) => {
+                    return Err(format!(
+                        "compare needs the content of the system; rollcall has no {} index (bundled: icd10cm, icd10pcs)",
+                        s.title()
+                    ))
+                }
             };
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&c).map_err(|e| e.to_string())? + "\n",
@@ -215,42 +270,65 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             {
                 return Err("info takes only --format and --index".into());
             }
-            let loaded = load_index(a.index.as_deref())?;
-            let (meta, path, size, sum) = match &loaded {
-                Loaded::Bundled(i) => (
-                    i.meta(),
-                    BUNDLED_NAME.to_string(),
-                    i.bytes().len(),
-                    i.checksum(),
-                ),
-                Loaded::File(i, p) => (i.meta(), p.clone(), i.bytes().len(), i.checksum()),
+            let loaded: Vec<Loaded> = match a.index.as_deref() {
+                Some(p) => vec![load_index(Some(p))?],
+                None => vec![
+                    load_index(None)?,
+                    Loaded::Bundled(Index::open(BUNDLED_PCS).map_err(|e| e.to_string())?),
+                ],
             };
+            let described: Vec<_> = loaded
+                .iter()
+                .map(|l| match l {
+                    Loaded::Bundled(i) => (
+                        i.meta(),
+                        if i.meta().vocabulary == "icd10pcs" {
+                            BUNDLED_PCS_NAME.to_string()
+                        } else {
+                            BUNDLED_NAME.to_string()
+                        },
+                        i.bytes().len(),
+                        i.checksum(),
+                    ),
+                    Loaded::File(i, p) => (i.meta(), p.clone(), i.bytes().len(), i.checksum()),
+                })
+                .collect();
             let out = match format.as_str() {
                 "json" => {
-                    let v = serde_json::json!({"indexes": [{
-                        "vocabulary": meta.vocabulary,
-                        "title": meta.title,
-                        "release": meta.release,
-                        "coverage_from": meta.coverage_from,
-                        "coverage_to": meta.coverage_to,
-                        "sources": meta.sources,
-                        "path": path,
-                        "bytes": size,
-                        "sha256": sum,
-                    }]});
+                    let list: Vec<serde_json::Value> = described
+                        .iter()
+                        .map(|(meta, path, size, sum)| {
+                            serde_json::json!({
+                                "vocabulary": meta.vocabulary,
+                                "title": meta.title,
+                                "release": meta.release,
+                                "coverage_from": meta.coverage_from,
+                                "coverage_to": meta.coverage_to,
+                                "sources": meta.sources,
+                                "path": path,
+                                "bytes": size,
+                                "sha256": sum,
+                            })
+                        })
+                        .collect();
+                    let v = serde_json::json!({ "indexes": list });
                     serde_json::to_string_pretty(&v).map_err(|e| e.to_string())? + "\n"
                 }
                 "text" => {
-                    let mut s = format!(
-                        "{} ({}) release {}, coverage {} to {}\n  path: {path}\n  size: {size} bytes\n  checksum (SHA-256): {sum}\n  sources:\n",
-                        meta.title, meta.vocabulary, meta.release, meta.coverage_from, meta.coverage_to
-                    );
-                    for src in &meta.sources {
+                    let mut s = String::new();
+                    for (meta, path, size, sum) in &described {
                         s.push_str(&format!(
-                            "    {}  {}\n      sha256 {}\n",
-                            src.file, src.role, src.sha256
+                            "{} ({}) release {}, coverage {} to {}\n  path: {path}\n  size: {size} bytes\n  checksum (SHA-256): {sum}\n  sources:\n",
+                            meta.title, meta.vocabulary, meta.release, meta.coverage_from, meta.coverage_to
                         ));
+                        for src in &meta.sources {
+                            s.push_str(&format!(
+                                "    {}  {}\n      sha256 {}\n",
+                                src.file, src.role, src.sha256
+                            ));
+                        }
                     }
+                    s.push_str("checked by shape and check digit only (no content bundled): icd9cm, hpo, loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
                     s
                 }
                 f => return Err(format!("--format must be text or json for info, not {f}")),

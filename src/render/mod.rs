@@ -75,14 +75,22 @@ fn line_label(lines: &[usize]) -> String {
 pub fn text(report: &Report) -> String {
     let mut s = String::new();
     let o = &report.options;
-    let _ = writeln!(
-        s,
-        "rollcall: {} list checked against release {} (coverage {} to {})",
-        report.vocabulary,
-        report.index.release,
-        report.index.coverage_from,
-        report.index.coverage_to
-    );
+    if report.index.sources.is_empty() {
+        let _ = writeln!(
+            s,
+            "rollcall: {} list checked by shape and check digit only (rollcall has no content of this system)",
+            report.vocabulary
+        );
+    } else {
+        let _ = writeln!(
+            s,
+            "rollcall: {} list checked against release {} (coverage {} to {})",
+            report.vocabulary,
+            report.index.release,
+            report.index.coverage_from,
+            report.index.coverage_to
+        );
+    }
     let _ = writeln!(
         s,
         "{}{}",

@@ -81,6 +81,19 @@ impl System {
         ALL.into_iter().find(|s| s.name() == n)
     }
 
+    /// Whether rollcall ships an index of the system's content.
+    pub fn bundled(self) -> bool {
+        matches!(self, System::Icd10cm | System::Icd10pcs)
+    }
+
+    /// `a` or `an`, as said before the title.
+    pub fn article(self) -> &'static str {
+        match self {
+            System::Loinc | System::Snomed | System::Cpt | System::Hcpcs => "a",
+            _ => "an",
+        }
+    }
+
     /// A title for people.
     pub fn title(self) -> &'static str {
         match self {

@@ -1,0 +1,169 @@
+//! The check of a list in a system whose content rollcall does not ship:
+//! each entry by the system's shape and check digit alone (see
+//! [`crate::systems`]). Such a check cannot say that a code exists or was
+//! valid in the period, and every finding says so.
+
+use crate::check::CheckOptions;
+use crate::input::{parse_list, LineKind};
+use crate::report::*;
+use crate::systems::{shape, Shape, System};
+use std::collections::BTreeMap;
+
+fn finding(
+    kind: Kind,
+    severity: Severity,
+    message: String,
+    suggestions: Vec<Suggestion>,
+) -> Finding {
+    Finding {
+        kind,
+        severity,
+        message,
+        suggestions,
+    }
+}
+
+/// Checks every entry of `text` as a code of `system` by shape.
+pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Report {
+    let period = options.period();
+    let (_, lines) = parse_list(text);
+    let title = system.title();
+    let mut entries = Vec::with_capacity(lines.len());
+    let mut seen: BTreeMap<String, Vec<usize>> = BTreeMap::new();
+    for l in &lines {
+        let mut e = Entry {
+            line: l.number,
+            input: l.text.clone(),
+            code: None,
+            system: None,
+            label: None,
+            description: None,
+            status: Status::Malformed,
+            findings: Vec::new(),
+        };
+        match &l.kind {
+            LineKind::Blank => e.status = Status::Blank,
+            LineKind::Comment => e.status = Status::Comment,
+            LineKind::Headings => e.status = Status::ColumnHeadings,
+            LineKind::Unreadable(m) => {
+                e.findings
+                    .push(finding(Kind::Malformed, Severity::Error, m.clone(), vec![]))
+            }
+            LineKind::Entry { code, label } => {
+                e.label = label.clone();
+                let written = code.trim();
+                match shape(system, written) {
+                    Shape::Fits { code, note } => {
+                        e.status = Status::ShapeOnly;
+                        e.system = Some(system.name().to_string());
+                        e.findings.push(finding(
+                            Kind::ShapeOnly,
+                            Severity::Info,
+                            format!(
+                                "{code} {note}; rollcall has no {title} content, so it cannot say whether {code} exists or was valid in the period"
+                            ),
+                            vec![],
+                        ));
+                        if code != written.to_ascii_uppercase() {
+                            e.findings.push(finding(
+                                Kind::Normalized,
+                                Severity::Info,
+                                format!("\"{written}\" read as {code}"),
+                                vec![Suggestion {
+                                    code: code.clone(),
+                                    description: String::new(),
+                                    reason: format!("the usual {title} form"),
+                                }],
+                            ));
+                        }
+                        seen.entry(code.clone()).or_default().push(l.number);
+                        e.code = Some(code);
+                    }
+                    Shape::Ambiguous { reason, readings } => {
+                        e.status = Status::Ambiguous;
+                        e.system = Some(system.name().to_string());
+                        e.code = Some(written.to_string());
+                        e.findings.push(finding(
+                            Kind::Ambiguous,
+                            Severity::Warning,
+                            reason,
+                            readings
+                                .into_iter()
+                                .map(|r| Suggestion {
+                                    code: r,
+                                    description: String::new(),
+                                    reason: "one possible reading".into(),
+                                })
+                                .collect(),
+                        ));
+                    }
+                    Shape::Fails { reason } => {
+                        e.code = Some(written.to_string());
+                        e.findings.push(finding(
+                            Kind::Malformed,
+                            Severity::Error,
+                            format!("\"{written}\" is not a {title} code: {reason}"),
+                            vec![],
+                        ));
+                    }
+                }
+            }
+        }
+        entries.push(e);
+    }
+    let list_findings: Vec<ListFinding> = seen
+        .into_iter()
+        .filter(|(_, l)| l.len() > 1)
+        .map(|(code, l)| ListFinding {
+            kind: Kind::Duplicate,
+            severity: Severity::Warning,
+            message: format!(
+                "{code} is on lines {}; keep one of them",
+                l.iter()
+                    .map(|n| n.to_string())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+            lines: l,
+            codes: vec![code],
+            suggestions: vec![],
+        })
+        .collect();
+    let mut summary = Summary {
+        lines: lines.len(),
+        entries: entries.iter().filter(|e| !e.status.skipped()).count(),
+        ..Summary::default()
+    };
+    for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
+        *summary.systems.entry(sys.clone()).or_default() += 1;
+    }
+    for s in entries
+        .iter()
+        .flat_map(|e| e.findings.iter().map(|f| f.severity))
+        .chain(list_findings.iter().map(|f| f.severity))
+    {
+        match s {
+            Severity::Error => summary.errors += 1,
+            Severity::Warning => summary.warnings += 1,
+            Severity::Info => summary.infos += 1,
+        }
+    }
+    Report {
+        vocabulary: system.name().to_string(),
+        index: IndexInfo {
+            release: "none: shape and check-digit rules only".into(),
+            coverage_from: period.from,
+            coverage_to: period.to,
+            sources: vec![],
+        },
+        options: OptionsInfo {
+            on: (period.from == period.to).then_some(period.from),
+            from: period.from,
+            to: period.to,
+            billable: options.billable,
+        },
+        entries,
+        list_findings,
+        summary,
+    }
+}
