@@ -120,6 +120,7 @@ enum Loaded {
 }
 
 /// What a list is checked against: an index, or a system's shape rules.
+#[allow(clippy::large_enum_variant)] // one value per run
 enum Target {
     Index(Loaded),
     Shapes(System),
