@@ -72,10 +72,10 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
             ),
         };
     }
-    let dot_after = view.meta().dot_after as usize;
     let found = |code: &str, mut changes: Vec<&'static str>| {
         let ord = view.ordinal(code)?;
         view.note_code(ord, code);
+        let dot_after = view.meta().dot_for(code);
         let dotted = dot_after > 0 && code.len() > dot_after;
         match (dots, dotted) {
             (2.., _) => changes.push("extra dots removed"),

@@ -151,9 +151,23 @@ pub struct Meta {
     pub sources: Vec<Source>,
     /// Where the dot goes in the display form (3 for ICD-10-CM: `E11.9`).
     pub dot_after: u8,
+    /// Codes starting with this letter put the dot elsewhere (ICD-9-CM:
+    /// `E` codes after the fourth character, `E880.0`).
+    pub dot_rules: Vec<(char, u8)>,
     /// Code shapes seen in the data, one letter per character:
     /// `A` a letter, `9` a digit (`A99.9A` style is written without the dot).
     pub shapes: Vec<String>,
+}
+
+impl Meta {
+    /// Where the dot goes in `code` (0: no dot).
+    pub fn dot_for(&self, code: &str) -> usize {
+        let first = code.chars().next();
+        self.dot_rules
+            .iter()
+            .find(|(c, _)| Some(*c) == first)
+            .map_or(self.dot_after, |(_, n)| *n) as usize
+    }
 }
 
 /// A whole vocabulary, ready to be written as an index.

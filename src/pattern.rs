@@ -67,7 +67,9 @@ impl Pattern {
     /// The pattern as rollcall writes it (`E11.6*`, `E08-E13`).
     pub fn display(&self, view: &View<'_>) -> String {
         match self {
-            Pattern::Prefix(p) if p.len() == view.meta().dot_after as usize => format!("{p}.*"),
+            Pattern::Prefix(p) if p.len() == view.meta().dot_for(p) && !p.is_empty() => {
+                format!("{p}.*")
+            }
             Pattern::Prefix(p) => format!("{}*", view.display(p)),
             Pattern::Range(a, b) => format!("{}-{}", view.display(a), view.display(b)),
         }

@@ -374,5 +374,5 @@ fn system_option_picks_the_index_or_the_shape_rules() {
         .iter()
         .map(|i| i["vocabulary"].as_str().unwrap())
         .collect();
-    assert_eq!(names, ["icd10cm", "icd10pcs"]);
+    assert_eq!(names, ["icd10cm", "icd10pcs", "icd9cm"]);
 }

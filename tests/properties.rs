@@ -73,6 +73,7 @@ fn arb_release() -> impl Strategy<Value = Release> {
                         role: "r".into(),
                     }],
                     dot_after: 3,
+                    dot_rules: vec![('E', 4)],
                     shapes: vec!["A99".into()],
                 },
                 codes,

@@ -15,6 +15,9 @@ const BUNDLED_NAME: &str = "vocab/icd10cm.rcx (built into this binary)";
 /// The bundled ICD-10-PCS index.
 static BUNDLED_PCS: &[u8] = include_bytes!("../../vocab/icd10pcs.rcx");
 const BUNDLED_PCS_NAME: &str = "vocab/icd10pcs.rcx (built into this binary)";
+/// The bundled ICD-9-CM index (final version 32).
+static BUNDLED_ICD9: &[u8] = include_bytes!("../../vocab/icd9cm.rcx");
+const BUNDLED_ICD9_NAME: &str = "vocab/icd9cm.rcx (built into this binary)";
 
 const HELP: &str = "\
 rollcall: check a clinical code list against dated ICD-10-CM releases
@@ -31,7 +34,7 @@ usage:
   --on       a single reference date (default: today)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
-  --system   icd10cm (default) or icd10pcs: the bundled index of that system; icd9cm, hpo,
+  --system   icd10cm (default), icd10pcs or icd9cm: the bundled index of that system; hpo,
              loinc, snomed, ndc, hcpcs, cpt or rxnorm: checks by shape and check digit only
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
   compare    checks both lists, then compares the billable codes each reaches in the
@@ -156,6 +159,9 @@ fn target(a: &Args) -> Result<Target, String> {
         (Some(System::Icd10pcs), None) => Index::open(BUNDLED_PCS)
             .map(|i| Target::Index(Loaded::Bundled(i)))
             .map_err(|e| e.to_string()),
+        (Some(System::Icd9cm), None) => Index::open(BUNDLED_ICD9)
+            .map(|i| Target::Index(Loaded::Bundled(i)))
+            .map_err(|e| e.to_string()),
         (Some(s), None) => Ok(Target::Shapes(s)),
     }
 }
@@ -276,6 +282,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 None => vec![
                     load_index(None)?,
                     Loaded::Bundled(Index::open(BUNDLED_PCS).map_err(|e| e.to_string())?),
+                    Loaded::Bundled(Index::open(BUNDLED_ICD9).map_err(|e| e.to_string())?),
                 ],
             };
             let described: Vec<_> = loaded
@@ -283,10 +290,10 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 .map(|l| match l {
                     Loaded::Bundled(i) => (
                         i.meta(),
-                        if i.meta().vocabulary == "icd10pcs" {
-                            BUNDLED_PCS_NAME.to_string()
-                        } else {
-                            BUNDLED_NAME.to_string()
+                        match i.meta().vocabulary.as_str() {
+                            "icd10pcs" => BUNDLED_PCS_NAME.to_string(),
+                            "icd9cm" => BUNDLED_ICD9_NAME.to_string(),
+                            _ => BUNDLED_NAME.to_string(),
                         },
                         i.bytes().len(),
                         i.checksum(),
@@ -329,7 +336,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                             ));
                         }
                     }
-                    s.push_str("checked by shape and check digit only (no content bundled): icd9cm, hpo, loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
+                    s.push_str("checked by shape and check digit only (no content bundled): hpo, loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
                     s
                 }
                 f => return Err(format!("--format must be text or json for info, not {f}")),

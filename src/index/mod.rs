@@ -338,6 +338,14 @@ fn read_meta(b: &[u8]) -> Option<Meta> {
     for _ in 0..n.min(10_000) {
         shapes.push(r.str()?.to_string());
     }
+    let mut dot_rules = Vec::new();
+    if r.pos < b.len() {
+        let n = r.varint()?;
+        for _ in 0..n.min(64) {
+            let c = char::from_u32(r.varint()?)?;
+            dot_rules.push((c, r.u8()?));
+        }
+    }
     Some(Meta {
         vocabulary,
         title,
@@ -346,6 +354,7 @@ fn read_meta(b: &[u8]) -> Option<Meta> {
         coverage_to,
         sources,
         dot_after,
+        dot_rules,
         shapes,
     })
 }
@@ -489,7 +498,7 @@ impl<'a> View<'a> {
 
     /// The display form of an undotted code (`E119` → `E11.9`).
     pub fn display(&self, code: &str) -> String {
-        let n = self.meta.dot_after as usize;
+        let n = self.meta.dot_for(code);
         if n > 0 && code.len() > n && code.is_char_boundary(n) {
             let mut s = String::with_capacity(code.len() + 1);
             s.push_str(&code[..n]);

@@ -106,6 +106,14 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     for s in &m.shapes {
         meta.str(s);
     }
+    // An optional trailing field: files without dot rules end here.
+    if !m.dot_rules.is_empty() {
+        meta.varint(m.dot_rules.len() as u32);
+        for (c, n) in &m.dot_rules {
+            meta.varint(*c as u32);
+            meta.u8(*n);
+        }
+    }
     sections.push((*b"META", meta.buf));
 
     // CFST: code -> ordinal

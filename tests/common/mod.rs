@@ -28,11 +28,13 @@ pub fn source(name: &str) -> String {
     .find(|p| p.exists())
     .unwrap_or_else(|| panic!("source file {name} not found"));
     let raw = std::fs::read(&path).unwrap();
-    let mut s = String::new();
+    let mut bytes = Vec::new();
     flate2::read::MultiGzDecoder::new(&raw[..])
-        .read_to_string(&mut s)
+        .read_to_end(&mut bytes)
         .unwrap();
-    s
+    // The CMS ICD-9-CM files are ISO-8859-1.
+    String::from_utf8(bytes)
+        .unwrap_or_else(|e| e.into_bytes().into_iter().map(char::from).collect())
 }
 
 pub fn day(s: &str) -> Date {

@@ -20,27 +20,49 @@ pub struct Vocabulary {
     pub id: &'static str,
     pub title: &'static str,
     pub dot_after: u8,
-    /// The first one to four characters of a code are nodes above it
+    pub dot_rules: &'static [(char, u8)],
+    pub hierarchy: Hierarchy,
+}
+
+/// Where the nodes above the codes come from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Hierarchy {
+    /// The tabular and order files (ICD-10-CM).
+    Trees,
+    /// The first one to `max` characters of a code are nodes above it
     /// (ICD-10-PCS: each of the seven characters has its own meaning, and the
     /// first four name the section, body system, root operation and body
     /// part; ICD-10-PCS Official Guidelines, A.2-A.4). The approach, device
     /// and qualifier levels are left out: they would add 100,000 nodes for
     /// little use in a code list.
-    pub positional: bool,
+    Positional { max: usize },
+    /// The category (three characters, four for E codes) and each longer
+    /// prefix of a code are nodes above it (ICD-9-CM: 250 > 250.0 > 250.00).
+    Categories,
 }
 
 pub const ICD10CM: Vocabulary = Vocabulary {
     id: "icd10cm",
     title: "ICD-10-CM",
     dot_after: 3,
-    positional: false,
+    dot_rules: &[],
+    hierarchy: Hierarchy::Trees,
 };
 
 pub const ICD10PCS: Vocabulary = Vocabulary {
     id: "icd10pcs",
     title: "ICD-10-PCS",
     dot_after: 0,
-    positional: true,
+    dot_rules: &[],
+    hierarchy: Hierarchy::Positional { max: 4 },
+};
+
+pub const ICD9CM: Vocabulary = Vocabulary {
+    id: "icd9cm",
+    title: "ICD-9-CM",
+    dot_after: 3,
+    dot_rules: &[('E', 4)],
+    hierarchy: Hierarchy::Categories,
 };
 
 impl Default for Vocabulary {
@@ -111,13 +133,16 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
     for (_, rows) in &inp.codefiles {
         nodes.extend(rows.iter().map(|(c, _)| c.clone()));
     }
-    if inp.vocabulary.positional {
-        let prefixes: Vec<String> = nodes
-            .iter()
-            .flat_map(|c| (1..c.len().min(5)).map(move |n| c[..n].to_string()))
-            .collect();
-        nodes.extend(prefixes);
-    }
+    let prefix_lengths = |c: &str| match inp.vocabulary.hierarchy {
+        Hierarchy::Trees => 0..0,
+        Hierarchy::Positional { max } => 1..c.len().min(max + 1),
+        Hierarchy::Categories => (if c.starts_with('E') { 4 } else { 3 })..c.len(),
+    };
+    let prefixes: Vec<String> = nodes
+        .iter()
+        .flat_map(|c| prefix_lengths(c).map(move |n| c[..n].to_string()))
+        .collect();
+    nodes.extend(prefixes);
     let codes: Vec<String> = nodes.into_iter().collect();
     progress(format!(
         "nodes in the union of {} trees: {}",
@@ -279,6 +304,7 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
             coverage_to: to,
             sources: inp.sources,
             dot_after: inp.vocabulary.dot_after,
+            dot_rules: inp.vocabulary.dot_rules.to_vec(),
             shapes: shapes.into_iter().collect(),
         },
         codes: entries,

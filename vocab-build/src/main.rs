@@ -77,18 +77,15 @@ fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildErro
         }
     }
     let text = if name.ends_with(".gz") {
-        let mut s = String::new();
+        let mut bytes = Vec::new();
         flate2::read::MultiGzDecoder::new(&raw[..])
-            .read_to_string(&mut s)
+            .read_to_end(&mut bytes)
             .map_err(|e| {
-                BuildError::file(
-                    &name,
-                    format!("is not valid gzip-compressed UTF-8 text ({e})"),
-                )
+                BuildError::file(&name, format!("is not valid gzip-compressed data ({e})"))
             })?;
-        s
+        latin1_if_not_utf8(&name, bytes)
     } else {
-        String::from_utf8(raw).map_err(|_| BuildError::file(&name, "is not UTF-8 text"))?
+        latin1_if_not_utf8(&name, raw)
     };
     Ok(Loaded {
         source: Source {
@@ -99,6 +96,18 @@ fn load(path: &Path, role: &str, sums: Option<&str>) -> Result<Loaded, BuildErro
         name,
         text,
     })
+}
+
+/// Text as UTF-8, or, when it is not, as ISO-8859-1 (the encoding of the
+/// CMS ICD-9-CM files), saying so.
+fn latin1_if_not_utf8(name: &str, bytes: Vec<u8>) -> String {
+    match String::from_utf8(bytes) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("note: {name} is not UTF-8; read as ISO-8859-1");
+            e.into_bytes().into_iter().map(char::from).collect()
+        }
+    }
 }
 
 fn period(s: &str) -> Result<Period, String> {
@@ -152,6 +161,19 @@ fn bundled(dir: &Path) -> Vec<Arg> {
     ]
 }
 
+/// The bundled ICD-9-CM recipe: the final code file (version 32), in force
+/// for FY2015, the last year before the system was retired on 2015-10-01
+/// (HHS final rule, 79 FR 45128).
+fn bundled_icd9(dir: &Path) -> Vec<Arg> {
+    vec![Arg::Codes(
+        dir.join("CMS32_DESC_LONG_DX.txt.gz"),
+        Period::new(
+            Date::parse("2014-10-01").unwrap(),
+            Date::parse("2015-09-30").unwrap(),
+        ),
+    )]
+}
+
 /// The bundled ICD-10-PCS recipe: the history gives the billable dates, the
 /// FY2024 code file the descriptions of the codes valid that year.
 fn bundled_pcs(dir: &Path) -> Vec<Arg> {
@@ -196,9 +218,10 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
                 vocabulary = match val()?.as_str() {
                     "icd10cm" => assemble::ICD10CM,
                     "icd10pcs" => assemble::ICD10PCS,
+                    "icd9cm" => assemble::ICD9CM,
                     v => {
                         return Err(format!(
-                            "--vocabulary {v} is not known; use icd10cm or icd10pcs"
+                            "--vocabulary {v} is not known; use icd10cm, icd10pcs or icd9cm"
                         ))
                     }
                 }
@@ -263,6 +286,12 @@ fn run(args: &[String]) -> Result<(), String> {
         &bundled_pcs(&dir),
         &vocab.join("icd10pcs.rcx"),
         assemble::ICD10PCS,
+        Some(&sums),
+    )?;
+    build(
+        &bundled_icd9(&dir),
+        &vocab.join("icd9cm.rcx"),
+        assemble::ICD9CM,
         Some(&sums),
     )
 }

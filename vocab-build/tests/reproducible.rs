@@ -88,6 +88,31 @@ fn rebuilding_the_bundled_pcs_index_gives_the_committed_bytes() {
     );
 }
 
+#[test]
+fn rebuilding_the_bundled_icd9_index_gives_the_committed_bytes() {
+    let root = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let out =
+        std::env::temp_dir().join(format!("rollcall-rebuild-icd9-{}.rcx", std::process::id()));
+    let dir = root.join("vocab-build/sources");
+    let status = Command::new(env!("CARGO_BIN_EXE_vocab-build"))
+        .args(["--vocabulary", "icd9cm", "--codes"])
+        .arg(format!(
+            "{}@2014-10-01..2015-09-30",
+            dir.join("CMS32_DESC_LONG_DX.txt.gz").display()
+        ))
+        .args(["--out", out.to_str().unwrap()])
+        .status()
+        .unwrap();
+    assert!(status.success());
+    let built = std::fs::read(&out).unwrap();
+    let committed = std::fs::read(root.join("vocab/icd9cm.rcx")).unwrap();
+    let _ = std::fs::remove_file(&out);
+    assert!(
+        built == committed,
+        "vocab/icd9cm.rcx is out of date: run `cargo run --release -p vocab-build`"
+    );
+}
+
 /// An order file alone (any year's official download) builds a usable index.
 #[test]
 fn an_order_file_alone_builds_an_index() {
