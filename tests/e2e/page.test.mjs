@@ -506,3 +506,24 @@ test("comparing two lists shows the CLI's figures, runs and equivalents", async 
   assert.deepEqual(page.errors, []);
   await page.close();
 });
+
+test("another code system's index is fetched when picked, and checks as the CLI does", async () => {
+  const list = path.join(OUT, "pcs-list.txt");
+  // 0DTJ4ZZ and its body-part node 0DTJ (FY2024 ICD-10-PCS code file), a
+  // letter O typed for zero, and a six-character code that cannot be one.
+  fs.writeFileSync(list, "0DTJ4ZZ\n0DTJ\nODTJ4ZZ\n0DTJ4Z\n");
+  const want = cli(list, ["--system", "icd10pcs", "--on", "2024-01-01"]);
+  const page = await openPage();
+  await waitReady(page);
+  const before = requests.filter((u) => u.endsWith("icd10pcs.rcx")).length;
+  assert.equal(before, 0, "the PCS index is not fetched until it is picked");
+  await setOptions(page, { on: "2024-01-01" });
+  await page.fill("#list", fs.readFileSync(list, "utf8"));
+  await page.selectOption("#opt-system", "icd10pcs");
+  await page.waitForFunction(() => document.body.dataset.state === "ready" && /ICD-10-PCS/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  await checkNow(page);
+  assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
+  assert.ok(requests.some((u) => u.endsWith("icd10pcs.rcx")));
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});

@@ -72,6 +72,30 @@ function showProgress(got, total) {
   $("index-progress-text").textContent = total ? `${formatBytes(got)} of ${formatBytes(total)}` : formatBytes(got);
 }
 
+/** Opens the index of another system (fetched the first time it is asked for). */
+async function switchSystem(name) {
+  if (state.info && state.info.vocabulary === name) return;
+  const box = $("options-error");
+  $("check-status").textContent = `Loading the ${name} index…`;
+  document.body.dataset.state = "loading";
+  try {
+    const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
+    const manifest = await readManifest(file);
+    const opened = await open(manifest.file, { manifest, onProgress: showProgress });
+    if (checker) checker.close();
+    checker = opened;
+    box.hidden = true;
+    showIndexReady(opened.info);
+    runCheck();
+  } catch (e) {
+    box.hidden = false;
+    box.textContent = `Could not load the ${name} index: ${e.message.replace(/^Error: /, "")}`;
+    $("opt-system").value = state.info ? state.info.vocabulary : "icd10cm";
+    document.body.dataset.state = state.info ? "ready" : "index-error";
+    $("check-status").textContent = "";
+  }
+}
+
 async function loadIndex() {
   let opened;
   try {
@@ -451,6 +475,9 @@ function wire() {
       scheduleCheck();
     });
   $("check-now").addEventListener("click", runCheck);
+  $("opt-system").addEventListener("change", (e) => switchSystem(e.target.value));
+  // The single-file page carries the ICD-10-CM index only.
+  if (embedded) $("system-row").hidden = true;
   $("apply-safe").addEventListener("click", applySafeFixes);
   for (const c of document.querySelectorAll(".sev-filter")) c.addEventListener("change", renderRows);
   $("kind-filter").addEventListener("change", renderRows);
