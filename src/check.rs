@@ -57,7 +57,10 @@ pub(crate) enum Item {
         changes: Vec<&'static str>,
         written: String,
     },
-    Unknown(String),
+    Unknown {
+        code: String,
+        written: String,
+    },
     Malformed {
         reason: String,
         written: String,
@@ -185,6 +188,79 @@ fn other_systems(view: &View<'_>, written: &str) -> Option<(Vec<System>, String)
     Some((fits.into_iter().map(|(s, _)| s).collect(), message))
 }
 
+/// When `code` is no code of `view` but a code of one of `others`: that
+/// system's name, a sentence, and the targets of its mapping into `view`'s
+/// vocabulary (the GEMs) with their flags in words and their status in
+/// the period.
+fn known_elsewhere(
+    view: &View<'_>,
+    others: &[View<'_>],
+    code: &str,
+    period: &Period,
+) -> Option<(String, String, Vec<Suggestion>)> {
+    let own = view.meta().vocabulary.as_str();
+    for other in others {
+        // A dot where the other system puts none (`E88.00` for E880.0) says
+        // the code is not from there.
+        let code::Resolved::Found { ord, changes } = code::resolve(other, code) else {
+            continue;
+        };
+        if changes.contains(&"dot moved") {
+            continue;
+        }
+        let meta = other.meta();
+        let shown = other.display(&other.code(ord));
+        let mut message = format!(
+            "{shown} is not {} {} code; it is {} {} code ({}), valid {}",
+            article(&view.meta().title),
+            view.meta().title,
+            article(&meta.title),
+            meta.title,
+            other.description_or_note(ord),
+            other
+                .billable(ord)
+                .map(|p| format!("{} to {}", p.from, p.to))
+                .collect::<Vec<_>>()
+                .join(", ")
+        );
+        let mut sugg = Vec::new();
+        match other.mapping(&meta.vocabulary, own) {
+            Some(m) => {
+                let rows = m.lookup(&other.code(ord));
+                let words = crate::translate::flag_words(&rows);
+                message.push_str(&format!("; {}: {words}", m.title));
+                for r in rows.iter().filter(|r| !r.flags.no_map) {
+                    let Some(t) = view.ordinal(&r.target) else {
+                        sugg.push(Suggestion {
+                            code: r.target.clone(),
+                            description: String::new(),
+                            reason: format!(
+                                "{} target, not in any {} release from {} on",
+                                m.title,
+                                view.meta().title,
+                                view.meta().coverage_from
+                            ),
+                        });
+                        continue;
+                    };
+                    let mut reason = crate::translate::row_words(&r.flags);
+                    if !view.billable_in(t, period) {
+                        reason.push_str(", but not billable in the period");
+                    }
+                    sugg.push(suggestion(view, t, reason));
+                }
+            }
+            None => message.push_str(&format!(
+                "; the {} index carries no mapping into {}",
+                meta.title,
+                view.meta().title
+            )),
+        }
+        return Some((meta.vocabulary.clone(), message, sugg));
+    }
+    None
+}
+
 /// `a` or `an` before a system's title (`an ICD-10-CM`).
 fn article(title: &str) -> &'static str {
     if title.starts_with(['I', 'H', 'N', 'R', 'A', 'E', 'O']) && !title.starts_with("HCPCS") {
@@ -206,6 +282,22 @@ pub fn check<D: AsRef<[u8]>>(index: &Index<D>, text: &str, options: &CheckOption
     run(index, text, options, Want::default()).0
 }
 
+/// [`check`], with the indexes of other systems at hand: an entry that is
+/// no code of `index` but a code of one of `others` is reported as that
+/// system's code, with the mapping's targets (the GEMs) as suggestions.
+pub fn check_among<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    text: &str,
+    options: &CheckOptions,
+) -> Report {
+    let want = Want {
+        others,
+        ..Want::default()
+    };
+    run(index, text, options, want).0
+}
+
 /// [`check`], plus how much of each category the list covers (for the
 /// page's coverage bars), computed from the same pass over the list.
 pub fn check_with_coverage<D: AsRef<[u8]>>(
@@ -215,7 +307,7 @@ pub fn check_with_coverage<D: AsRef<[u8]>>(
 ) -> (Report, Vec<CategoryCoverage>) {
     let want = Want {
         coverage: true,
-        reach: false,
+        ..Want::default()
     };
     let (report, extras) = run(index, text, options, want);
     (report, extras.coverage)
@@ -253,17 +345,18 @@ pub fn check_with_reach<D: AsRef<[u8]>>(
     options: &CheckOptions,
 ) -> (Report, Vec<Reach>) {
     let want = Want {
-        coverage: false,
         reach: true,
+        ..Want::default()
     };
     let (report, extras) = run(index, text, options, want);
     (report, extras.reach)
 }
 
 #[derive(Default, Clone, Copy)]
-struct Want {
+struct Want<'o, 'v> {
     coverage: bool,
     reach: bool,
+    others: &'o [View<'v>],
 }
 
 #[derive(Default)]
@@ -276,7 +369,7 @@ fn run<D: AsRef<[u8]>>(
     index: &Index<D>,
     text: &str,
     options: &CheckOptions,
-    want: Want,
+    want: Want<'_, '_>,
 ) -> (Report, Extras) {
     let view = index.view();
     let period = options.period();
@@ -370,6 +463,7 @@ fn run<D: AsRef<[u8]>>(
             &mut e,
             &mut suggestions_left,
             &mut memo,
+            want.others,
         );
         if e.system.is_none()
             && !e.status.skipped()
@@ -457,7 +551,10 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
                     changes,
                     written: code.trim().to_string(),
                 },
-                Resolved::Unknown { code } => Item::Unknown(code),
+                Resolved::Unknown { code: c } => Item::Unknown {
+                    code: c,
+                    written: code.trim().to_string(),
+                },
                 Resolved::Malformed { reason } => Item::Malformed {
                     reason,
                     written: code.trim().to_string(),
@@ -568,6 +665,7 @@ fn judge(
     e: &mut Entry,
     suggestions_left: &mut usize,
     memo: &mut Memo,
+    others: &[View<'_>],
 ) {
     let title = &view.meta().title;
     let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
@@ -577,6 +675,17 @@ fn judge(
             e.status = Status::Malformed;
             e.findings
                 .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
+        }
+        Item::Malformed { written, .. }
+            if known_elsewhere(view, others, &written, period).is_some() =>
+        {
+            let (system, message, sugg) =
+                known_elsewhere(view, others, &written, period).expect("just checked");
+            e.status = Status::OtherSystem;
+            e.system = Some(system);
+            e.code = Some(written);
+            e.findings
+                .push(finding(Kind::OtherSystem, Severity::Warning, message, sugg));
         }
         Item::Malformed { reason, written } => match other_systems(view, &written) {
             Some((systems, message)) => {
@@ -625,7 +734,17 @@ fn judge(
                 ));
             }
         }
-        Item::Unknown(c) => {
+        Item::Unknown { written, .. }
+            if known_elsewhere(view, others, &written, period).is_some() =>
+        {
+            let (system, message, sugg) =
+                known_elsewhere(view, others, &written, period).expect("just checked");
+            e.status = Status::OtherSystem;
+            e.system = Some(system);
+            e.findings
+                .push(finding(Kind::OtherSystem, Severity::Warning, message, sugg));
+        }
+        Item::Unknown { code: c, .. } => {
             e.status = Status::Unknown;
             e.code = Some(view.display(&c));
             let mut msg = format!(

@@ -31,9 +31,11 @@ pub mod report;
 pub mod sha256;
 pub mod shapecheck;
 pub mod systems;
+pub mod translate;
 
 pub use check::{
-    check, check_with_coverage, check_with_reach, timeline, CategoryCoverage, CheckOptions,
+    check, check_among, check_with_coverage, check_with_reach, timeline, CategoryCoverage,
+    CheckOptions,
 };
 pub use compare::{compare, Comparison};
 pub use date::{Date, DateError};

@@ -183,6 +183,50 @@ pub struct Release {
     pub sections: Vec<Section>,
     /// Distinct 7th-character rules.
     pub seventh: Vec<SeventhRule>,
+    /// Mappings to or from other vocabularies (the GEMs).
+    pub mappings: Vec<Mapping>,
+}
+
+/// A mapping between two vocabularies, one row per source-target pair, in
+/// the order of the official file (the 2015 General Equivalence Mappings).
+#[derive(Clone, PartialEq, Eq, Debug)]
+pub struct Mapping {
+    /// Short name (`gem-icd9cm-icd10cm`).
+    pub name: String,
+    /// Title for people.
+    pub title: String,
+    /// Vocabulary of the sources.
+    pub from: String,
+    /// Vocabulary of the targets.
+    pub to: String,
+    /// Rows, grouped by source (sources ascending).
+    pub rows: Vec<MapRow>,
+}
+
+/// One row of a mapping.
+#[derive(Clone, PartialEq, Eq, Debug)]
+pub struct MapRow {
+    /// Source code, undotted.
+    pub source: String,
+    /// Target code, undotted (`NoDx` for no map in the GEMs).
+    pub target: String,
+    /// The GEM flags.
+    pub flags: MapFlags,
+}
+
+/// The five GEM flags (CMS, General Equivalence Mappings documentation).
+#[derive(Clone, Copy, PartialEq, Eq, Debug, Default, Serialize)]
+pub struct MapFlags {
+    /// The target is not an exact equivalent.
+    pub approximate: bool,
+    /// The source has no target.
+    pub no_map: bool,
+    /// The source needs several targets together (one from each choice list).
+    pub combination: bool,
+    /// Which combination scenario the row belongs to (0 when none).
+    pub scenario: u8,
+    /// Which choice list of its scenario the row belongs to (0 when none).
+    pub choice_list: u8,
 }
 
 /// The shape letters of an undotted code: `A` for a letter, `9` for a digit.

@@ -87,6 +87,28 @@ fn arb_release() -> impl Strategy<Value = Release> {
                     title: "All".into(),
                     chapter: 0,
                 }],
+                mappings: vec![Mapping {
+                    name: "m".into(),
+                    title: "M".into(),
+                    from: "test".into(),
+                    to: "other".into(),
+                    rows: keys
+                        .iter()
+                        .take(5)
+                        .enumerate()
+                        .map(|(i, k)| MapRow {
+                            source: k.clone(),
+                            target: format!("T{i}"),
+                            flags: MapFlags {
+                                approximate: i % 2 == 0,
+                                no_map: false,
+                                combination: i % 3 == 0,
+                                scenario: i as u8,
+                                choice_list: 1,
+                            },
+                        })
+                        .collect(),
+                }],
                 seventh: (0..3)
                     .map(|i| SeventhRule {
                         extensions: vec![('A', format!("rule {i}"))],

@@ -5,7 +5,7 @@
 //! input error.
 
 use rollcall::systems::System;
-use rollcall::{check, compare, render, CheckOptions, Date, Index};
+use rollcall::{check_among, compare, render, CheckOptions, Date, Index, View};
 use std::io::Read;
 use std::process::ExitCode;
 
@@ -27,6 +27,8 @@ usage:
                         [--format text|json|csv] [--system NAME | --index PATH]
   rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
+  rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
+                        [--format text|json|csv]
   rollcall info [--format text|json] [--index PATH]
 
   FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
@@ -37,6 +39,8 @@ usage:
   --system   icd10cm (default), icd10pcs or icd9cm: the bundled index of that system; hpo,
              loinc, snomed, ndc, hcpcs, cpt or rxnorm: checks by shape and check digit only
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
+  translate  maps an ICD-9-CM list to ICD-10-CM, or back, with the 2015 GEMs, and judges each
+             target for the period; the first list's system is the other one
   compare    checks both lists, then compares the billable codes each reaches in the
              period; --format csv writes one row per code only one list reaches
 
@@ -67,6 +71,8 @@ struct Args {
     format: Option<String>,
     index: Option<String>,
     system: Option<String>,
+    /// translate: the target system.
+    into: Option<String>,
 }
 
 fn parse(argv: &[String]) -> Result<Args, Usage> {
@@ -91,6 +97,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--format" => a.format = Some(value()?),
             "--index" => a.index = Some(value()?),
             "--system" => a.system = Some(value()?),
+            "--into" => a.into = Some(value()?),
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
             s => a.files.push(s.to_string()),
         }
@@ -127,6 +134,25 @@ enum Loaded {
 enum Target {
     Index(Loaded),
     Shapes(System),
+}
+
+/// The bundled ICD-9-CM index, opened once.
+fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
+    static ONCE: std::sync::OnceLock<Result<Index<&'static [u8]>, String>> =
+        std::sync::OnceLock::new();
+    ONCE.get_or_init(|| Index::open(BUNDLED_ICD9).map_err(|e| e.to_string()))
+        .as_ref()
+        .map_err(|e| e.clone())
+}
+
+/// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
+/// ICD-10-CM list, so old codes in a new list are named with their targets.
+fn companions<D: AsRef<[u8]>>(i: &Index<D>) -> Result<Vec<View<'static>>, String> {
+    Ok(if i.meta().vocabulary == "icd10cm" {
+        vec![icd9()?.view()]
+    } else {
+        Vec::new()
+    })
 }
 
 fn target(a: &Args) -> Result<Target, String> {
@@ -208,8 +234,8 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             };
             let text = read_list(file)?;
             let report = match target(&a)? {
-                Target::Index(Loaded::Bundled(i)) => check(&i, &text, &opts),
-                Target::Index(Loaded::File(i, _)) => check(&i, &text, &opts),
+                Target::Index(Loaded::Bundled(i)) => check_among(&i, &companions(&i)?, &text, &opts),
+                Target::Index(Loaded::File(i, _)) => check_among(&i, &companions(&i)?, &text, &opts),
                 Target::Shapes(s) => rollcall::shapecheck::check_shapes(s, &text, &opts),
             };
             let out = match format.as_str() {
@@ -267,6 +293,34 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             } else {
                 ExitCode::from(1)
             })
+        }
+        "translate" => {
+            if !matches!(format.as_str(), "text" | "json" | "csv") {
+                return Err(format!("--format must be text, json or csv, not {format}"));
+            }
+            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let [file] = a.files.as_slice() else {
+                return Err("translate needs one list: a FILE, or - for standard input".into());
+            };
+            let text = read_list(file)?;
+            let cm = Index::open(BUNDLED).map_err(|e| e.to_string())?;
+            let t = match a.into.as_deref() {
+                Some("icd10cm") => rollcall::translate::translate(icd9()?, &cm, &text, &opts)?,
+                Some("icd9cm") => rollcall::translate::translate(&cm, icd9()?, &text, &opts)?,
+                Some(other) => {
+                    return Err(format!(
+                        "translate --into {other}: the bundled mappings go to icd10cm (from ICD-9-CM) or to icd9cm (from ICD-10-CM)"
+                    ))
+                }
+                None => return Err("translate needs --into icd10cm or --into icd9cm".into()),
+            };
+            let out = match format.as_str() {
+                "json" => serde_json::to_string_pretty(&t).map_err(|e| e.to_string())? + "\n",
+                "csv" => render::translation_csv(&t),
+                _ => render::translation_text(&t),
+            };
+            write_out(&out);
+            Ok(ExitCode::SUCCESS)
         }
         "info" => {
             if !a.files.is_empty()

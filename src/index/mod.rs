@@ -3,11 +3,14 @@
 //! checker needs (code to ordinal through an `fst` map, side tables by ordinal).
 
 mod bytes;
+mod maps;
 pub mod write;
+
+pub use maps::MapView;
 
 use crate::date::Date;
 use crate::model::{
-    Chapter, CodeEntry, Meta, Period, Release, Section, SeventhRule, Source, Successor,
+    Chapter, CodeEntry, Mapping, Meta, Period, Release, Section, SeventhRule, Source, Successor,
 };
 use crate::sha256;
 use bytes::{u32_at, In};
@@ -125,6 +128,8 @@ pub struct Index<D> {
     layout: Layout,
     meta: Meta,
     tree: Tree,
+    /// Where the MAPS section is, if there is one.
+    maps: Option<(usize, usize)>,
 }
 
 impl<D: AsRef<[u8]>> Index<D> {
@@ -178,6 +183,11 @@ impl<D: AsRef<[u8]>> Index<D> {
         let meta_at = sec(b"META", "header facts missing")?;
         let meta = read_meta(&bytes[meta_at.0..meta_at.0 + meta_at.1])
             .ok_or(IndexError::Corrupt("header facts"))?;
+        // Mappings are optional; a damaged section is refused here.
+        let maps = find.get(&b"MAPS"[..]).copied();
+        if let Some((o, n)) = maps {
+            maps::read(&bytes[o..o + n]).ok_or(IndexError::Corrupt("mappings"))?;
+        }
         let tree_at = sec(b"TREE", "chapters missing")?;
         let tree = read_tree(&bytes[tree_at.0..tree_at.0 + tree_at.1])
             .ok_or(IndexError::Corrupt("chapters"))?;
@@ -230,6 +240,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             layout,
             meta,
             tree,
+            maps,
         })
     }
 
@@ -282,6 +293,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             len: l.len,
             meta: &self.meta,
             tree: &self.tree,
+            mappings: self.maps.and_then(|m| maps::read(s(m))).unwrap_or_default(),
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
         }
@@ -312,6 +324,17 @@ impl<D: AsRef<[u8]>> Index<D> {
             chapters: self.tree.chapters.clone(),
             sections: self.tree.sections.clone(),
             seventh: self.tree.seventh.clone(),
+            mappings: v
+                .mappings()
+                .iter()
+                .map(|m| Mapping {
+                    name: m.name.to_string(),
+                    title: m.title.to_string(),
+                    from: m.from.to_string(),
+                    to: m.to.to_string(),
+                    rows: m.rows(),
+                })
+                .collect(),
         }
     }
 }
@@ -411,6 +434,7 @@ pub struct View<'a> {
     len: usize,
     meta: &'a Meta,
     tree: &'a Tree,
+    mappings: Vec<MapView<'a>>,
     predecessors: std::cell::OnceCell<std::collections::HashMap<u32, Vec<(u32, Date)>>>,
     /// Codes already known by ordinal (reading one back from the fst costs
     /// a walk; a check notes the codes it looked up).
@@ -716,6 +740,16 @@ impl<'a> View<'a> {
         } else {
             d
         }
+    }
+
+    /// The mappings the index carries (the GEMs, in the ICD-9-CM index).
+    pub fn mappings(&self) -> &[MapView<'a>] {
+        &self.mappings
+    }
+
+    /// The mapping from vocabulary `from` to `to`, if the index has one.
+    pub fn mapping(&self, from: &str, to: &str) -> Option<&MapView<'a>> {
+        self.mappings.iter().find(|m| m.from == from && m.to == to)
     }
 
     /// All chapters.

@@ -260,6 +260,12 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
         }
     }
     sections.push((*b"TREE", tree.buf));
+    if !release.mappings.is_empty() {
+        sections.push((
+            *b"MAPS",
+            super::maps::write(&release.mappings).map_err(WriteError::TooLarge)?,
+        ));
+    }
 
     Ok(assemble(&sections))
 }

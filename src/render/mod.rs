@@ -2,7 +2,9 @@
 //! a comparison (`compare`).
 
 mod compare;
+mod translate;
 pub use compare::{comparison_csv, comparison_text};
+pub use translate::{translation_csv, translation_text};
 
 use crate::report::{Report, Severity, Suggestion};
 use std::fmt::Write;

@@ -18,6 +18,14 @@ pub fn index() -> Index<Vec<u8>> {
     index
 }
 
+/// The bundled ICD-9-CM index (with the GEMs), as committed in vocab/.
+pub fn icd9_index() -> Index<Vec<u8>> {
+    let bytes = std::fs::read(root().join("vocab/icd9cm.rcx")).expect("vocab/icd9cm.rcx");
+    let index = Index::open(bytes).expect("ICD-9-CM index opens");
+    index.verify().expect("ICD-9-CM index checksum");
+    index
+}
+
 /// A gzip-compressed source file from vocab-build/sources or tests/data, as text.
 pub fn source(name: &str) -> String {
     let path = [

@@ -84,6 +84,8 @@ pub struct Inputs {
     /// Code-description files with the days each was in force.
     pub codefiles: Vec<(Period, Vec<(String, String)>)>,
     pub conversion: Vec<conversion::Row>,
+    /// Mappings to or from other vocabularies (the GEMs), rows sorted by source.
+    pub mappings: Vec<rollcall::model::Mapping>,
 }
 
 /// Builds the release model; `progress` receives one line per step.
@@ -311,6 +313,7 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         chapters,
         sections,
         seventh: rules,
+        mappings: inp.mappings,
     }
 }
 

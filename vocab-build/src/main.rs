@@ -8,6 +8,7 @@ mod assemble;
 mod codefile;
 mod conversion;
 mod error;
+mod gems;
 mod history;
 mod order;
 mod tabular;
@@ -35,6 +36,7 @@ files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in 
   --order FILE@PERIOD          CMS order file (fixed width; flag 1 billable, 0 header)
   --codes FILE@PERIOD          CMS code-description file (billable codes)
   --conversion FILE            CMS conversion table (effective_date, current_code, previous_code)
+  --gems FILE                  a General Equivalence Mappings CSV (either direction), kept in the index
 
 Without --history, billable dates come from the order and code files' periods.
 --vocabulary icd10pcs builds an ICD-10-PCS index: no dots, and the hierarchy by
@@ -130,6 +132,7 @@ enum Arg {
     Order(PathBuf, Period),
     Codes(PathBuf, Period),
     Conversion(PathBuf),
+    Gems(PathBuf),
 }
 
 fn bundled(dir: &Path) -> Vec<Arg> {
@@ -165,13 +168,17 @@ fn bundled(dir: &Path) -> Vec<Arg> {
 /// for FY2015, the last year before the system was retired on 2015-10-01
 /// (HHS final rule, 79 FR 45128).
 fn bundled_icd9(dir: &Path) -> Vec<Arg> {
-    vec![Arg::Codes(
-        dir.join("CMS32_DESC_LONG_DX.txt.gz"),
-        Period::new(
-            Date::parse("2014-10-01").unwrap(),
-            Date::parse("2015-09-30").unwrap(),
+    vec![
+        Arg::Codes(
+            dir.join("CMS32_DESC_LONG_DX.txt.gz"),
+            Period::new(
+                Date::parse("2014-10-01").unwrap(),
+                Date::parse("2015-09-30").unwrap(),
+            ),
         ),
-    )]
+        Arg::Gems(dir.join("icd9cm-to-icd10cm-gem-2015.csv.gz")),
+        Arg::Gems(dir.join("icd10cm-to-icd9cm-gem-2015.csv.gz")),
+    ]
 }
 
 /// The bundled ICD-10-PCS recipe: the history gives the billable dates, the
@@ -228,6 +235,7 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             }
             "--history" => out.push(Arg::History(val()?.into())),
             "--conversion" => out.push(Arg::Conversion(val()?.into())),
+            "--gems" => out.push(Arg::Gems(val()?.into())),
             "--tabular" => {
                 let (f, p) = dated(val()?)?;
                 out.push(Arg::Tabular(f, p))
@@ -360,6 +368,13 @@ fn build(
                 let rows = codefile::parse(&l.name, &l.text).map_err(e)?;
                 eprintln!("read {}: {} billable codes", l.name, rows.len());
                 inp.codefiles.push((*p, rows));
+                inp.sources.push(l.source);
+            }
+            Arg::Gems(f) => {
+                let l = load(f, "mapping to or from another vocabulary", sums).map_err(e)?;
+                let m = gems::parse(&l.name, &l.text).map_err(e)?;
+                eprintln!("read {}: {} ({} rows)", l.name, m.title, m.rows.len());
+                inp.mappings.push(m);
                 inp.sources.push(l.source);
             }
             Arg::Conversion(f) => {

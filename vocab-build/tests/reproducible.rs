@@ -100,6 +100,10 @@ fn rebuilding_the_bundled_icd9_index_gives_the_committed_bytes() {
             "{}@2014-10-01..2015-09-30",
             dir.join("CMS32_DESC_LONG_DX.txt.gz").display()
         ))
+        .arg("--gems")
+        .arg(dir.join("icd9cm-to-icd10cm-gem-2015.csv.gz"))
+        .arg("--gems")
+        .arg(dir.join("icd10cm-to-icd9cm-gem-2015.csv.gz"))
         .args(["--out", out.to_str().unwrap()])
         .status()
         .unwrap();

@@ -1,0 +1,159 @@
+//! The 2015 GEMs kept in the ICD-9-CM index, and translation, against the
+//! official GEM files (CMS, icd9cm-to-icd10cm-gem-2015 and
+//! icd10cm-to-icd9cm-gem-2015, as CSV).
+
+mod common;
+
+use common::*;
+use rollcall::translate::{translate, Outcome};
+use rollcall::{check_among, Kind, Status};
+use std::collections::BTreeSet;
+
+struct Row {
+    source: String,
+    target: String,
+    flags: String,
+}
+
+fn gem_file(name: &str) -> Vec<Row> {
+    source(name)
+        .lines()
+        .skip(1)
+        .map(|l| {
+            let f: Vec<String> = l
+                .split(',')
+                .map(|x| x.trim_matches('"').to_string())
+                .collect();
+            Row {
+                source: f[0].clone(),
+                target: f[1].clone(),
+                flags: f[2].clone(),
+            }
+        })
+        .collect()
+}
+
+fn flags_of(r: &rollcall::model::MapRow) -> String {
+    let f = r.flags;
+    format!(
+        "{}{}{}{}{}",
+        f.approximate as u8, f.no_map as u8, f.combination as u8, f.scenario, f.choice_list
+    )
+}
+
+/// Every row of both official files is in the index, with its flags.
+/// Source: ../shared/vocab/README.md row counts (23,912 forward, 78,838 backward).
+#[test]
+fn every_official_row_is_kept_with_its_flags() {
+    let index = icd9_index();
+    let v = index.view();
+    for (file, from, to, n) in [
+        (
+            "icd9cm-to-icd10cm-gem-2015.csv.gz",
+            "icd9cm",
+            "icd10cm",
+            23_912,
+        ),
+        (
+            "icd10cm-to-icd9cm-gem-2015.csv.gz",
+            "icd10cm",
+            "icd9cm",
+            78_838,
+        ),
+    ] {
+        let rows = gem_file(file);
+        assert_eq!(rows.len(), n, "{file}");
+        let m = v.mapping(from, to).expect("mapping kept");
+        let kept = m.rows();
+        assert_eq!(kept.len(), n);
+        let want: BTreeSet<(String, String, String)> = rows
+            .into_iter()
+            .map(|r| (r.source, r.target, r.flags))
+            .collect();
+        let got: BTreeSet<(String, String, String)> = kept
+            .iter()
+            .map(|r| (r.source.clone(), r.target.clone(), flags_of(r)))
+            .collect();
+        assert_eq!(got, want, "{file}");
+    }
+}
+
+/// Source: ../shared/vocab/README.md: the 2015 GEMs name 9 ICD-10-CM codes
+/// that were dropped before FY2016 (so no release from 2015-10-01 has them).
+#[test]
+fn nine_gem_targets_are_in_no_icd10cm_release() {
+    let cm = index();
+    let v = cm.view();
+    let mut codes: BTreeSet<String> = gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz")
+        .into_iter()
+        .map(|r| r.target)
+        .collect();
+    codes.extend(
+        gem_file("icd10cm-to-icd9cm-gem-2015.csv.gz")
+            .into_iter()
+            .map(|r| r.source),
+    );
+    codes.remove("NoDx");
+    let missing: Vec<&String> = codes.iter().filter(|c| v.ordinal(c).is_none()).collect();
+    assert_eq!(missing.len(), 9, "{missing:?}");
+}
+
+/// Rows of the official forward file: 0020 -> A0100 approximate (10000);
+/// V5867 -> Z794 exact (00000); a no-map row (flags 11000) and a combination
+/// row (flags 1x1..), taken from the file itself.
+#[test]
+fn translation_follows_the_official_rows() {
+    let (i9, cm) = (icd9_index(), index());
+    let rows = gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz");
+    let no_map = rows
+        .iter()
+        .find(|r| r.flags == "11000")
+        .expect("a no-map row");
+    let comb = rows
+        .iter()
+        .find(|r| r.flags.as_bytes()[2] == b'1')
+        .expect("a combination row");
+    let comb_targets: Vec<&str> = rows
+        .iter()
+        .filter(|r| r.source == comb.source)
+        .map(|r| r.target.as_str())
+        .collect();
+    let list = format!("0020\nV58.67\n{}\n{}\nE11.9\n", no_map.source, comb.source);
+    let t = translate(&i9, &cm, &list, &period("2016-01-01", "2016-12-31")).unwrap();
+    assert_eq!(t.entries[0].outcome, Outcome::Approximate);
+    assert_eq!(t.entries[0].targets[0].code, "A01.00");
+    assert_eq!(t.entries[1].outcome, Outcome::Exact);
+    assert_eq!(t.entries[1].targets[0].code, "Z79.4");
+    assert_eq!(t.entries[1].targets[0].status, "valid");
+    assert_eq!(t.entries[2].outcome, Outcome::NoMap);
+    assert!(t.entries[2].targets.is_empty());
+    assert_eq!(t.entries[3].outcome, Outcome::Combination);
+    let got: Vec<String> = t.entries[3]
+        .targets
+        .iter()
+        .map(|x| x.code.replace('.', ""))
+        .collect();
+    assert_eq!(got, comb_targets);
+    assert_eq!(t.entries[4].outcome, Outcome::NotInSource);
+
+    // And back: E11.9 to 250.00 (backward file: E119 -> 25000).
+    let back = translate(&cm, &i9, "E11.9\n", &on("2015-01-01")).unwrap();
+    assert!(back.entries[0].targets.iter().any(|x| x.code == "250.00"));
+}
+
+/// An ICD-9-CM code in an ICD-10-CM list: other-system, with the GEM
+/// targets as suggestions (forward file: 25000 -> E119, approximate).
+#[test]
+fn an_old_code_in_a_new_list_gets_its_gem_targets() {
+    let (i9, cm) = (icd9_index(), index());
+    let r = check_among(&cm, &[i9.view()], "250.00\nE88.00\n", &on("2020-01-01"));
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::OtherSystem);
+    assert_eq!(e.system.as_deref(), Some("icd9cm"));
+    let f = &e.findings[0];
+    assert_eq!(f.kind, Kind::OtherSystem);
+    assert_eq!(f.suggestions[0].code, "E11.9");
+    assert!(f.suggestions[0].reason.contains("approximate"));
+    // E88.00 is dotted the ICD-10-CM way: not read as the ICD-9-CM E880.0.
+    assert_ne!(r.entries[1].system.as_deref(), Some("icd9cm"));
+}
