@@ -394,10 +394,44 @@ fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<S
 
 /// Findings already made in this check, by code: a list that repeats a code
 /// gets the same judgement for each line without redoing it.
-#[derive(Default)]
 struct Memo {
     dates: OrdMap<(Status, Vec<Finding>)>,
-    unknown: HashMap<String, Finding>,
+    unknown: HashMap<(String, Option<String>), Finding>,
+    /// Labels that may still be searched for codes ([`crate::label::SEARCH_LIMIT`]).
+    label_searches: usize,
+}
+
+impl Default for Memo {
+    fn default() -> Memo {
+        Memo {
+            dates: OrdMap::default(),
+            unknown: HashMap::new(),
+            label_searches: crate::label::SEARCH_LIMIT,
+        }
+    }
+}
+
+/// Codes the label of an unknown or malformed entry points to, as suggestions.
+fn label_suggestions(
+    view: &View<'_>,
+    label: Option<&str>,
+    written: &str,
+    period: &Period,
+    extra: &[u32],
+    memo: &mut Memo,
+) -> Vec<Suggestion> {
+    let Some(label) = label else {
+        return Vec::new();
+    };
+    if memo.label_searches == 0 || crate::words::words(label).is_empty() {
+        return Vec::new();
+    }
+    memo.label_searches -= 1;
+    crate::label::candidates(view, label, written, period, extra)
+        .into_iter()
+        .take(crate::label::SUGGESTED)
+        .map(|(o, f)| suggestion(view, o, crate::label::reason(view, &f, written, o)))
+        .collect()
 }
 
 #[allow(clippy::too_many_arguments)]
@@ -423,8 +457,13 @@ fn judge(
         }
         Item::Malformed(reason) => {
             e.status = Status::Malformed;
+            let written = match &e.input.split(['\t', ',', ' ']).next() {
+                Some(w) => w.trim().to_ascii_uppercase().replace('.', ""),
+                None => String::new(),
+            };
+            let sugg = label_suggestions(view, e.label.as_deref(), &written, period, &[], memo);
             e.findings
-                .push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
+                .push(finding(Kind::Malformed, Severity::Error, reason, sugg));
         }
         Item::BadPattern(m) => {
             e.status = Status::Malformed;
@@ -473,13 +512,26 @@ fn judge(
                 msg.push_str(&extra);
             }
             let mut sugg = Vec::new();
-            if let Some(f) = memo.unknown.get(&c) {
+            let key = (c.clone(), e.label.clone());
+            if let Some(f) = memo.unknown.get(&key) {
                 e.findings.push(f.clone());
                 return;
             }
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
                 let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
+                let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
+                sugg = label_suggestions(view, e.label.as_deref(), &c, period, &near_ords, memo);
+                if !sugg.is_empty() {
+                    msg.push_str(&format!("; its label fits {} best", sugg[0].code));
+                }
+                let near: Vec<(u32, u8)> = near
+                    .into_iter()
+                    .filter(|(o, _)| {
+                        let shown = view.display(&view.code(*o));
+                        !sugg.iter().any(|s| s.code == shown)
+                    })
+                    .collect();
                 for (o, d) in near {
                     let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
                     let live = view.billable_in(o, period);
@@ -499,16 +551,17 @@ fn judge(
                     }
                     sugg.push(suggestion(view, o, why));
                 }
-                if sugg.is_empty() {
+                if near_ords.is_empty() {
                     msg.push_str("; no code is within two characters of it");
                 }
+                sugg.truncate(8);
             } else {
                 msg.push_str(&format!(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
                 ));
             }
             let f = finding(Kind::Unknown, Severity::Error, msg, sugg);
-            memo.unknown.insert(c, f.clone());
+            memo.unknown.insert(key, f.clone());
             e.findings.push(f);
         }
         Item::Code {
@@ -543,6 +596,13 @@ fn judge(
             }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);
+            }
+            if let Some(label) = e.label.clone() {
+                let left = &mut memo.label_searches;
+                if let Some((msg, sugg)) = crate::label::mismatch(view, &label, ord, period, left) {
+                    e.findings
+                        .push(finding(Kind::LabelMismatch, Severity::Warning, msg, sugg));
+                }
             }
         }
     }

@@ -9,6 +9,9 @@
 //!   (billable and header spans, parent and subtree, successors, descriptions).
 //! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
+//! - [`words`] normalises description and label words; [`search`] ranks
+//!   codes for words over the index's word map (BM25, prefix and edit-distance
+//!   matching).
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -21,12 +24,15 @@ pub mod code;
 pub mod date;
 pub mod index;
 pub mod input;
+pub mod label;
 pub mod listcheck;
 pub mod model;
 pub mod pattern;
 pub mod render;
 pub mod report;
+pub mod search;
 pub mod sha256;
+pub mod words;
 
 pub use check::{check, check_with_coverage, timeline, CategoryCoverage, CheckOptions};
 pub use date::{Date, DateError};

@@ -59,6 +59,8 @@ pub enum Kind {
     Pattern,
     /// A pattern or range that matches nothing in the period.
     PatternEmpty,
+    /// The label written beside a code does not fit its official description.
+    LabelMismatch,
 }
 
 impl Kind {
@@ -78,6 +80,7 @@ impl Kind {
             Kind::SiblingGap => "sibling-gap",
             Kind::Pattern => "pattern",
             Kind::PatternEmpty => "pattern-empty",
+            Kind::LabelMismatch => "label-mismatch",
         }
     }
 }
