@@ -411,15 +411,15 @@ impl Default for Memo {
     }
 }
 
-/// Codes the label of an unknown or malformed entry points to, as suggestions.
-fn label_suggestions(
+/// Codes the label of an unknown or malformed entry points to, with why.
+fn label_candidates(
     view: &View<'_>,
     label: Option<&str>,
     written: &str,
     period: &Period,
     extra: &[u32],
     memo: &mut Memo,
-) -> Vec<Suggestion> {
+) -> Vec<(u32, String)> {
     let Some(label) = label else {
         return Vec::new();
     };
@@ -430,7 +430,7 @@ fn label_suggestions(
     crate::label::candidates(view, label, written, period, extra)
         .into_iter()
         .take(crate::label::SUGGESTED)
-        .map(|(o, f)| suggestion(view, o, crate::label::reason(view, &f, written, o)))
+        .map(|(o, f)| (o, crate::label::reason(view, &f, written, o)))
         .collect()
 }
 
@@ -461,7 +461,10 @@ fn judge(
                 Some(w) => w.trim().to_ascii_uppercase().replace('.', ""),
                 None => String::new(),
             };
-            let sugg = label_suggestions(view, e.label.as_deref(), &written, period, &[], memo);
+            let sugg = label_candidates(view, e.label.as_deref(), &written, period, &[], memo)
+                .into_iter()
+                .map(|(o, why)| suggestion(view, o, why))
+                .collect();
             e.findings
                 .push(finding(Kind::Malformed, Severity::Error, reason, sugg));
         }
@@ -521,17 +524,7 @@ fn judge(
                 *suggestions_left -= 1;
                 let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
                 let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
-                sugg = label_suggestions(view, e.label.as_deref(), &c, period, &near_ords, memo);
-                if !sugg.is_empty() {
-                    msg.push_str(&format!("; its label fits {} best", sugg[0].code));
-                }
-                let near: Vec<(u32, u8)> = near
-                    .into_iter()
-                    .filter(|(o, _)| {
-                        let shown = view.display(&view.code(*o));
-                        !sugg.iter().any(|s| s.code == shown)
-                    })
-                    .collect();
+                let mut near_why: Vec<(u32, String)> = Vec::new();
                 for (o, d) in near {
                     let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
                     let live = view.billable_in(o, period);
@@ -549,6 +542,25 @@ fn judge(
                     if !live {
                         why.push_str(", but not billable in the period");
                     }
+                    near_why.push((o, why));
+                }
+                // Codes the label fits come first; a near code among them keeps both reasons.
+                for (o, why) in
+                    label_candidates(view, e.label.as_deref(), &c, period, &near_ords, memo)
+                {
+                    match near_why.iter().position(|(n, _)| *n == o) {
+                        Some(i) => {
+                            let (_, near) = near_why.remove(i);
+                            let why = why.replace(", same category", "");
+                            sugg.push(suggestion(view, o, format!("{near}; {why}")));
+                        }
+                        None => sugg.push(suggestion(view, o, why)),
+                    }
+                }
+                if !sugg.is_empty() {
+                    msg.push_str(&format!("; its label fits {} best", sugg[0].code));
+                }
+                for (o, why) in near_why {
                     sugg.push(suggestion(view, o, why));
                 }
                 if near_ords.is_empty() {

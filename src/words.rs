@@ -43,7 +43,7 @@ pub const ABBREVIATIONS: &[(&str, &str)] = &[
 /// ```
 /// use rollcall::words::words;
 /// assert_eq!(words("Type 2 DM w/o complications"),
-///            ["type", "2", "diabetes", "mellitu", "without", "complication"]);
+///            ["type", "2", "diabete", "mellitus", "without", "complication"]);
 /// ```
 pub fn words(text: &str) -> Vec<String> {
     let mut out = Vec::new();
@@ -159,6 +159,6 @@ mod tests {
             ["fracture", "femur", "closed"]
         );
         assert_eq!(words("Abscess; diabetes"), ["abscess", "diabete"]);
-        assert_eq!(words("DM w/o"), ["diabetes", "mellitu", "without"]);
+        assert_eq!(words("DM w/o"), ["diabete", "mellitus", "without"]);
     }
 }

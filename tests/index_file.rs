@@ -32,7 +32,7 @@ fn a_wrong_version_names_both_versions() {
     assert_eq!(
         err,
         IndexError::Version {
-            expected: 1,
+            expected: 2,
             got: 9
         }
     );
@@ -78,10 +78,22 @@ fn damaged_files_never_panic() {
             let _ = idx.verify();
             let r = check(
                 &idx,
-                "E11.9\nE11.56\nI10\nE11.*\nC43.11\nI60.20\n",
+                "E11.9\tType 2 diabetes mellitus with hyperglycemia\nE11.56\tType 2 diabetes\nI10\tHTN\n\
+                 E11.*\nC43.11\nI60.20\n",
                 &on("2026-01-01"),
             );
             assert_eq!(r.summary.lines, 6);
+            let v = idx.view();
+            let opts = rollcall::search::SearchOptions {
+                limit: 5,
+                prefix_last: true,
+                ..Default::default()
+            };
+            for q in ["diabetes hyperglycemia", "diabtes", "chronic kidn"] {
+                for h in rollcall::search::search(&v, q, &opts) {
+                    let _ = rollcall::search::fit(&v, q, h.ord);
+                }
+            }
         }
     }
 }

@@ -197,8 +197,12 @@ impl<D: AsRef<[u8]>> Index<D> {
         let doff = sec(b"DOFF", "descriptions missing")?;
         let desc = sec(b"DESC", "descriptions missing")?;
         let wfst = sec(b"WFST", "word map missing")?;
+        // The word map is walked by automata, which trust its nodes: its own
+        // checksum (CRC-32C) is checked here so a damaged one is refused.
         fst::Map::new(&bytes[wfst.0..wfst.0 + wfst.1])
-            .map_err(|_| IndexError::Corrupt("word map"))?;
+            .ok()
+            .filter(|m| m.as_fst().verify().is_ok())
+            .ok_or(IndexError::Corrupt("word map"))?;
         let post = sec(b"POST", "word postings missing")?;
         let wlen = sec(b"WLEN", "word counts missing")?;
         let rec_blocks = len.div_ceil(REC_BLOCK);
