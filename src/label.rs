@@ -8,13 +8,13 @@ use crate::model::Period;
 use crate::report::Suggestion;
 use crate::search::{self, Fit, SearchOptions};
 
-/// A label whose words are at least this share (by rarity) in the code's
-/// wordings fits: no finding, and no search.
-pub const FITS: f32 = 0.8;
+/// A label with every word (this share, by rarity) in the code's wordings
+/// fits: no finding, and no search.
+pub const FITS: f32 = 0.99;
 /// Below this share the label does not fit, whatever else fits it.
 pub const POOR: f32 = 0.5;
-/// Between [`POOR`] and [`FITS`], the label does not fit when another code
-/// fits it by at least this much more.
+/// From [`POOR`] up to [`FITS`], the label does not fit when another code
+/// fits it by at least this much more, or has every word of it.
 pub const BETTER_BY: f32 = 0.25;
 /// A code is suggested for a label only when the label fits it at least this well.
 pub const CONFIDENT: f32 = 0.75;
@@ -105,7 +105,7 @@ pub fn mismatch(
         Vec::new()
     };
     let best = better.first().map_or(0.0, |(_, f)| f.label);
-    if given.label >= POOR && best < given.label + BETTER_BY {
+    if given.label >= POOR && best < given.label + BETTER_BY && best < FITS {
         return None;
     }
     let shown = view.display(&code);

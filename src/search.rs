@@ -166,13 +166,28 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     let mut touched: Vec<u32> = Vec::new();
     let mut any: Vec<u32> = Vec::new();
     let mut weights = Vec::with_capacity(q.len());
-    for (i, w) in q.iter().enumerate() {
-        let vs = variants(view, w, opts.prefix_last && i + 1 == q.len());
+    let vs: Vec<Vec<(u64, f32)>> = q
+        .iter()
+        .enumerate()
+        .map(|(i, w)| variants(view, w, opts.prefix_last && i + 1 == q.len()))
+        .collect();
+    // Words in more than a tenth of the codes (`encounter`, `unspecified`)
+    // only pick candidates when the query has no rarer word; they still count
+    // in the re-ranking below. Their long posting lists cost the most time.
+    let common = n / 10;
+    let df = |off: u64| view.posting(off).count;
+    let is_common = |v: &Vec<(u64, f32)>| v.iter().all(|&(off, _)| df(off) > common);
+    let any_rare = vs.iter().any(|v| !v.is_empty() && !is_common(v));
+    for v in &vs {
+        let skip = any_rare && is_common(v);
         let mut wmax = 0f32;
-        for (off, weight) in vs {
+        for &(off, weight) in v {
             let p = view.posting(off);
             let wi = weight * idf(n, p.count);
             wmax = wmax.max(wi);
+            if skip {
+                continue;
+            }
             for o in p {
                 let dl = view.word_count(o) as f32;
                 let s = wi * (K1 + 1.0) / (1.0 + K1 * (1.0 - B + B * dl / avg));
@@ -204,11 +219,12 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     });
     any.truncate(RERANK);
     let total: f32 = weights.iter().sum();
+    let mut idf_cache = std::collections::HashMap::new();
     let mut hits: Vec<Hit> = any
         .into_iter()
         .map(|o| {
             let desc = words::words(&view.description(o));
-            let f = fit_words(view, &q, &weights, &desc, o, false);
+            let f = fit_words(view, &q, &weights, &desc, o, false, &mut idf_cache);
             let mut s = score[o as usize] / total.max(1e-6);
             s += 0.6 * f.label + 0.5 * f.description + 0.2 * phrase(&q, &desc);
             if let Some(p) = &opts.period {
@@ -256,6 +272,7 @@ fn fit_words(
     desc: &[String],
     ord: u32,
     other_wordings: bool,
+    idf_cache: &mut std::collections::HashMap<String, f32>,
 ) -> Fit {
     let n = view.len() as u32;
     let mut have = 0f32;
@@ -275,7 +292,14 @@ fn fit_words(
         if !dseen.insert(d) {
             continue;
         }
-        let wt = idf(n, view.word_codes(d).max(1));
+        let wt = match idf_cache.get(d.as_str()) {
+            Some(&w) => w,
+            None => {
+                let w = idf(n, view.word_codes(d).max(1));
+                idf_cache.insert(d.clone(), w);
+                w
+            }
+        };
         dall += wt;
         dhave += wt * q.iter().map(|w| same_word(w, d)).fold(0.0, f32::max);
     }
@@ -308,7 +332,15 @@ pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
         .map(|w| idf(n, view.word_codes(w).max(1)))
         .collect();
     let desc = words::words(&view.description(ord));
-    fit_words(view, &q, &weights, &desc, ord, true)
+    fit_words(
+        view,
+        &q,
+        &weights,
+        &desc,
+        ord,
+        true,
+        &mut Default::default(),
+    )
 }
 
 #[cfg(test)]
