@@ -4,11 +4,13 @@
 //! re-ranked by how well their official description fits the query (whole
 //! phrases, few words left over). [`fit`] scores one label against one code.
 
+use crate::date::Date;
 use crate::index::View;
 use crate::model::Period;
 use crate::words;
 use fst::automaton::{Levenshtein, Str};
 use fst::{Automaton, IntoStreamer, Streamer};
+use serde::Serialize;
 
 /// BM25 constants (the usual defaults, common practice).
 const K1: f32 = 1.2;
@@ -163,6 +165,10 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     let avg = view.mean_word_count();
     let mut score = vec![0f32; view.len()];
     let mut best = vec![0f32; view.len()];
+    // Per code: the weight of the query words found in any of its wordings.
+    let mut cover = vec![0f32; view.len()];
+    let mut best_w = vec![0f32; view.len()];
+    let mut skipped = Vec::with_capacity(q.len());
     let mut touched: Vec<u32> = Vec::new();
     let mut any: Vec<u32> = Vec::new();
     let mut weights = Vec::with_capacity(q.len());
@@ -180,6 +186,7 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     let any_rare = vs.iter().any(|v| !v.is_empty() && !is_common(v));
     for v in &vs {
         let skip = any_rare && is_common(v);
+        skipped.push(skip);
         let mut wmax = 0f32;
         for &(off, weight) in v {
             let p = view.posting(off);
@@ -198,6 +205,8 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
                 if s > *b {
                     *b = s;
                 }
+                let bw = &mut best_w[o as usize];
+                *bw = bw.max(wi);
             }
         }
         weights.push(wmax.max(idf(n, 1) * 0.5));
@@ -208,6 +217,8 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
             }
             *s += best[o as usize];
             best[o as usize] = 0.0;
+            cover[o as usize] += best_w[o as usize];
+            best_w[o as usize] = 0.0;
         }
         touched.clear();
     }
@@ -224,7 +235,18 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
         .into_iter()
         .map(|o| {
             let desc = words::words(&view.description(o));
-            let f = fit_words(view, &q, &weights, &desc, o, false, &mut idf_cache);
+            let mut f = fit_words(view, &q, &weights, &desc, o, false, &mut idf_cache);
+            // Words found in other wordings (inclusion terms) count too.
+            let common_found: f32 = q
+                .iter()
+                .zip(&weights)
+                .zip(&skipped)
+                .filter(|((w, _), &sk)| sk && desc.iter().any(|d| same_word(w, d) > 0.0))
+                .map(|((_, wt), _)| *wt)
+                .sum();
+            f.label = f
+                .label
+                .max(((cover[o as usize] + common_found) / total).min(1.0));
             let mut s = score[o as usize] / total.max(1e-6);
             s += 0.6 * f.label + 0.5 * f.description + 0.2 * phrase(&q, &desc);
             if let Some(p) = &opts.period {
@@ -341,6 +363,58 @@ pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
         true,
         &mut Default::default(),
     )
+}
+
+/// A code found by [`find`], ready to show (its JSON form is part of the
+/// `rollcall find --format json` output and the page's search results).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Found {
+    /// The code, dotted (`E11.65`).
+    pub code: String,
+    /// Its official description.
+    pub description: String,
+    /// On the day asked about: `billable`, `header`, or `not-in-use`.
+    pub status: &'static str,
+    /// First day it was billable, if ever.
+    pub billable_from: Option<Date>,
+    /// Last day it was billable, if ever (the end of the index's coverage
+    /// when it still is).
+    pub billable_to: Option<Date>,
+    /// Share of the query's words found in its description (0 to 1, two decimals).
+    pub fit: f64,
+}
+
+/// Codes for the words of `query` as of `day`, best first; the last word is
+/// taken as a prefix when `typing` (search as you type). Codes in use on
+/// `day` are preferred.
+pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Vec<Found> {
+    let opts = SearchOptions {
+        limit,
+        prefix_last: typing,
+        period: Some(Period::new(day, day)),
+        near: None,
+    };
+    search(view, query, &opts)
+        .into_iter()
+        .map(|h| {
+            let o = h.ord;
+            let status = if view.billable(o).any(|p| p.contains(day)) {
+                "billable"
+            } else if view.header(o).any(|p| p.contains(day)) {
+                "header"
+            } else {
+                "not-in-use"
+            };
+            Found {
+                code: view.display(&view.code(o)),
+                description: view.description(o),
+                status,
+                billable_from: view.billable(o).map(|p| p.from).min(),
+                billable_to: view.billable(o).map(|p| p.to).max(),
+                fit: (h.fit.label as f64 * 100.0).round() / 100.0,
+            }
+        })
+        .collect()
 }
 
 #[cfg(test)]

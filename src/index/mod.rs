@@ -738,7 +738,7 @@ impl<'a> View<'a> {
         self.words.get(word).map_or(0, |o| self.posting(o).count)
     }
 
-    /// Number of distinct words of a code (description and other wordings).
+    /// Number of distinct words of a code's description.
     pub fn word_count(&self, ord: u32) -> u32 {
         self.wlen.get(ord as usize).copied().unwrap_or(0) as u32
     }

@@ -250,18 +250,19 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
 /// [`crate::words`]) of the descriptions and other wordings to the offset of
 /// its posting list in `POST`; a posting list is the number of codes, then
 /// their ordinals as varint gaps (the first from zero). `WLEN` holds each
-/// code's number of distinct words, capped at 255 (for BM25's length norm).
+/// number of distinct words of each code's description, capped at 255 (for
+/// BM25's length norm: a code with many other wordings is not a longer text).
 fn word_map(release: &Release) -> Result<(Vec<u8>, Vec<u8>, Vec<u8>), WriteError> {
     let mut postings: std::collections::BTreeMap<String, Vec<u32>> = Default::default();
     let mut wlen = Vec::with_capacity(release.codes.len());
     for (i, c) in release.codes.iter().enumerate() {
-        let mut w = crate::words::words(&c.description);
+        let mut w = crate::words::distinct(&c.description);
+        wlen.push(w.len().min(255) as u8);
         for t in &c.terms {
             w.extend(crate::words::words(t));
         }
         w.sort();
         w.dedup();
-        wlen.push(w.len().min(255) as u8);
         for word in w {
             postings.entry(word).or_default().push(i as u32);
         }
