@@ -10,4 +10,4 @@ cd "$E2E"
 (cd "$ROOT" && cargo build --release --quiet -p rollcall --bin rollcall)
 bash "$ROOT/web/build.sh"
 mkdir -p out
-node --test --test-concurrency=1 --test-reporter=spec page.test.mjs
+node --test --test-concurrency=1 --test-reporter=spec page.test.mjs search.test.mjs

@@ -5,6 +5,7 @@ import { fileToLines } from "./inputs.js";
 import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
+import { initSearch } from "./search.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -601,9 +602,17 @@ function wire() {
   });
 }
 
+/** The word search adds a result as a new last line of the list. */
+function addFromSearch(code, description) {
+  const text = $("list").value;
+  const after = text.replace(/\n$/, "") === "" ? 0 : text.replace(/\n$/, "").split("\n").length;
+  return applyEdits([{ op: "add", after, code, label: description }], `Added ${code}.`);
+}
+
 async function main() {
   document.body.dataset.state = "loading";
   wire();
+  initSearch({ ask, addToList: addFromSearch });
   syncModeFields();
   const restored = restoreLink();
   let info;

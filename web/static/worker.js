@@ -10,6 +10,8 @@
 //   <- {id, ok: true, result: string}   (the list with the edits applied)
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
+//   -> {id, type: "find", query: string, limit: number}
+//   <- {id, ok: true, result: {query, date, results: Found[]}}
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen */
 "use strict";
@@ -83,6 +85,10 @@ self.onmessage = async (event) => {
         break;
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
+        break;
+      case "find":
+        if (!checker) throw new Error("the index is not loaded");
+        result = JSON.parse(checker.find(String(msg.query ?? ""), Number(msg.limit) || 10));
         break;
       default:
         throw new Error(`unknown request “${msg.type}”`);
