@@ -397,6 +397,8 @@ fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<S
 struct Memo {
     dates: OrdMap<(Status, Vec<Finding>)>,
     unknown: HashMap<(String, Option<String>), Finding>,
+    /// The label check of a code and label already judged.
+    labels: HashMap<(u32, String), Option<Finding>>,
     /// Labels that may still be searched for codes ([`crate::label::SEARCH_LIMIT`]).
     label_searches: usize,
 }
@@ -406,6 +408,7 @@ impl Default for Memo {
         Memo {
             dates: OrdMap::default(),
             unknown: HashMap::new(),
+            labels: HashMap::new(),
             label_searches: crate::label::SEARCH_LIMIT,
         }
     }
@@ -461,12 +464,19 @@ fn judge(
                 Some(w) => w.trim().to_ascii_uppercase().replace('.', ""),
                 None => String::new(),
             };
+            // The same cell and label on many lines is judged once.
+            let key = (format!("malformed {written}"), e.label.clone());
+            if let Some(f) = memo.unknown.get(&key) {
+                e.findings.push(f.clone());
+                return;
+            }
             let sugg = label_candidates(view, e.label.as_deref(), &written, period, &[], memo)
                 .into_iter()
                 .map(|(o, why)| suggestion(view, o, why))
                 .collect();
-            e.findings
-                .push(finding(Kind::Malformed, Severity::Error, reason, sugg));
+            let f = finding(Kind::Malformed, Severity::Error, reason, sugg);
+            memo.unknown.insert(key, f.clone());
+            e.findings.push(f);
         }
         Item::BadPattern(m) => {
             e.status = Status::Malformed;
@@ -610,11 +620,21 @@ fn judge(
                 e.findings.push(f);
             }
             if let Some(label) = e.label.clone() {
-                let left = &mut memo.label_searches;
-                if let Some((msg, sugg)) = crate::label::mismatch(view, &label, ord, period, left) {
-                    e.findings
-                        .push(finding(Kind::LabelMismatch, Severity::Warning, msg, sugg));
-                }
+                let key = (ord, label);
+                let f = match memo.labels.get(&key) {
+                    Some(f) => f.clone(),
+                    None => {
+                        let left = &mut memo.label_searches;
+                        let f = crate::label::mismatch(view, &key.1, ord, period, left).map(
+                            |(msg, sugg)| {
+                                finding(Kind::LabelMismatch, Severity::Warning, msg, sugg)
+                            },
+                        );
+                        memo.labels.insert(key, f.clone());
+                        f
+                    }
+                };
+                e.findings.extend(f);
             }
         }
     }

@@ -53,7 +53,12 @@ fn official_descriptions_fit_their_codes() {
         .map(|e| e.input.clone())
         .collect();
     assert_eq!(r.summary.entries, 1_852);
-    assert!(bad.is_empty(), "{} mismatches: {:?}", bad.len(), &bad[..bad.len().min(5)]);
+    assert!(
+        bad.is_empty(),
+        "{} mismatches: {:?}",
+        bad.len(),
+        &bad[..bad.len().min(5)]
+    );
 }
 
 /// Source: the FY2024 code-description file. Each pair is a code written
@@ -63,14 +68,18 @@ fn official_descriptions_fit_their_codes() {
 fn a_sibling_s_description_suggests_the_sibling_first() {
     let d = fy2024();
     for (written, meant) in [
-        ("E119", "E1165"),    // without complications / with hyperglycemia
-        ("I5032", "I5022"),   // chronic diastolic / chronic systolic heart failure
-        ("J441", "J440"),     // COPD with exacerbation / with acute lower respiratory infection
-        ("N183", "N184"),     // not billable in 2024 (N18.3 split); stage 3 / stage 4
-        ("K5090", "K5190"),   // Crohn's / ulcerative colitis, unspecified, another category
+        ("E119", "E1165"),  // without complications / with hyperglycemia
+        ("I5032", "I5022"), // chronic diastolic / chronic systolic heart failure
+        ("J441", "J440"),   // COPD with exacerbation / with acute lower respiratory infection
+        ("N183", "N184"),   // not billable in 2024 (N18.3 split); stage 3 / stage 4
+        ("K5090", "K5190"), // Crohn's / ulcerative colitis, unspecified, another category
     ] {
         let label = &d[meant];
-        let r = check(&index(), &format!("{}\t{label}\n", dotted(written)), &on("2024-01-01"));
+        let r = check(
+            &index(),
+            &format!("{}\t{label}\n", dotted(written)),
+            &on("2024-01-01"),
+        );
         let e = &r.entries[0];
         let f = mismatch(e).unwrap_or_else(|| panic!("{written} with \"{label}\": no mismatch"));
         assert_eq!(f.severity, rollcall::Severity::Warning);
@@ -88,11 +97,19 @@ fn a_sibling_s_description_suggests_the_sibling_first() {
 /// so and suggests no code rather than a wrong one.
 #[test]
 fn a_nonsense_label_gets_a_mismatch_without_suggestions() {
-    for label in ["purple monkey dishwasher", "lorem ipsum dolor sit amet", "qwzx vrbl"] {
+    for label in [
+        "purple monkey dishwasher",
+        "lorem ipsum dolor sit amet",
+        "qwzx vrbl",
+    ] {
         let r = check(&index(), &format!("I10\t{label}\n"), &on("2024-01-01"));
         let f = mismatch(&r.entries[0]).expect("a mismatch");
         assert!(f.suggestions.is_empty(), "{label}: {:?}", f.suggestions);
-        assert!(f.message.contains("no code fits the label well"), "{}", f.message);
+        assert!(
+            f.message.contains("no code fits the label well"),
+            "{}",
+            f.message
+        );
     }
 }
 
@@ -116,9 +133,18 @@ fn abbreviations_and_inclusion_terms_fit() {
 #[test]
 fn the_label_drives_suggestions_for_unknown_and_malformed_codes() {
     let d = fy2024();
-    for (written, meant) in [("E11.56", "E1165"), ("I50.99", "I5022"), ("250.00", "E119"), ("J44", "J449")] {
+    for (written, meant) in [
+        ("E11.56", "E1165"),
+        ("I50.99", "I5022"),
+        ("250.00", "E119"),
+        ("J44", "J449"),
+    ] {
         let label = &d[meant];
-        let r = check(&index(), &format!("{written}\t{label}\n"), &on("2024-01-01"));
+        let r = check(
+            &index(),
+            &format!("{written}\t{label}\n"),
+            &on("2024-01-01"),
+        );
         let f = r.entries[0]
             .findings
             .iter()

@@ -246,13 +246,16 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     Ok(assemble(&sections))
 }
 
+/// The `WFST`, `POST` and `WLEN` sections, in that order.
+type WordMap = (Vec<u8>, Vec<u8>, Vec<u8>);
+
 /// The word map of a release: `WFST` maps each normalised word (see
 /// [`crate::words`]) of the descriptions and other wordings to the offset of
 /// its posting list in `POST`; a posting list is the number of codes, then
 /// their ordinals as varint gaps (the first from zero). `WLEN` holds each
 /// number of distinct words of each code's description, capped at 255 (for
 /// BM25's length norm: a code with many other wordings is not a longer text).
-fn word_map(release: &Release) -> Result<(Vec<u8>, Vec<u8>, Vec<u8>), WriteError> {
+fn word_map(release: &Release) -> Result<WordMap, WriteError> {
     let mut postings: std::collections::BTreeMap<String, Vec<u32>> = Default::default();
     let mut wlen = Vec::with_capacity(release.codes.len());
     for (i, c) in release.codes.iter().enumerate() {
