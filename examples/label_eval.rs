@@ -95,6 +95,42 @@ fn rank(index: &Index<Vec<u8>>, line: &str, want: &str, opts: &CheckOptions) -> 
     f.suggestions.iter().position(|s| s.code == want)
 }
 
+fn gzip9(b: &[u8]) -> usize {
+    use std::io::Write;
+    let mut e = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
+    e.write_all(b).expect("in memory");
+    e.finish().expect("in memory").len()
+}
+
+/// Sizes of the word map (`WFST`, `POST`, `WLEN`) and of the rest of the
+/// index, read from the section directory (see src/index/write.rs).
+fn sizes(b: &[u8]) {
+    let u32_at = |i: usize| u32::from_le_bytes([b[i], b[i + 1], b[i + 2], b[i + 3]]) as usize;
+    let count = u32_at(12);
+    let (mut words, mut rest) = (Vec::new(), b[..56 + count * 12].to_vec());
+    for k in 0..count {
+        let at = 56 + k * 12;
+        let (off, len) = (u32_at(at + 4), u32_at(at + 8));
+        let tag = &b[at..at + 4];
+        let part = &b[off..off + len];
+        if [&b"WFST"[..], b"POST", b"WLEN"].contains(&tag) {
+            println!("  section {}: {len} bytes", String::from_utf8_lossy(tag));
+            words.extend_from_slice(part);
+        } else {
+            rest.extend_from_slice(part);
+        }
+    }
+    println!(
+        "word map: {} bytes raw, {} gzip -9; the rest of the index: {} raw, {} gzip -9; whole file: {} raw, {} gzip -9",
+        words.len(),
+        gzip9(&words),
+        rest.len(),
+        gzip9(&rest),
+        b.len(),
+        gzip9(b)
+    );
+}
+
 fn main() {
     let bytes = std::fs::read("vocab/icd10cm.rcx").expect("run from the repository root");
     let index = Index::open(bytes).expect("the bundled index opens");
@@ -198,8 +234,7 @@ fn main() {
         times[times.len() * 95 / 100],
         times[times.len() - 1]
     );
-    let raw = index.bytes().len();
-    println!("index size: {raw} bytes raw");
+    sizes(index.bytes());
     for (ms, q) in slow.iter().take(3) {
         println!("  slowest: {ms:.2} ms for \"{q}\"");
     }
