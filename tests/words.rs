@@ -39,7 +39,11 @@ fn mismatch(e: &Entry) -> Option<&rollcall::Finding> {
 #[test]
 fn official_descriptions_fit_their_codes() {
     let d = fy2024();
-    assert_eq!(d.len(), 74_044, "FY2024 codes (CMS release notes: 74,044)");
+    assert_eq!(
+        d.len(),
+        74_044,
+        "FY2024 codes (as tests/official.rs counts them)"
+    );
     let list: String = d
         .iter()
         .step_by(40)
@@ -183,4 +187,21 @@ fn a_search_for_an_official_description_finds_its_code() {
     }
     assert!(top3 * 100 >= n * 95, "top-3 {top3} of {n}");
     assert!(first * 100 >= n * 80, "top-1 {first} of {n}");
+}
+
+/// Source: AHRQ Elixhauser Comorbidity Software Refined v2026.1 (tests/data):
+/// its description column holds official descriptions of FY2016-FY2026
+/// releases, so the label check finds no mismatch in its 4,690 rows.
+#[test]
+fn the_elixhauser_descriptions_fit_their_codes() {
+    let r = check(&index(), &elixhauser(), &period("2015-10-01", "2026-09-30"));
+    let labelled = r.entries.iter().filter(|e| e.label.is_some()).count();
+    assert_eq!(labelled, 4_690);
+    let bad: Vec<_> = r
+        .entries
+        .iter()
+        .filter(|e| mismatch(e).is_some())
+        .map(|e| e.input.clone())
+        .collect();
+    assert!(bad.is_empty(), "{bad:?}");
 }
