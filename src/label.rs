@@ -86,7 +86,18 @@ pub fn mismatch(
     period: &Period,
     searches_left: &mut usize,
 ) -> Option<(String, Vec<Suggestion>)> {
-    if crate::words::words(label).is_empty() {
+    // The common cases first, without weighing words: the label is the
+    // description, or every one of its words is in it.
+    let desc = view.description(ord);
+    if label.trim().eq_ignore_ascii_case(desc.trim()) {
+        return None;
+    }
+    let words = crate::words::words(label);
+    if words.is_empty() {
+        return None;
+    }
+    let desc_words = crate::words::words(&desc);
+    if words.iter().all(|w| desc_words.contains(w)) {
         return None;
     }
     let given = search::fit(view, label, ord);
@@ -110,8 +121,7 @@ pub fn mismatch(
     }
     let shown = view.display(&code);
     let mut msg = format!(
-        "the label \"{label}\" does not fit {shown}, whose description is \"{}\" ({}% of the label's words found in its wordings)",
-        view.description(ord),
+        "the label \"{label}\" does not fit {shown}, whose description is \"{desc}\" ({}% of the label's words found in its wordings)",
         (given.label * 100.0).round()
     );
     if better.is_empty() {

@@ -8,7 +8,7 @@ use crate::date::Date;
 use crate::index::View;
 use crate::model::Period;
 use crate::words;
-use fst::automaton::{Levenshtein, Str};
+use fst::automaton::Str;
 use fst::{Automaton, IntoStreamer, Streamer};
 use serde::Serialize;
 
@@ -105,6 +105,42 @@ fn same_word(a: &str, b: &str) -> f32 {
 /// Credit for a label word matched one edit away.
 const MISSPELT: f32 = 0.8;
 
+/// Words within `most` edits of `word`, as an automaton over the word map:
+/// the state is the last row of the edit-distance table (a few bytes, as
+/// words are short), so nothing is built ahead of the walk.
+struct Edits<'w> {
+    word: &'w [u8],
+    most: u8,
+}
+
+impl Automaton for Edits<'_> {
+    type State = Vec<u8>;
+
+    fn start(&self) -> Vec<u8> {
+        (0..=self.word.len()).map(|i| i.min(255) as u8).collect()
+    }
+
+    fn is_match(&self, row: &Vec<u8>) -> bool {
+        row.last().is_some_and(|&d| d <= self.most)
+    }
+
+    fn can_match(&self, row: &Vec<u8>) -> bool {
+        row.iter().any(|&d| d <= self.most)
+    }
+
+    fn accept(&self, row: &Vec<u8>, byte: u8) -> Vec<u8> {
+        let mut next = Vec::with_capacity(row.len());
+        next.push(row[0].saturating_add(1));
+        for (j, &c) in self.word.iter().enumerate() {
+            let sub = row[j].saturating_add(u8::from(c != byte));
+            let del = row[j + 1].saturating_add(1);
+            let ins = next[j].saturating_add(1);
+            next.push(sub.min(del).min(ins));
+        }
+        next
+    }
+}
+
 /// Words of the map a query word stands for, with their weight: itself,
 /// words it starts (when typed last), else words an edit or two away.
 fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
@@ -126,19 +162,21 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
     }
     let d = allowed_edits(w);
     if out.is_empty() && d > 0 {
-        if let Ok(aut) = Levenshtein::new(w, d) {
-            let mut s = map.search(aut).into_stream();
-            while let Some((k, off)) = s.next() {
-                let k = std::str::from_utf8(k).unwrap_or("");
-                let weight = if edits(w, k) <= 1 {
-                    EDIT1_WEIGHT
-                } else {
-                    EDIT2_WEIGHT
-                };
-                out.push((off, weight));
-                if out.len() >= MAX_VARIANTS {
-                    break;
-                }
+        let aut = Edits {
+            word: w.as_bytes(),
+            most: d as u8,
+        };
+        let mut s = map.search(aut).into_stream();
+        while let Some((k, off)) = s.next() {
+            let k = std::str::from_utf8(k).unwrap_or("");
+            let weight = if edits(w, k) <= 1 {
+                EDIT1_WEIGHT
+            } else {
+                EDIT2_WEIGHT
+            };
+            out.push((off, weight));
+            if out.len() >= MAX_VARIANTS {
+                break;
             }
         }
     }
@@ -420,6 +458,23 @@ pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool)
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_edit_automaton_accepts_words_within_its_edits() {
+        let aut = Edits {
+            word: b"femur",
+            most: 1,
+        };
+        let run = |w: &[u8]| {
+            let mut st = aut.start();
+            for &b in w {
+                st = aut.accept(&st, b);
+            }
+            aut.is_match(&st)
+        };
+        assert!(run(b"femur") && run(b"femor") && run(b"femurs") && run(b"emur"));
+        assert!(!run(b"fenor") && !run(b"lemon"));
+    }
 
     #[test]
     fn edit_distance() {
