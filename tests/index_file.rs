@@ -114,3 +114,30 @@ fn open_is_cheap_and_meta_is_right() {
         );
     }
 }
+
+/// The word map holds, for every word of a code's description, a posting
+/// list with that code, and the lists are sorted (an invariant of the format
+/// in src/index/write.rs; checked on every 50th code of the bundled index).
+#[test]
+fn every_description_word_lists_its_code() {
+    let idx = index();
+    let v = idx.view();
+    for o in (0..v.len() as u32).step_by(50) {
+        let words = rollcall::words::distinct(&v.description(o));
+        assert_eq!(v.word_count(o) as usize, words.len().min(255));
+        for w in words {
+            let off = v
+                .words()
+                .get(&w)
+                .unwrap_or_else(|| panic!("{w} not in the word map"));
+            let list: Vec<u32> = v.posting(off).collect();
+            assert_eq!(
+                list.len() as u32,
+                v.posting(off).count,
+                "{w}: a complete list"
+            );
+            assert!(list.windows(2).all(|p| p[0] < p[1]), "{w}: sorted");
+            assert!(list.binary_search(&o).is_ok(), "{w} lists {}", v.code(o));
+        }
+    }
+}
