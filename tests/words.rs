@@ -205,3 +205,36 @@ fn the_elixhauser_descriptions_fit_their_codes() {
         .collect();
     assert!(bad.is_empty(), "{bad:?}");
 }
+
+/// Source: the CDC tabular XML 2026-04-01 (vocab-build/sources): I10
+/// "Essential (primary) hypertension", E11.65 "Type 2 diabetes mellitus with
+/// hyperglycemia", R73.9 "Hyperglycemia, unspecified". Misspelt words
+/// (letters swapped, British spelling) and a half-typed last word still find them.
+#[test]
+fn misspelt_and_half_typed_words_find_the_code() {
+    let index = index();
+    let v = index.view();
+    let first = |q: &str, typing: bool| {
+        rollcall::search::find(&v, q, day("2026-01-01"), 5, typing)
+            .first()
+            .map(|f| f.code.clone())
+    };
+    assert_eq!(
+        first("essential hypertensoin", false).as_deref(),
+        Some("I10")
+    );
+    assert_eq!(
+        first("hyperglycaemia unspecified", false).as_deref(),
+        Some("R73.9")
+    );
+    assert_eq!(
+        first("type 2 diabetes with hypergl", true).as_deref(),
+        Some("E11.65")
+    );
+    // Without the prefix rule the half word matches nothing.
+    assert_ne!(
+        first("type 2 diabetes with hypergl", false).as_deref(),
+        Some("E11.65")
+    );
+    assert!(rollcall::search::find(&v, "qqqq zzzz", day("2026-01-01"), 5, true).is_empty());
+}
