@@ -21,8 +21,9 @@ const EDIT1_WEIGHT: f32 = 0.7;
 const EDIT2_WEIGHT: f32 = 0.5;
 /// Most words of the map one query word may stand for.
 const MAX_VARIANTS: usize = 40;
-/// Candidates re-ranked by their description.
-const RERANK: usize = 200;
+/// Candidates re-ranked by their description (100 keeps the evaluation's
+/// accuracy and halves the time of 200).
+const RERANK: usize = 100;
 
 /// How to search.
 #[derive(Clone, Debug, Default)]
