@@ -648,10 +648,53 @@ fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<S
 
 /// Findings already made in this check, by code: a list that repeats a code
 /// gets the same judgement for each line without redoing it.
-#[derive(Default)]
+/// A malformed cell's (or another system's code's) status, system and finding.
+type Judged = (Status, Option<String>, Finding);
+
 struct Memo {
     dates: OrdMap<(Status, Vec<Finding>)>,
-    unknown: HashMap<String, Finding>,
+    unknown: HashMap<(String, Option<String>), Finding>,
+    /// Malformed cells (and other systems' codes) already judged, with their label.
+    malformed: HashMap<(String, Option<String>), Judged>,
+    /// The label check of a code and label already judged.
+    labels: HashMap<(u32, String), Option<Finding>>,
+    /// Labels that may still be searched for codes ([`crate::label::SEARCH_LIMIT`]).
+    label_searches: usize,
+}
+
+impl Default for Memo {
+    fn default() -> Memo {
+        Memo {
+            dates: OrdMap::default(),
+            unknown: HashMap::new(),
+            malformed: HashMap::new(),
+            labels: HashMap::new(),
+            label_searches: crate::label::SEARCH_LIMIT,
+        }
+    }
+}
+
+/// Codes the label of an unknown or malformed entry points to, with why.
+fn label_candidates(
+    view: &View<'_>,
+    label: Option<&str>,
+    written: &str,
+    period: &Period,
+    extra: &[u32],
+    memo: &mut Memo,
+) -> Vec<(u32, String)> {
+    let Some(label) = label else {
+        return Vec::new();
+    };
+    if memo.label_searches == 0 || crate::words::words(label).is_empty() {
+        return Vec::new();
+    }
+    memo.label_searches -= 1;
+    crate::label::candidates(view, label, written, period, extra)
+        .into_iter()
+        .take(crate::label::SUGGESTED)
+        .map(|(o, f)| (o, crate::label::reason(view, &f, written, o)))
+        .collect()
 }
 
 #[allow(clippy::too_many_arguments)]
@@ -687,25 +730,39 @@ fn judge(
             e.findings
                 .push(finding(Kind::OtherSystem, Severity::Warning, message, sugg));
         }
-        Item::Malformed { reason, written } => match other_systems(view, &written) {
-            Some((systems, message)) => {
-                e.status = Status::OtherSystem;
-                if let [one] = systems.as_slice() {
-                    e.system = Some(one.name().to_string());
+        Item::Malformed { reason, written } => {
+            let undotted = written.to_ascii_uppercase().replace('.', "");
+            // The same cell and label on many lines is judged once.
+            let key = (format!("malformed {undotted}"), e.label.clone());
+            if let Some((status, system, f)) = memo.malformed.get(&key) {
+                e.status = *status;
+                e.system = system.clone();
+                e.findings.push(f.clone());
+                return;
+            }
+            // The label may still name the code that was meant.
+            let sugg: Vec<Suggestion> =
+                label_candidates(view, e.label.as_deref(), &undotted, period, &[], memo)
+                    .into_iter()
+                    .map(|(o, why)| suggestion(view, o, why))
+                    .collect();
+            let f = match other_systems(view, &written) {
+                Some((systems, message)) => {
+                    e.status = Status::OtherSystem;
+                    if let [one] = systems.as_slice() {
+                        e.system = Some(one.name().to_string());
+                    }
+                    finding(Kind::OtherSystem, Severity::Warning, message, sugg)
                 }
-                e.findings.push(finding(
-                    Kind::OtherSystem,
-                    Severity::Warning,
-                    message,
-                    vec![],
-                ));
-            }
-            None => {
-                e.status = Status::Malformed;
-                e.findings
-                    .push(finding(Kind::Malformed, Severity::Error, reason, vec![]));
-            }
-        },
+                None => {
+                    e.status = Status::Malformed;
+                    finding(Kind::Malformed, Severity::Error, reason, sugg)
+                }
+            };
+            memo.malformed
+                .insert(key, (e.status, e.system.clone(), f.clone()));
+            e.findings.push(f);
+        }
         Item::Pattern(p, matched) => {
             let shown = p.display(view);
             e.status = Status::Pattern;
@@ -758,13 +815,16 @@ fn judge(
                 msg.push_str(&extra);
             }
             let mut sugg = Vec::new();
-            if let Some(f) = memo.unknown.get(&c) {
+            let key = (c.clone(), e.label.clone());
+            if let Some(f) = memo.unknown.get(&key) {
                 e.findings.push(f.clone());
                 return;
             }
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
                 let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
+                let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
+                let mut near_why: Vec<(u32, String)> = Vec::new();
                 for (o, d) in near {
                     let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
                     let live = view.billable_in(o, period);
@@ -782,18 +842,38 @@ fn judge(
                     if !live {
                         why.push_str(", but not billable in the period");
                     }
+                    near_why.push((o, why));
+                }
+                // Codes the label fits come first; a near code among them keeps both reasons.
+                for (o, why) in
+                    label_candidates(view, e.label.as_deref(), &c, period, &near_ords, memo)
+                {
+                    match near_why.iter().position(|(n, _)| *n == o) {
+                        Some(i) => {
+                            let (_, near) = near_why.remove(i);
+                            let why = why.replace(", same category", "");
+                            sugg.push(suggestion(view, o, format!("{near}; {why}")));
+                        }
+                        None => sugg.push(suggestion(view, o, why)),
+                    }
+                }
+                if !sugg.is_empty() {
+                    msg.push_str(&format!("; its label fits {} best", sugg[0].code));
+                }
+                for (o, why) in near_why {
                     sugg.push(suggestion(view, o, why));
                 }
-                if sugg.is_empty() {
+                if near_ords.is_empty() {
                     msg.push_str("; no code is within two characters of it");
                 }
+                sugg.truncate(8);
             } else {
                 msg.push_str(&format!(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
                 ));
             }
             let f = finding(Kind::Unknown, Severity::Error, msg, sugg);
-            memo.unknown.insert(c, f.clone());
+            memo.unknown.insert(key, f.clone());
             e.findings.push(f);
         }
         Item::Code {
@@ -828,6 +908,23 @@ fn judge(
             }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);
+            }
+            if let Some(label) = e.label.clone() {
+                let key = (ord, label);
+                let f = match memo.labels.get(&key) {
+                    Some(f) => f.clone(),
+                    None => {
+                        let left = &mut memo.label_searches;
+                        let f = crate::label::mismatch(view, &key.1, ord, period, left).map(
+                            |(msg, sugg)| {
+                                finding(Kind::LabelMismatch, Severity::Warning, msg, sugg)
+                            },
+                        );
+                        memo.labels.insert(key, f.clone());
+                        f
+                    }
+                };
+                e.findings.extend(f);
             }
         }
     }

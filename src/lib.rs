@@ -10,6 +10,9 @@
 //! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`words`] normalises description and label words; [`search`] ranks
+//!   codes for words over the index's word map (BM25, prefix and edit-distance
+//!   matching).
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -23,15 +26,18 @@ pub mod compare;
 pub mod date;
 pub mod index;
 pub mod input;
+pub mod label;
 pub mod listcheck;
 pub mod model;
 pub mod pattern;
 pub mod render;
 pub mod report;
+pub mod search;
 pub mod sha256;
 pub mod shapecheck;
 pub mod systems;
 pub mod translate;
+pub mod words;
 
 pub use check::{
     check, check_among, check_with_coverage, check_with_reach, timeline, CategoryCoverage,

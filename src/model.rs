@@ -92,6 +92,10 @@ pub struct CodeEntry {
     /// Index into [`Release::seventh`] of the 7th-character rule that the
     /// tabular list states at this node, if any.
     pub seventh: Option<u16>,
+    /// Other official wordings of the code (ICD-10-CM: the tabular list's
+    /// inclusion terms). Only their words go into the index (the word map),
+    /// so [`crate::Index::to_release`] gives this back empty.
+    pub terms: Vec<String>,
 }
 
 /// A chapter of the classification.

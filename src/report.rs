@@ -67,6 +67,8 @@ pub enum Kind {
     ShapeOnly,
     /// Could be several codes of the system (a hyphen-less 10-digit NDC).
     Ambiguous,
+    /// The label written beside a code does not fit its official description.
+    LabelMismatch,
 }
 
 impl Kind {
@@ -89,6 +91,7 @@ impl Kind {
             Kind::OtherSystem => "other-system",
             Kind::ShapeOnly => "shape-only",
             Kind::Ambiguous => "ambiguous",
+            Kind::LabelMismatch => "label-mismatch",
         }
     }
 }

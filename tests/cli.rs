@@ -376,3 +376,68 @@ fn system_option_picks_the_index_or_the_shape_rules() {
         .collect();
     assert_eq!(names, ["icd10cm", "icd10pcs", "icd9cm"]);
 }
+
+/// Source: the CDC tabular XML 2026-04-01 (vocab-build/sources): E11.65 is
+/// "Type 2 diabetes mellitus with hyperglycemia", billable since 2015-10-01;
+/// N18.3 was split into N18.30-N18.32 on 2020-10-01 (release history).
+#[test]
+fn find_lists_codes_for_words() {
+    let o = rollcall(
+        &[
+            "find",
+            "type",
+            "2",
+            "DM",
+            "w/",
+            "hyperglycemia",
+            "--date",
+            "2026-01-01",
+            "--limit",
+            "3",
+        ],
+        None,
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let first = out(&o).lines().next().unwrap_or_default().to_string();
+    assert!(first.starts_with("E11.65 "), "{first}");
+    assert!(
+        first.contains("Type 2 diabetes mellitus with hyperglycemia"),
+        "{first}"
+    );
+    assert!(first.contains("billable 2015-10-01"), "{first}");
+    assert_eq!(out(&o).lines().count(), 3);
+
+    let j = rollcall(
+        &[
+            "find",
+            "chronic",
+            "kidney",
+            "disease",
+            "stage",
+            "3",
+            "--date",
+            "2019-01-01",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    let v: serde_json::Value = serde_json::from_str(&out(&j)).unwrap();
+    let results = v["results"].as_array().unwrap();
+    let n183 = results
+        .iter()
+        .find(|r| r["code"] == "N18.3")
+        .expect("N18.3 found");
+    assert_eq!(n183["status"], "billable");
+    assert_eq!(n183["billable_to"], "2020-09-30");
+}
+
+#[test]
+fn find_without_words_or_with_a_bad_limit_is_a_usage_error() {
+    let o = rollcall(&["find", "of", "the"], None);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("find needs words"), "{}", err(&o));
+    let o = rollcall(&["find", "diabetes", "--limit", "zero"], None);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("--limit must be a number"), "{}", err(&o));
+}

@@ -70,6 +70,7 @@ fn demo_list_has_every_finding_kind() {
         Kind::SiblingGap,
         Kind::Pattern,
         Kind::PatternEmpty,
+        Kind::LabelMismatch,
     ];
     for k in all {
         assert!(

@@ -32,7 +32,7 @@ fn a_wrong_version_names_both_versions() {
     assert_eq!(
         err,
         IndexError::Version {
-            expected: 1,
+            expected: 2,
             got: 9
         }
     );
@@ -78,10 +78,22 @@ fn damaged_files_never_panic() {
             let _ = idx.verify();
             let r = check(
                 &idx,
-                "E11.9\nE11.56\nI10\nE11.*\nC43.11\nI60.20\n",
+                "E11.9\tType 2 diabetes mellitus with hyperglycemia\nE11.56\tType 2 diabetes\nI10\tHTN\n\
+                 E11.*\nC43.11\nI60.20\n",
                 &on("2026-01-01"),
             );
             assert_eq!(r.summary.lines, 6);
+            let v = idx.view();
+            let opts = rollcall::search::SearchOptions {
+                limit: 5,
+                prefix_last: true,
+                ..Default::default()
+            };
+            for q in ["diabetes hyperglycemia", "diabtes", "chronic kidn"] {
+                for h in rollcall::search::search(&v, q, &opts) {
+                    let _ = rollcall::search::fit(&v, q, h.ord);
+                }
+            }
         }
     }
 }
@@ -100,5 +112,32 @@ fn open_is_cheap_and_meta_is_right() {
             "{} recorded with its checksum",
             s.file
         );
+    }
+}
+
+/// The word map holds, for every word of a code's description, a posting
+/// list with that code, and the lists are sorted (an invariant of the format
+/// in src/index/write.rs; checked on every 50th code of the bundled index).
+#[test]
+fn every_description_word_lists_its_code() {
+    let idx = index();
+    let v = idx.view();
+    for o in (0..v.len() as u32).step_by(50) {
+        let words = rollcall::words::distinct(&v.description(o));
+        assert_eq!(v.word_count(o) as usize, words.len().min(255));
+        for w in words {
+            let off = v
+                .words()
+                .get(&w)
+                .unwrap_or_else(|| panic!("{w} not in the word map"));
+            let list: Vec<u32> = v.posting(off).collect();
+            assert_eq!(
+                list.len() as u32,
+                v.posting(off).count,
+                "{w}: a complete list"
+            );
+            assert!(list.windows(2).all(|p| p[0] < p[1]), "{w}: sorted");
+            assert!(list.binary_search(&o).is_ok(), "{w} lists {}", v.code(o));
+        }
     }
 }

@@ -57,6 +57,7 @@ fn arb_release() -> impl Strategy<Value = Release> {
                         header: spans(h),
                         successors,
                         seventh,
+                        terms: Vec::new(),
                     }
                 })
                 .collect();

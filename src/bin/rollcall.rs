@@ -30,6 +30,7 @@ usage:
   rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
                         [--format text|json|csv]
   rollcall info [--format text|json] [--index PATH]
+  rollcall find WORDS... [--date DATE] [--limit N] [--format text|json] [--index PATH]
 
   FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
              - reads standard input
@@ -43,6 +44,9 @@ usage:
              target for the period; the first list's system is the other one
   compare    checks both lists, then compares the billable codes each reaches in the
              period; --format csv writes one row per code only one list reaches
+  find       codes whose descriptions fit the words (misspellings and abbreviations
+             such as DM, HTN, w/o allowed); --date: prefer codes in use that day
+             (default: today), --limit: how many (default 10)
 
 exit status: 0 no errors found (compare: and both lists reach the same codes),
              1 error-level findings (compare: or the lists differ), 2 usage or input error.
@@ -214,6 +218,9 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
     if argv[0] == "--version" {
         println!("rollcall {}", env!("CARGO_PKG_VERSION"));
         return Ok(ExitCode::SUCCESS);
+    }
+    if argv[0] == "find" {
+        return find_command(&argv[1..]).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"));
     }
     let a = parse(argv).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"))?;
     let format = a.format.clone().unwrap_or_else(|| "text".into());
@@ -415,6 +422,77 @@ fn read_list(file: &str) -> Result<String, String> {
         raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
     }
     decode(&raw).map_err(|e| format!("{file}: {e}"))
+}
+
+/// `rollcall find WORDS...`: codes for words, best first.
+fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
+    let mut words = Vec::new();
+    let (mut day, mut limit, mut format, mut index) = (None, 10usize, "text".to_string(), None);
+    let mut it = argv.iter();
+    while let Some(arg) = it.next() {
+        let mut value = || {
+            it.next()
+                .cloned()
+                .ok_or_else(|| Usage(format!("{arg} needs a value")))
+        };
+        match arg.as_str() {
+            "--date" => {
+                day = Some(Date::parse(&value()?).map_err(|e| Usage(format!("--date: {e}")))?)
+            }
+            "--limit" => {
+                let v = value()?;
+                limit = v
+                    .parse()
+                    .ok()
+                    .filter(|n| (1..=1000).contains(n))
+                    .ok_or_else(|| {
+                        Usage(format!("--limit must be a number from 1 to 1000, not {v}"))
+                    })?;
+            }
+            "--format" => format = value()?,
+            "--index" => index = Some(value()?),
+            s if s.starts_with("--") => return Err(Usage(format!("unknown option {s} for find"))),
+            s => words.push(s.to_string()),
+        }
+    }
+    if !matches!(format.as_str(), "text" | "json") {
+        return Err(Usage(format!(
+            "--format must be text or json for find, not {format}"
+        )));
+    }
+    let query = words.join(" ");
+    if rollcall::words::words(&query).is_empty() {
+        return Err(Usage(
+            "find needs words to look for, e.g. rollcall find type 2 diabetes".into(),
+        ));
+    }
+    let day = day.unwrap_or_else(today);
+    let loaded = load_index(index.as_deref()).map_err(Usage)?;
+    let found = match &loaded {
+        Loaded::Bundled(i) => rollcall::search::find(&i.view(), &query, day, limit, true),
+        Loaded::File(i, _) => rollcall::search::find(&i.view(), &query, day, limit, true),
+    };
+    let out = if format == "json" {
+        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        serde_json::to_string_pretty(&v).map_err(|e| Usage(e.to_string()))? + "\n"
+    } else if found.is_empty() {
+        format!("no code fits \"{query}\"\n")
+    } else {
+        let mut s = String::new();
+        for f in &found {
+            let span = match (f.billable_from, f.billable_to) {
+                (Some(a), Some(b)) => format!("billable {a} to {b}"),
+                _ => "never billable".into(),
+            };
+            s.push_str(&format!(
+                "{:<9} {:<10} {}  ({span})\n",
+                f.code, f.status, f.description
+            ));
+        }
+        s
+    };
+    write_out(&out);
+    Ok(ExitCode::SUCCESS)
 }
 
 fn write_out(s: &str) {

@@ -19,7 +19,7 @@ use std::fmt;
 /// First bytes of every index file.
 pub const MAGIC: &[u8; 8] = b"RCALLIX\x1a";
 /// The index format this build reads and writes.
-pub const FORMAT_VERSION: u32 = 1;
+pub const FORMAT_VERSION: u32 = 2;
 pub(crate) const HEADER_LEN: usize = 56;
 /// Records per block of the span and successor offset tables.
 pub(crate) const REC_BLOCK: usize = 64;
@@ -103,6 +103,9 @@ struct Layout {
     succ: Range,
     doff: Range,
     desc: Range,
+    wfst: Range,
+    post: Range,
+    wlen: Range,
     len: usize,
 }
 
@@ -205,6 +208,15 @@ impl<D: AsRef<[u8]>> Index<D> {
         let succ = sec(b"SUCC", "successors missing")?;
         let doff = sec(b"DOFF", "descriptions missing")?;
         let desc = sec(b"DESC", "descriptions missing")?;
+        let wfst = sec(b"WFST", "word map missing")?;
+        // The word map is walked by automata, which trust its nodes: its own
+        // checksum (CRC-32C) is checked here so a damaged one is refused.
+        fst::Map::new(&bytes[wfst.0..wfst.0 + wfst.1])
+            .ok()
+            .filter(|m| m.as_fst().verify().is_ok())
+            .ok_or(IndexError::Corrupt("word map"))?;
+        let post = sec(b"POST", "word postings missing")?;
+        let wlen = sec(b"WLEN", "word counts missing")?;
         let rec_blocks = len.div_ceil(REC_BLOCK);
         let wide = pard.1 == len * 4 && len > 0;
         let col = if wide { 4 } else { 2 };
@@ -217,6 +229,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             || span.1 % 8 != 0
             || succ.1 % 8 != 0
             || doff.1 != len.div_ceil(write::DESC_BLOCK) * 4
+            || wlen.1 != len
         {
             return Err(IndexError::Corrupt("table sizes disagree"));
         }
@@ -233,6 +246,9 @@ impl<D: AsRef<[u8]>> Index<D> {
             succ,
             doff,
             desc,
+            wfst,
+            post,
+            wlen,
             len,
         };
         Ok(Index {
@@ -290,6 +306,10 @@ impl<D: AsRef<[u8]>> Index<D> {
             succ: s(l.succ),
             doff: s(l.doff),
             desc: s(l.desc),
+            words: fst::Map::new(s(l.wfst)).expect("checked on open"),
+            post: s(l.post),
+            wlen: s(l.wlen),
+            avg_words: std::cell::OnceCell::new(),
             len: l.len,
             meta: &self.meta,
             tree: &self.tree,
@@ -316,6 +336,7 @@ impl<D: AsRef<[u8]>> Index<D> {
                     })
                     .collect(),
                 seventh: v.own_seventh(o),
+                terms: Vec::new(),
             })
             .collect();
         Release {
@@ -431,6 +452,10 @@ pub struct View<'a> {
     succ: &'a [u8],
     doff: &'a [u8],
     desc: &'a [u8],
+    words: fst::Map<&'a [u8]>,
+    post: &'a [u8],
+    wlen: &'a [u8],
+    avg_words: std::cell::OnceCell<f32>,
     len: usize,
     meta: &'a Meta,
     tree: &'a Tree,
@@ -760,5 +785,75 @@ impl<'a> View<'a> {
     /// All sections.
     pub fn sections(&self) -> &'a [Section] {
         &self.tree.sections
+    }
+
+    /// The word map (normalised word → posting offset), for automaton searches.
+    pub fn words(&self) -> &fst::Map<&'a [u8]> {
+        &self.words
+    }
+
+    /// The posting list at `offset` (a value of the word map): how many codes
+    /// have the word, and their ordinals in order. A damaged list ends early.
+    pub fn posting(&self, offset: u64) -> Posting<'a> {
+        let mut r = In::new(self.post);
+        r.pos = usize::try_from(offset).unwrap_or(usize::MAX);
+        let n = r.varint().unwrap_or(0).min(self.len as u32);
+        Posting {
+            r,
+            left: n,
+            count: n,
+            prev: 0,
+            len: self.len as u32,
+        }
+    }
+
+    /// How many codes have `word` (a normalised word) among their words.
+    pub fn word_codes(&self, word: &str) -> u32 {
+        self.words.get(word).map_or(0, |o| self.posting(o).count)
+    }
+
+    /// Number of distinct words of a code's description.
+    pub fn word_count(&self, ord: u32) -> u32 {
+        self.wlen.get(ord as usize).copied().unwrap_or(0) as u32
+    }
+
+    /// Mean [`word_count`](Self::word_count) over all codes.
+    pub fn mean_word_count(&self) -> f32 {
+        *self.avg_words.get_or_init(|| {
+            let sum: u64 = self.wlen.iter().map(|&b| b as u64).sum();
+            (sum as f32 / self.wlen.len().max(1) as f32).max(1.0)
+        })
+    }
+}
+
+/// The ordinals of one posting list, in order; see [`View::posting`].
+pub struct Posting<'a> {
+    r: In<'a>,
+    left: u32,
+    prev: u32,
+    len: u32,
+    /// How many codes the list holds (as its header says).
+    pub count: u32,
+}
+
+impl Iterator for Posting<'_> {
+    type Item = u32;
+    fn next(&mut self) -> Option<u32> {
+        if self.left == 0 {
+            return None;
+        }
+        self.left -= 1;
+        let gap = self.r.varint()?;
+        let o = self.prev.checked_add(gap).filter(|&o| o < self.len);
+        match o {
+            Some(o) => {
+                self.prev = o;
+                Some(o)
+            }
+            None => {
+                self.left = 0;
+                None
+            }
+        }
     }
 }

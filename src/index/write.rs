@@ -237,6 +237,12 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     sections.push((*b"DOFF", doff.buf));
     sections.push((*b"DESC", desc.buf));
 
+    // WFST + POST + WLEN: the word map.
+    let (wfst, post, wlen) = word_map(release)?;
+    sections.push((*b"WFST", wfst));
+    sections.push((*b"POST", post));
+    sections.push((*b"WLEN", wlen));
+
     // TREE: chapters, sections, 7th-character rules (small; decoded on open).
     let mut tree = Out::default();
     tree.varint(release.chapters.len() as u32);
@@ -268,6 +274,49 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     }
 
     Ok(assemble(&sections))
+}
+
+/// The `WFST`, `POST` and `WLEN` sections, in that order.
+type WordMap = (Vec<u8>, Vec<u8>, Vec<u8>);
+
+/// The word map of a release: `WFST` maps each normalised word (see
+/// [`crate::words`]) of the descriptions and other wordings to the offset of
+/// its posting list in `POST`; a posting list is the number of codes, then
+/// their ordinals as varint gaps (the first from zero). `WLEN` holds each
+/// number of distinct words of each code's description, capped at 255 (for
+/// BM25's length norm: a code with many other wordings is not a longer text).
+fn word_map(release: &Release) -> Result<WordMap, WriteError> {
+    let mut postings: std::collections::BTreeMap<String, Vec<u32>> = Default::default();
+    let mut wlen = Vec::with_capacity(release.codes.len());
+    for (i, c) in release.codes.iter().enumerate() {
+        let mut w = crate::words::distinct(&c.description);
+        wlen.push(w.len().min(255) as u8);
+        for t in &c.terms {
+            w.extend(crate::words::words(t));
+        }
+        w.sort();
+        w.dedup();
+        for word in w {
+            postings.entry(word).or_default().push(i as u32);
+        }
+    }
+    let mut post = Out::default();
+    let mut builder = fst::MapBuilder::memory();
+    for (word, ords) in &postings {
+        builder
+            .insert(word.as_bytes(), post.buf.len() as u64)
+            .map_err(|e| WriteError::Fst(e.to_string()))?;
+        post.varint(ords.len() as u32);
+        let mut prev = 0;
+        for &o in ords {
+            post.varint(o - prev);
+            prev = o;
+        }
+    }
+    let wfst = builder
+        .into_inner()
+        .map_err(|e| WriteError::Fst(e.to_string()))?;
+    Ok((wfst, post.buf, wlen))
 }
 
 fn assemble(sections: &[([u8; 4], Vec<u8>)]) -> Vec<u8> {

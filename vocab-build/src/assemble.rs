@@ -203,6 +203,38 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
             desc.insert(&r.code, &r.description);
         }
     }
+    // Other wordings for the word map: inclusion terms of every tabular and
+    // the descriptions of every file (older wordings are still written in lists).
+    let mut terms_at: HashMap<String, Vec<String>> = HashMap::new();
+    {
+        let mut add = |c: &str, t: &str| {
+            let v = terms_at.entry(c.to_string()).or_default();
+            if !t.is_empty() && !v.iter().any(|x| x == t) {
+                v.push(t.to_string());
+            }
+        };
+        for (_, rows) in &inp.codefiles {
+            for (c, d) in rows {
+                add(c, d);
+            }
+        }
+        for (_, rows) in &inp.orders {
+            for r in rows {
+                add(&r.code, &r.long);
+            }
+        }
+        for (_, t) in &inp.tabulars {
+            for n in &t.nodes {
+                add(&n.code, &n.description);
+                for term in &n.terms {
+                    add(&n.code, term);
+                }
+            }
+        }
+        for r in &inp.history {
+            add(&r.code, &r.description);
+        }
+    }
 
     // 5. 7th-character rules, deduplicated.
     let mut rules: Vec<SeventhRule> = Vec::new();
@@ -256,6 +288,12 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
             header: std::mem::take(&mut header[i]),
             successors: s,
             seventh,
+            terms: terms_at
+                .remove(code.as_str())
+                .unwrap_or_default()
+                .into_iter()
+                .filter(|t| Some(t.as_str()) != desc.get(code.as_str()).copied())
+                .collect(),
         });
     }
     // Successors must name kept nodes.

@@ -14,6 +14,8 @@ pub struct Node {
     pub description: String,
     /// `sevenChrDef` extensions stated at this node.
     pub seventh: Option<Vec<(char, String)>>,
+    /// The notes of its `inclusionTerm` and `includes` (other wordings of the code).
+    pub terms: Vec<String>,
 }
 
 /// A whole tabular file.
@@ -53,6 +55,7 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
                             code: String::new(),
                             description: String::new(),
                             seventh: None,
+                            terms: Vec::new(),
                         });
                         diags.push(out.nodes.len() - 1);
                     }
@@ -108,6 +111,16 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
                             out.nodes[d].description = value;
                         }
                     }
+                    ("note", Some("inclusionTerm" | "includes"))
+                        if path.get(path.len().wrapping_sub(2)).map(String::as_str)
+                            == Some("diag") =>
+                    {
+                        if let Some(&d) = diags.last() {
+                            if !value.is_empty() {
+                                out.nodes[d].terms.push(value);
+                            }
+                        }
+                    }
                     ("extension", _) => {
                         if let (Some(ch), Some(&d)) = (extension.take(), diags.last()) {
                             if let Some(rule) = out.nodes[d].seventh.as_mut() {
@@ -151,7 +164,9 @@ mod tests {
             <section id="S00-S09"><desc>Injuries to the head (S00-S09)</desc>
             <diag><name>S06</name><desc>Intracranial injury</desc>
               <sevenChrDef><extension char="A">initial encounter</extension><extension char="S">sequela</extension></sevenChrDef>
-              <diag><name>S06.0X</name><desc>Concussion</desc></diag>
+              <diag><name>S06.0X</name><desc>Concussion</desc>
+                <inclusionTerm><note>Commotio cerebri</note></inclusionTerm>
+                <excludes1><note>not this</note></excludes1></diag>
             </diag></section></chapter></ICD10CM.tabular>"#,
         )
         .unwrap();
@@ -161,6 +176,7 @@ mod tests {
         assert_eq!(t.sections[0].title, "Injuries to the head");
         assert_eq!(t.nodes.len(), 2);
         assert_eq!(t.nodes[1].code, "S060X");
+        assert_eq!(t.nodes[1].terms, ["Commotio cerebri"]);
         let rule = t.nodes[0].seventh.as_ref().unwrap();
         assert_eq!(rule[1], ('S', "sequela".to_string()));
     }

@@ -618,6 +618,18 @@ impl Checker {
             .collect();
         Ok(to_js(&map)?.unchecked_into())
     }
+
+    /// Codes for words, best first, as JSON text: `{ query, date, results:
+    /// [{ code, description, status, billable_from, billable_to, fit }] }`
+    /// (the CLI's `find --format json`). The last word counts as the start of
+    /// a word, for suggestions while typing; codes in use today come first.
+    pub fn find(&self, query: &str, limit: u32) -> Result<String, JsValue> {
+        let day = today();
+        let limit = (limit as usize).clamp(1, 100);
+        let found = rollcall::search::find(&self.index.view(), query, day, limit, true);
+        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        serde_json::to_string(&v).map_err(|e| fail("could not hand the result to the page", e))
+    }
 }
 
 /// Lower-case hex SHA-256 of some bytes (to compare a fetched index with its

@@ -8,6 +8,7 @@ import { encodeState, decodeState } from "./permalink.js";
 import { setupCompare } from "./compare.js";
 import { open, readManifest } from "./rollcall.js";
 import { embedded } from "./embedded.js";
+import { initSearch } from "./search.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -580,10 +581,17 @@ const compareView = setupCompare({
   listA: () => $("list").value,
   ready: () => !!state.info,
 });
+/** The word search adds a result as a new last line of the list. */
+function addFromSearch(code, description) {
+  const text = $("list").value;
+  const after = text.replace(/\n$/, "") === "" ? 0 : text.replace(/\n$/, "").split("\n").length;
+  return applyEdits([{ op: "add", after, code, label: description }], `Added ${code}.`);
+}
 
 async function main() {
   document.body.dataset.state = "loading";
   wire();
+  initSearch({ ask, addToList: addFromSearch });
   syncModeFields();
   const restored = restoreLink();
   let info;

@@ -18,6 +18,8 @@
 //   <- {id, ok: true, result: {code: Span[] | null}}
 //   -> {id, type: "digest", text: string}
 //   <- {id, ok: true, result: "hex SHA-256 of the text as UTF-8"}
+//   -> {id, type: "find", query: string, limit: number}
+//   <- {id, ok: true, result: {query, date, results: Found[]}}
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen */
 "use strict";
@@ -135,6 +137,10 @@ self.onmessage = async (event) => {
         break;
       case "digest":
         result = wasm_bindgen.sha256Hex(new TextEncoder().encode(String(msg.text ?? "")));
+        break;
+      case "find":
+        if (!checker) throw new Error("the index is not loaded");
+        result = JSON.parse(checker.find(String(msg.query ?? ""), Number(msg.limit) || 10));
         break;
       default:
         throw new Error(`unknown request “${msg.type}”`);

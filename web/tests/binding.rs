@@ -196,3 +196,22 @@ fn compare_json_gives_the_cli_comparison() {
         .unwrap_err();
     assert!(message(err).contains("unknown option"));
 }
+
+/// Source: the CDC tabular XML 2026-04-01 (vocab-build/sources): E11.65 is
+/// "Type 2 diabetes mellitus with hyperglycemia".
+#[wasm_bindgen_test]
+fn find_gives_codes_for_words_while_typing() {
+    let c = Checker::new(INDEX.to_vec()).unwrap();
+    let out: serde_json::Value =
+        serde_json::from_str(&c.find("type 2 diabetes with hypergl", 5).unwrap()).unwrap();
+    let results = out["results"].as_array().unwrap();
+    assert!(!results.is_empty() && results.len() <= 5);
+    assert_eq!(results[0]["code"], "E11.65");
+    assert_eq!(
+        results[0]["description"],
+        "Type 2 diabetes mellitus with hyperglycemia"
+    );
+    assert_eq!(results[0]["status"], "billable");
+    let none: serde_json::Value = serde_json::from_str(&c.find("of the", 5).unwrap()).unwrap();
+    assert!(none["results"].as_array().unwrap().is_empty());
+}

@@ -1,0 +1,489 @@
+//! Codes for words: BM25 over the index's word map (rare words weigh more),
+//! the last word matched as a prefix while typing, misspelt words matched
+//! through a Levenshtein automaton on the word map, then the best candidates
+//! re-ranked by how well their official description fits the query (whole
+//! phrases, few words left over). [`fit`] scores one label against one code.
+
+use crate::date::Date;
+use crate::index::View;
+use crate::model::Period;
+use crate::words;
+use fst::automaton::Str;
+use fst::{Automaton, IntoStreamer, Streamer};
+use serde::Serialize;
+
+/// BM25 constants (the usual defaults, common practice).
+const K1: f32 = 1.2;
+const B: f32 = 0.75;
+/// Weight of a word reached as a prefix of the typed one, or one or two edits away.
+const PREFIX_WEIGHT: f32 = 0.85;
+const EDIT1_WEIGHT: f32 = 0.7;
+const EDIT2_WEIGHT: f32 = 0.5;
+/// Most words of the map one query word may stand for.
+const MAX_VARIANTS: usize = 40;
+/// Candidates re-ranked by their description (100 keeps the evaluation's
+/// accuracy and halves the time of 200).
+const RERANK: usize = 100;
+
+/// How to search.
+#[derive(Clone, Debug, Default)]
+pub struct SearchOptions {
+    /// Most hits returned.
+    pub limit: usize,
+    /// Take the last word as the start of a word (search as you type).
+    pub prefix_last: bool,
+    /// Prefer codes in use on some day of this period.
+    pub period: Option<Period>,
+    /// Prefer codes near this one in the hierarchy (undotted; sharing a start).
+    pub near: Option<String>,
+}
+
+/// One code found for a query.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Hit {
+    /// Its ordinal.
+    pub ord: u32,
+    /// The ranking score (higher is better; only comparable within one query).
+    pub score: f32,
+    /// How well its description fits the query ([`fit`]).
+    pub fit: Fit,
+}
+
+/// How well a text fits a code's wording, each share weighted by the words' rarity.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct Fit {
+    /// Share of the text's words found in the code's description or other
+    /// official wordings (1.0: every word is there).
+    pub label: f32,
+    /// Share of the description's words found in the text.
+    pub description: f32,
+}
+
+/// Inverse document frequency of a word found in `df` of `n` codes (BM25's).
+fn idf(n: u32, df: u32) -> f32 {
+    let (n, df) = (n as f32, df as f32);
+    (1.0 + (n - df + 0.5) / (df + 0.5)).ln()
+}
+
+/// Edit distance of two short words (characters changed, added or dropped).
+fn edits(a: &str, b: &str) -> usize {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    let mut cur = vec![0; b.len() + 1];
+    for i in 1..=a.len() {
+        cur[0] = i;
+        for j in 1..=b.len() {
+            let sub = prev[j - 1] + usize::from(a[i - 1] != b[j - 1]);
+            cur[j] = sub.min(prev[j] + 1).min(cur[j - 1] + 1);
+        }
+        std::mem::swap(&mut prev, &mut cur);
+    }
+    prev[b.len()]
+}
+
+/// How many edits a word of this length may be misspelt by.
+fn allowed_edits(w: &str) -> u32 {
+    match w.len() {
+        0..=3 => 0,
+        4..=7 => 1,
+        _ => 2,
+    }
+}
+
+/// How far a label word matches a description word: 1 for the same word,
+/// [`MISSPELT`] for one edit apart (both at least 5 letters: `hyperglycaemia`),
+/// else 0. One edit only: `hyperglycemia` and `hypoglycemia` are two apart.
+fn same_word(a: &str, b: &str) -> f32 {
+    if a == b {
+        1.0
+    } else if a.len() >= 5 && b.len() >= 5 && a.len().abs_diff(b.len()) <= 1 && edits(a, b) <= 1 {
+        MISSPELT
+    } else {
+        0.0
+    }
+}
+
+/// Credit for a label word matched one edit away.
+const MISSPELT: f32 = 0.8;
+
+/// Words within `most` edits of `word`, as an automaton over the word map:
+/// the state is the last row of the edit-distance table (a few bytes, as
+/// words are short), so nothing is built ahead of the walk.
+struct Edits<'w> {
+    word: &'w [u8],
+    most: u8,
+}
+
+impl Automaton for Edits<'_> {
+    type State = Vec<u8>;
+
+    fn start(&self) -> Vec<u8> {
+        (0..=self.word.len()).map(|i| i.min(255) as u8).collect()
+    }
+
+    fn is_match(&self, row: &Vec<u8>) -> bool {
+        row.last().is_some_and(|&d| d <= self.most)
+    }
+
+    fn can_match(&self, row: &Vec<u8>) -> bool {
+        row.iter().any(|&d| d <= self.most)
+    }
+
+    fn accept(&self, row: &Vec<u8>, byte: u8) -> Vec<u8> {
+        let mut next = Vec::with_capacity(row.len());
+        next.push(row[0].saturating_add(1));
+        for (j, &c) in self.word.iter().enumerate() {
+            let sub = row[j].saturating_add(u8::from(c != byte));
+            let del = row[j + 1].saturating_add(1);
+            let ins = next[j].saturating_add(1);
+            next.push(sub.min(del).min(ins));
+        }
+        next
+    }
+}
+
+/// Words of the map a query word stands for, with their weight: itself,
+/// words it starts (when typed last), else words an edit or two away.
+fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
+    let map = view.words();
+    let mut out = Vec::new();
+    if let Some(off) = map.get(w) {
+        out.push((off, 1.0));
+    }
+    if prefix {
+        let mut s = map.search(Str::new(w).starts_with()).into_stream();
+        while let Some((k, off)) = s.next() {
+            if k != w.as_bytes() {
+                out.push((off, PREFIX_WEIGHT));
+            }
+            if out.len() >= MAX_VARIANTS {
+                break;
+            }
+        }
+    }
+    let d = allowed_edits(w);
+    if out.is_empty() && d > 0 {
+        let aut = Edits {
+            word: w.as_bytes(),
+            most: d as u8,
+        };
+        let mut s = map.search(aut).into_stream();
+        while let Some((k, off)) = s.next() {
+            let k = std::str::from_utf8(k).unwrap_or("");
+            let weight = if edits(w, k) <= 1 {
+                EDIT1_WEIGHT
+            } else {
+                EDIT2_WEIGHT
+            };
+            out.push((off, weight));
+            if out.len() >= MAX_VARIANTS {
+                break;
+            }
+        }
+    }
+    out
+}
+
+/// The codes that best fit `query`, best first.
+///
+/// ```no_run
+/// let index = rollcall::Index::open(std::fs::read("vocab/icd10cm.rcx").unwrap()).unwrap();
+/// let view = index.view();
+/// let opts = rollcall::search::SearchOptions { limit: 3, ..Default::default() };
+/// let hits = rollcall::search::search(&view, "type 2 diabetes with hyperglycemia", &opts);
+/// assert_eq!(view.code(hits[0].ord), "E1165");
+/// ```
+pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
+    let mut q = words::words(query);
+    let mut seen = std::collections::HashSet::new();
+    q.retain(|w| seen.insert(w.clone()));
+    if q.is_empty() || view.is_empty() {
+        return Vec::new();
+    }
+    let n = view.len() as u32;
+    let avg = view.mean_word_count();
+    let mut score = vec![0f32; view.len()];
+    let mut best = vec![0f32; view.len()];
+    // Per code: the weight of the query words found in any of its wordings.
+    let mut cover = vec![0f32; view.len()];
+    let mut best_w = vec![0f32; view.len()];
+    let mut skipped = Vec::with_capacity(q.len());
+    let mut touched: Vec<u32> = Vec::new();
+    let mut any: Vec<u32> = Vec::new();
+    let mut weights = Vec::with_capacity(q.len());
+    let vs: Vec<Vec<(u64, f32)>> = q
+        .iter()
+        .enumerate()
+        .map(|(i, w)| variants(view, w, opts.prefix_last && i + 1 == q.len()))
+        .collect();
+    // Words in more than a tenth of the codes (`encounter`, `unspecified`)
+    // only pick candidates when the query has no rarer word; they still count
+    // in the re-ranking below. Their long posting lists cost the most time.
+    let common = n / 10;
+    let df = |off: u64| view.posting(off).count;
+    let is_common = |v: &Vec<(u64, f32)>| v.iter().all(|&(off, _)| df(off) > common);
+    let any_rare = vs.iter().any(|v| !v.is_empty() && !is_common(v));
+    for v in &vs {
+        let skip = any_rare && is_common(v);
+        skipped.push(skip);
+        let mut wmax = 0f32;
+        for &(off, weight) in v {
+            let p = view.posting(off);
+            let wi = weight * idf(n, p.count);
+            wmax = wmax.max(wi);
+            if skip {
+                continue;
+            }
+            for o in p {
+                let dl = view.word_count(o) as f32;
+                let s = wi * (K1 + 1.0) / (1.0 + K1 * (1.0 - B + B * dl / avg));
+                let b = &mut best[o as usize];
+                if *b == 0.0 {
+                    touched.push(o);
+                }
+                if s > *b {
+                    *b = s;
+                }
+                let bw = &mut best_w[o as usize];
+                *bw = bw.max(wi);
+            }
+        }
+        weights.push(wmax.max(idf(n, 1) * 0.5));
+        for &o in &touched {
+            let s = &mut score[o as usize];
+            if *s == 0.0 {
+                any.push(o);
+            }
+            *s += best[o as usize];
+            best[o as usize] = 0.0;
+            cover[o as usize] += best_w[o as usize];
+            best_w[o as usize] = 0.0;
+        }
+        touched.clear();
+    }
+    // Keep the strongest candidates, then re-rank them by their description.
+    any.sort_unstable_by(|a, b| {
+        score[*b as usize]
+            .total_cmp(&score[*a as usize])
+            .then(a.cmp(b))
+    });
+    any.truncate(RERANK);
+    let total: f32 = weights.iter().sum();
+    let mut idf_cache = std::collections::HashMap::new();
+    let mut hits: Vec<Hit> = any
+        .into_iter()
+        .map(|o| {
+            let desc = words::words(&view.description(o));
+            let mut f = fit_words(view, &q, &weights, &desc, o, false, &mut idf_cache);
+            // Words found in other wordings (inclusion terms) count too.
+            let common_found: f32 = q
+                .iter()
+                .zip(&weights)
+                .zip(&skipped)
+                .filter(|((w, _), &sk)| sk && desc.iter().any(|d| same_word(w, d) > 0.0))
+                .map(|((_, wt), _)| *wt)
+                .sum();
+            f.label = f
+                .label
+                .max(((cover[o as usize] + common_found) / total).min(1.0));
+            let mut s = score[o as usize] / total.max(1e-6);
+            s += 0.6 * f.label + 0.5 * f.description + 0.2 * phrase(&q, &desc);
+            if let Some(p) = &opts.period {
+                if view.billable_in(o, p) {
+                    s += 0.1;
+                }
+            }
+            if let Some(near) = &opts.near {
+                s += 0.05 * shared_start(near, &view.code(o)).min(4) as f32;
+            }
+            Hit {
+                ord: o,
+                score: s,
+                fit: f,
+            }
+        })
+        .collect();
+    hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
+    hits.truncate(opts.limit.max(1));
+    hits
+}
+
+/// Characters two codes share at the start.
+pub fn shared_start(a: &str, b: &str) -> usize {
+    a.bytes().zip(b.bytes()).take_while(|(x, y)| x == y).count()
+}
+
+/// Share of neighbouring query word pairs that also stand side by side in
+/// the description (a whole-phrase match scores 1).
+fn phrase(q: &[String], desc: &[String]) -> f32 {
+    if q.len() < 2 {
+        return 0.0;
+    }
+    let pairs = q
+        .windows(2)
+        .filter(|p| desc.windows(2).any(|d| d[0] == p[0] && d[1] == p[1]))
+        .count();
+    pairs as f32 / (q.len() - 1) as f32
+}
+
+fn fit_words(
+    view: &View<'_>,
+    q: &[String],
+    weights: &[f32],
+    desc: &[String],
+    ord: u32,
+    other_wordings: bool,
+    idf_cache: &mut std::collections::HashMap<String, f32>,
+) -> Fit {
+    let n = view.len() as u32;
+    let mut have = 0f32;
+    let mut all = 0f32;
+    for (w, &wt) in q.iter().zip(weights) {
+        all += wt;
+        let mut got = desc.iter().map(|d| same_word(w, d)).fold(0.0, f32::max);
+        if got < 1.0 && other_wordings && in_posting(view, w, ord) {
+            got = 1.0;
+        }
+        have += wt * got;
+    }
+    let mut dhave = 0f32;
+    let mut dall = 0f32;
+    let mut dseen = std::collections::HashSet::new();
+    for d in desc {
+        if !dseen.insert(d) {
+            continue;
+        }
+        let wt = match idf_cache.get(d.as_str()) {
+            Some(&w) => w,
+            None => {
+                let w = idf(n, view.word_codes(d).max(1));
+                idf_cache.insert(d.clone(), w);
+                w
+            }
+        };
+        dall += wt;
+        dhave += wt * q.iter().map(|w| same_word(w, d)).fold(0.0, f32::max);
+    }
+    Fit {
+        label: if all > 0.0 { have / all } else { 0.0 },
+        description: if dall > 0.0 { dhave / dall } else { 0.0 },
+    }
+}
+
+/// Whether the code's words (description and other wordings) include `w`.
+fn in_posting(view: &View<'_>, w: &str, ord: u32) -> bool {
+    let Some(off) = view.words().get(w) else {
+        return false;
+    };
+    view.posting(off)
+        .take_while(|&o| o <= ord)
+        .any(|o| o == ord)
+}
+
+/// How well `label` fits the code at `ord`: its words against the official
+/// description and, for the label's share, the code's other official
+/// wordings too (inclusion terms, older descriptions).
+pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
+    let mut q = words::words(label);
+    let mut seen = std::collections::HashSet::new();
+    q.retain(|w| seen.insert(w.clone()));
+    let n = view.len() as u32;
+    let weights: Vec<f32> = q
+        .iter()
+        .map(|w| idf(n, view.word_codes(w).max(1)))
+        .collect();
+    let desc = words::words(&view.description(ord));
+    fit_words(
+        view,
+        &q,
+        &weights,
+        &desc,
+        ord,
+        true,
+        &mut Default::default(),
+    )
+}
+
+/// A code found by [`find`], ready to show (its JSON form is part of the
+/// `rollcall find --format json` output and the page's search results).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Found {
+    /// The code, dotted (`E11.65`).
+    pub code: String,
+    /// Its official description.
+    pub description: String,
+    /// On the day asked about: `billable`, `header`, or `not-in-use`.
+    pub status: &'static str,
+    /// First day it was billable, if ever.
+    pub billable_from: Option<Date>,
+    /// Last day it was billable, if ever (the end of the index's coverage
+    /// when it still is).
+    pub billable_to: Option<Date>,
+    /// Share of the query's words found in its description (0 to 1, two decimals).
+    pub fit: f64,
+}
+
+/// Codes for the words of `query` as of `day`, best first; the last word is
+/// taken as a prefix when `typing` (search as you type). Codes in use on
+/// `day` are preferred.
+pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Vec<Found> {
+    let opts = SearchOptions {
+        limit,
+        prefix_last: typing,
+        period: Some(Period::new(day, day)),
+        near: None,
+    };
+    search(view, query, &opts)
+        .into_iter()
+        .map(|h| {
+            let o = h.ord;
+            let status = if view.billable(o).any(|p| p.contains(day)) {
+                "billable"
+            } else if view.header(o).any(|p| p.contains(day)) {
+                "header"
+            } else {
+                "not-in-use"
+            };
+            Found {
+                code: view.display(&view.code(o)),
+                description: view.description(o),
+                status,
+                billable_from: view.billable(o).map(|p| p.from).min(),
+                billable_to: view.billable(o).map(|p| p.to).max(),
+                fit: (h.fit.label as f64 * 100.0).round() / 100.0,
+            }
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_edit_automaton_accepts_words_within_its_edits() {
+        let aut = Edits {
+            word: b"femur",
+            most: 1,
+        };
+        let run = |w: &[u8]| {
+            let mut st = aut.start();
+            for &b in w {
+                st = aut.accept(&st, b);
+            }
+            aut.is_match(&st)
+        };
+        assert!(run(b"femur") && run(b"femor") && run(b"femurs") && run(b"emur"));
+        assert!(!run(b"fenor") && !run(b"lemon"));
+    }
+
+    #[test]
+    fn edit_distance() {
+        assert_eq!(edits("hyperglycemia", "hyperglycaemia"), 1);
+        assert_eq!(edits("kitten", "sitting"), 3);
+        assert_eq!(same_word("diabete", "diabete"), 1.0);
+        assert_eq!(same_word("type", "tape"), 0.0);
+        assert_eq!(same_word("femur", "femor"), MISSPELT);
+        assert_eq!(same_word("hyperglycemia", "hypoglycemia"), 0.0);
+    }
+}

@@ -1,0 +1,87 @@
+// The word search box: codes whose official wording fits the words typed,
+// suggested as you type (the worker's Checker.find), each with its status
+// today, the days it was billable, and a button that adds it to the list.
+//
+// The page hands in two functions: `ask(type, payload)` (a worker request)
+// and `addToList(code, description)`.
+
+const $ = (id) => document.getElementById(id);
+
+function text(tag, className, content) {
+  const el = document.createElement(tag);
+  if (className) el.className = className;
+  el.textContent = content;
+  return el;
+}
+
+const STATUS_WORDS = {
+  billable: "billable today",
+  header: "header today (not billable)",
+  "not-in-use": "not in use today",
+};
+
+/** Fill the results list (built with DOM nodes: descriptions are data, not markup). */
+function show(list, status, query, found, addToList) {
+  list.replaceChildren();
+  if (!query.trim()) {
+    status.textContent = "";
+    return;
+  }
+  if (!found.results.length) {
+    status.textContent = `No code fits “${query}”.`;
+    return;
+  }
+  status.textContent = `${found.results.length} codes for “${query}”, best first.`;
+  for (const r of found.results) {
+    const li = document.createElement("li");
+    li.className = "search-result";
+    li.append(text("code", "search-code", r.code), " ");
+    li.append(text("span", "search-desc", r.description), " ");
+    li.append(text("span", `search-status status-${r.status}`, STATUS_WORDS[r.status] || r.status), " ");
+    const span = r.billable_from
+      ? `billable ${r.billable_from} to ${r.billable_to}`
+      : "never billable (a header only)";
+    li.append(text("span", "search-dates", span), " ");
+    const add = text("button", "search-add", "Add to list");
+    add.type = "button";
+    add.setAttribute("aria-label", `Add ${r.code} to the list`);
+    add.addEventListener("click", () => addToList(r.code, r.description));
+    li.append(add);
+    list.append(li);
+  }
+}
+
+/** Wire the search box (a no-op if the page has none). */
+export function initSearch({ ask, addToList }) {
+  const input = $("word-search");
+  const list = $("search-results");
+  const status = $("search-status");
+  if (!input || !list || !status) return;
+  let timer = 0;
+  let asked = 0;
+  const run = async () => {
+    const query = input.value;
+    const mine = ++asked;
+    if (!query.trim()) {
+      show(list, status, "", { results: [] }, addToList);
+      return;
+    }
+    try {
+      const found = await ask("find", { query, limit: 10 });
+      if (mine === asked) show(list, status, query, found, addToList);
+    } catch (e) {
+      if (mine === asked) status.textContent = `Search failed: ${e.message}`;
+    }
+  };
+  input.addEventListener("input", () => {
+    clearTimeout(timer);
+    timer = setTimeout(run, 120);
+  });
+  input.addEventListener("keydown", (e) => {
+    if (e.key === "Enter") {
+      e.preventDefault();
+      clearTimeout(timer);
+      run();
+    }
+  });
+}
