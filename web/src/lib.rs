@@ -490,6 +490,9 @@ pub struct Checker {
     info: IndexInfo,
     /// Category coverage of the last checked list, from the same pass.
     last: Option<Vec<rollcall::CategoryCoverage>>,
+    /// Indexes of other systems, for naming their codes in this one's lists
+    /// (the ICD-9-CM index and its GEMs beside ICD-10-CM).
+    companions: Vec<Index<Vec<u8>>>,
 }
 
 #[wasm_bindgen]
@@ -516,6 +519,7 @@ impl Checker {
             index,
             info,
             last: None,
+            companions: Vec::new(),
         })
     }
 
@@ -528,7 +532,7 @@ impl Checker {
     /// JSON schema and keeps it for [`Checker::coverage`].
     pub fn check(&mut self, text: &str, options: JsCheckOptions) -> Result<JsReport, JsValue> {
         let opts = self.options(options)?;
-        let (report, coverage) = rollcall::check_with_coverage(&self.index, text, &opts);
+        let (report, coverage) = self.checked(text, &opts);
         let out = to_js(&report)?;
         self.last = Some(coverage);
         Ok(out.unchecked_into())
@@ -540,7 +544,7 @@ impl Checker {
     #[wasm_bindgen(js_name = checkJson)]
     pub fn check_json(&mut self, text: &str, options: JsCheckOptions) -> Result<String, JsValue> {
         let opts = self.options(options)?;
-        let (report, coverage) = rollcall::check_with_coverage(&self.index, text, &opts);
+        let (report, coverage) = self.checked(text, &opts);
         let out = serde_json::to_string(&report)
             .map_err(|e| fail("could not hand the result to the page", e))?;
         self.last = Some(coverage);
@@ -559,6 +563,35 @@ impl Checker {
         let opts = self.options(options)?;
         let c = rollcall::compare(&self.index, ("A", text_a), ("B", text_b), &opts);
         serde_json::to_string(&c).map_err(|e| fail("could not hand the result to the page", e))
+    }
+
+    /// Add the index of another system (verified like the main one), so that
+    /// its codes in a list are named with its mapping's targets, as the CLI
+    /// does with the bundled ICD-9-CM index. Returns its vocabulary.
+    #[wasm_bindgen(js_name = addCompanion)]
+    pub fn add_companion(&mut self, bytes: Vec<u8>) -> Result<String, JsValue> {
+        let index = Index::open(bytes).map_err(|e| fail("cannot open the index", e))?;
+        index
+            .verify()
+            .map_err(|e| fail("the index is damaged", e))?;
+        let name = index.meta().vocabulary.clone();
+        self.companions.retain(|c| c.meta().vocabulary != name);
+        self.companions.push(index);
+        Ok(name)
+    }
+
+    fn checked(
+        &self,
+        text: &str,
+        opts: &CheckOptions,
+    ) -> (rollcall::Report, Vec<rollcall::CategoryCoverage>) {
+        if self.companions.is_empty() {
+            return rollcall::check_with_coverage(&self.index, text, opts);
+        }
+        let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
+        let report = rollcall::check_among(&self.index, &views, text, opts);
+        let (_, coverage) = rollcall::check_with_coverage(&self.index, text, opts);
+        (report, coverage)
     }
 
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {

@@ -3,7 +3,9 @@
 
 import { FHIR_ICD10CM } from "./inputs.js";
 
-const SKIPPED = new Set(["blank", "comment", "column-headings"]);
+// Lines left out of the cleaned list: skipped ones, and codes of another
+// system (they belong in a list of their own).
+const SKIPPED = new Set(["blank", "comment", "column-headings", "other-system"]);
 
 /** Each usable code once, in input order: {code, label, description, status, line}. */
 export function cleanedRows(report) {
@@ -50,6 +52,13 @@ export function toJsonReport(report) {
  * The cleaned list as a FHIR R4 ValueSet. Patterns (like E11.*) are not
  * concepts, so they are left out and counted in `leftOut`.
  */
+// FHIR code system URIs (HL7 terminology; the ICD-9-CM and ICD-10-PCS ones from memory).
+const FHIR_SYSTEMS = {
+  icd10cm: FHIR_ICD10CM,
+  icd9cm: "http://hl7.org/fhir/sid/icd-9-cm",
+  icd10pcs: "http://www.cms.gov/Medicare/Coding/ICD10",
+};
+
 export function toValueSet(rows, report) {
   const concept = [];
   let leftOut = 0;
@@ -72,10 +81,10 @@ export function toValueSet(rows, report) {
     name: "CheckedCodeList",
     title: "Code list checked with rollcall",
     description:
-      `ICD-10-CM codes checked ${when}` +
+      `${report.vocabulary === "icd10cm" ? "ICD-10-CM" : report.vocabulary} codes checked ${when}` +
       `${o.billable ? ", billable codes required" : ""}, against index release ${report.index.release}.`,
     compose: {
-      include: [{ system: FHIR_ICD10CM, version: report.index.release, concept }],
+      include: [{ system: FHIR_SYSTEMS[report.vocabulary] || FHIR_ICD10CM, version: report.index.release, concept }],
     },
   };
   return { resource, leftOut };

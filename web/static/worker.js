@@ -82,12 +82,43 @@ function load(bytes, manifest) {
   return info;
 }
 
-function check(text, options) {
+// Other systems' indexes, fetched the first time a list needs one: an
+// ICD-10-CM list with ICD-9-CM codes in it gets the ICD-9-CM index (and its
+// GEMs), verified against its manifest, as the CLI has it built in.
+const companions = new Map(); // vocabulary -> Promise<boolean>
+
+async function companion(name) {
+  if (!companions.has(name)) {
+    companions.set(
+      name,
+      (async () => {
+        try {
+          const manifest = await (await fetch(`./manifest-${name}.json`)).json();
+          const bytes = new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
+          if (wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) return false;
+          checker.addCompanion(bytes);
+          return true;
+        } catch {
+          return false; // not served here (the single-file page): shapes only
+        }
+      })(),
+    );
+  }
+  return companions.get(name);
+}
+
+async function check(text, options) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
   // One JSON string across the boundary is much faster than building the
   // report object by object (see Checker.checkJson).
-  const report = JSON.parse(checker.checkJson(text, options));
+  let report = JSON.parse(checker.checkJson(text, options));
+  const wanted = new Set(
+    report.entries.filter((e) => e.status === "other-system" && e.system === "icd9cm").map((e) => e.system),
+  );
+  if (report.vocabulary === "icd10cm" && wanted.size && !companions.has("icd9cm")) {
+    if (await companion("icd9cm")) report = JSON.parse(checker.checkJson(text, options));
+  }
   const t1 = performance.now();
   const coverage = checker.coverage();
   const t2 = performance.now();
@@ -117,7 +148,7 @@ self.onmessage = async (event) => {
         result = load(msg.bytes, msg.manifest);
         break;
       case "check":
-        result = check(String(msg.text ?? ""), msg.options ?? {});
+        result = await check(String(msg.text ?? ""), msg.options ?? {});
         break;
       case "edit":
         if (!checker) throw new Error("the index is not loaded");

@@ -215,3 +215,23 @@ fn find_gives_codes_for_words_while_typing() {
     let none: serde_json::Value = serde_json::from_str(&c.find("of the", 5).unwrap()).unwrap();
     assert!(none["results"].as_array().unwrap().is_empty());
 }
+
+/// With the ICD-9-CM index added, an ICD-9-CM code in an ICD-10-CM list is
+/// named with its GEM target, as the CLI does (2015 GEMs: 25000 -> E119).
+#[wasm_bindgen_test]
+fn a_companion_index_names_old_codes_with_their_gem_targets() {
+    const ICD9: &[u8] = include_bytes!("../../vocab/icd9cm.rcx");
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    assert_eq!(c.add_companion(ICD9.to_vec()).unwrap(), "icd9cm");
+    let json = c
+        .check_json("250.00\n", options(r#"{"on":"2020-01-01"}"#))
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(v["entries"][0]["status"], "other-system");
+    assert_eq!(v["entries"][0]["system"], "icd9cm");
+    assert_eq!(
+        v["entries"][0]["findings"][0]["suggestions"][0]["code"],
+        "E11.9"
+    );
+    assert!(c.add_companion(vec![1, 2, 3]).is_err());
+}
