@@ -344,8 +344,19 @@ pub fn check_with_reach<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<Reach>) {
+    check_with_reach_among(index, &[], text, options)
+}
+
+/// [`check_with_reach`] with other systems' indexes at hand, as in [`check_among`].
+pub fn check_with_reach_among<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    text: &str,
+    options: &CheckOptions,
+) -> (Report, Vec<Reach>) {
     let want = Want {
         reach: true,
+        others,
         ..Want::default()
     };
     let (report, extras) = run(index, text, options, want);

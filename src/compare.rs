@@ -5,7 +5,7 @@
 //! nearest code of the other list for each difference. The rules are written
 //! out in the README.
 
-use crate::check::{check_with_reach, CheckOptions, EntryKey, Reach};
+use crate::check::{check_with_reach_among, CheckOptions, EntryKey, Reach};
 use crate::index::{Index, View};
 use crate::model::Period;
 use crate::report::{IndexInfo, OptionsInfo, Report, Summary};
@@ -217,10 +217,22 @@ pub fn compare<D: AsRef<[u8]>>(
     b: (&str, &str),
     options: &CheckOptions,
 ) -> Comparison {
+    compare_among(index, &[], a, b, options)
+}
+
+/// [`compare`], with other systems' indexes at hand for the two checks (as
+/// in [`crate::check_among`]).
+pub fn compare_among<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    a: (&str, &str),
+    b: (&str, &str),
+    options: &CheckOptions,
+) -> Comparison {
     let view = index.view();
     let period = options.period();
-    let (report_a, reach_a) = check_with_reach(index, a.1, options);
-    let (report_b, reach_b) = check_with_reach(index, b.1, options);
+    let (report_a, reach_a) = check_with_reach_among(index, others, a.1, options);
+    let (report_b, reach_b) = check_with_reach_among(index, others, b.1, options);
     let set_a = union_of(&reach_a);
     let set_b = union_of(&reach_b);
 

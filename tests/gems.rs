@@ -157,3 +157,20 @@ fn an_old_code_in_a_new_list_gets_its_gem_targets() {
     // E88.00 is dotted the ICD-10-CM way: not read as the ICD-9-CM E880.0.
     assert_ne!(r.entries[1].system.as_deref(), Some("icd9cm"));
 }
+
+/// compare names an old code in either list as check does (2015 GEMs:
+/// 25000 -> E119), and such a line reaches nothing in ICD-10-CM.
+#[test]
+fn compare_checks_with_the_icd9_index_at_hand() {
+    let (i9, cm) = (icd9_index(), index());
+    let c = rollcall::compare::compare_among(
+        &cm,
+        &[i9.view()],
+        ("a", "250.00\n"),
+        ("b", "E11.9\n"),
+        &on("2020-01-01"),
+    );
+    assert_eq!(c.a.report.entries[0].status, Status::OtherSystem);
+    assert_eq!(c.a.report.entries[0].findings[0].suggestions[0].code, "E11.9");
+    assert_eq!((c.agreement.only_a, c.agreement.only_b), (0, 1));
+}

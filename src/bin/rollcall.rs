@@ -5,7 +5,7 @@
 //! input error.
 
 use rollcall::systems::System;
-use rollcall::{check_among, compare, render, CheckOptions, Date, Index, View};
+use rollcall::{check_among, render, CheckOptions, Date, Index, View};
 use std::io::Read;
 use std::process::ExitCode;
 
@@ -279,8 +279,12 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             }
             let (ta, tb) = (read_list(fa)?, read_list(fb)?);
             let c = match target(&a)? {
-                Target::Index(Loaded::Bundled(i)) => compare(&i, (fa, &ta), (fb, &tb), &opts),
-                Target::Index(Loaded::File(i, _)) => compare(&i, (fa, &ta), (fb, &tb), &opts),
+                Target::Index(Loaded::Bundled(i)) => {
+                    rollcall::compare::compare_among(&i, &companions(&i)?, (fa, &ta), (fb, &tb), &opts)
+                }
+                Target::Index(Loaded::File(i, _)) => {
+                    rollcall::compare::compare_among(&i, &companions(&i)?, (fa, &ta), (fb, &tb), &opts)
+                }
                 Target::Shapes(s) => {
                     return Err(format!(
                         "compare needs the content of the system; rollcall has no {} index (bundled: icd10cm, icd10pcs)",

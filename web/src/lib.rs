@@ -561,7 +561,14 @@ impl Checker {
         options: JsCheckOptions,
     ) -> Result<String, JsValue> {
         let opts = self.options(options)?;
-        let c = rollcall::compare(&self.index, ("A", text_a), ("B", text_b), &opts);
+        let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
+        let c = rollcall::compare::compare_among(
+            &self.index,
+            &views,
+            ("A", text_a),
+            ("B", text_b),
+            &opts,
+        );
         serde_json::to_string(&c).map_err(|e| fail("could not hand the result to the page", e))
     }
 
