@@ -441,3 +441,40 @@ fn find_without_words_or_with_a_bad_limit_is_a_usage_error() {
     assert_eq!(o.status.code(), Some(2));
     assert!(err(&o).contains("--limit must be a number"), "{}", err(&o));
 }
+
+/// translate: the 2015 GEMs (forward file: V5867 -> Z794 exact, 25000 ->
+/// E119 approximate); usage errors exit 2.
+#[test]
+fn translate_maps_a_list_and_names_its_outcomes() {
+    let o = rollcall(
+        &[
+            "translate",
+            "-",
+            "--into",
+            "icd10cm",
+            "--on",
+            "2016-01-01",
+            "--format",
+            "json",
+        ],
+        Some("V58.67\n250.00\n"),
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap();
+    assert_eq!(v["entries"][0]["outcome"], "exact");
+    assert_eq!(v["entries"][0]["targets"][0]["code"], "Z79.4");
+    assert_eq!(v["entries"][1]["outcome"], "approximate");
+    let csv = rollcall(
+        &["translate", "-", "--into", "icd10cm", "--format", "csv"],
+        Some("V58.67\n"),
+    );
+    assert!(out(&csv).starts_with("line,source,"));
+    for (args, says) in [
+        (vec!["translate", "-"], "--into"),
+        (vec!["translate", "-", "--into", "loinc"], "--into loinc"),
+    ] {
+        let o = rollcall(&args, Some("V58.67\n"));
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        assert!(err(&o).contains(says), "{args:?}: {}", err(&o));
+    }
+}

@@ -171,6 +171,9 @@ fn compare_checks_with_the_icd9_index_at_hand() {
         &on("2020-01-01"),
     );
     assert_eq!(c.a.report.entries[0].status, Status::OtherSystem);
-    assert_eq!(c.a.report.entries[0].findings[0].suggestions[0].code, "E11.9");
+    assert_eq!(
+        c.a.report.entries[0].findings[0].suggestions[0].code,
+        "E11.9"
+    );
     assert_eq!((c.agreement.only_a, c.agreement.only_b), (0, 1));
 }

@@ -47,14 +47,16 @@ pub fn translation_text(t: &Translation) -> String {
     let m = &t.summary;
     let _ = writeln!(
         s,
-        "\n{} entries: {}; {} distinct targets, {} of them not billable throughout the period",
+        "\n{} entr{}: {}; {} distinct target{}, {} of them not billable throughout the period",
         m.entries,
+        if m.entries == 1 { "y" } else { "ies" },
         m.outcomes
             .iter()
             .map(|(k, v)| format!("{v} {k}"))
             .collect::<Vec<_>>()
             .join(", "),
         m.targets,
+        if m.targets == 1 { "" } else { "s" },
         m.targets_not_valid
     );
     s.push_str("A mapping is a starting point, not an answer: review approximate and combination entries.\n");
