@@ -16,26 +16,10 @@ import zlib from "node:zlib";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-const HERE = path.dirname(new URL(import.meta.url).pathname);
-const ROOT = path.resolve(HERE, "../..");
-const DIST = process.env.DIST || path.join(ROOT, "web/dist");
-const SINGLE = process.env.SINGLE || path.join(ROOT, "web/dist-single/rollcall.html");
-const CLI = process.env.CLI || path.join(ROOT, "target/release/rollcall");
-const DEMO = process.env.DEMO || path.join(ROOT, "demo-data/demo-list.tsv");
-const CHROMIUM = process.env.CHROMIUM || "/usr/bin/chromium";
-const HISTORY = path.join(ROOT, "vocab-build/sources/icd10cm-history-FY2016-FY2027.tsv.gz");
+import { HERE, ROOT, DIST, CLI, DEMO, CHROMIUM, HISTORY, BROWSER_ARGS } from "./env.mjs";
 
-const BROWSER_ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-  "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1",
-];
+const SINGLE = process.env.SINGLE || path.join(ROOT, "web/dist-single/rollcall.html");
+
 
 let server;
 let origin;

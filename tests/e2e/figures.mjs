@@ -9,10 +9,7 @@ import zlib from "node:zlib";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-const HERE = path.dirname(new URL(import.meta.url).pathname);
-const ROOT = path.resolve(HERE, "../..");
-const DIST = process.env.DIST || path.join(ROOT, "web/dist");
-const DEMO = process.env.DEMO || path.join(ROOT, "demo-data/demo-list.tsv");
+import { DIST, DEMO, HISTORY, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
 const RUNS = Number(process.env.RUNS || 5);
 
 const kb = (n) => `${(n / 1024).toFixed(1)} KiB`;
@@ -38,7 +35,6 @@ function sizes() {
 
 // A list as a large study might send: the demo list, then distinct real codes
 // of the release history (every k-th row), each with its description.
-const HISTORY = path.join(ROOT, "vocab-build/sources/icd10cm-history-FY2016-FY2027.tsv.gz");
 let historyRows = null;
 function listOf(n) {
   const demo = fs.readFileSync(DEMO, "utf8").split("\n").filter((l) => l.trim() && !l.startsWith("#"));
@@ -58,10 +54,9 @@ async function main() {
   const origin = `http://127.0.0.1:${server.address().port}/`;
   const profile = fs.mkdtempSync(path.join(os.tmpdir(), "rollcall-fig-"));
   const ctx = await chromium.launchPersistentContext(profile, {
-    executablePath: process.env.CHROMIUM || "/usr/bin/chromium",
+    executablePath: CHROMIUM,
     headless: true,
-    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
-      "--disable-component-update", "--disable-sync", "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1"],
+    args: BROWSER_ARGS,
   });
   try {
     const ready = [];

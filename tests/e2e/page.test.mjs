@@ -12,25 +12,10 @@ import path from "node:path";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-const HERE = path.dirname(new URL(import.meta.url).pathname);
-const ROOT = path.resolve(HERE, "../..");
-const DIST = process.env.DIST || path.join(ROOT, "web/dist");
-const CLI = process.env.CLI || path.join(ROOT, "target/release/rollcall");
-const DEMO = process.env.DEMO || path.join(ROOT, "demo-data/demo-list.tsv");
-const CHROMIUM = process.env.CHROMIUM || "/usr/bin/chromium";
+import { HERE, ROOT, DIST, CLI, DEMO, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
+
 const OUT = path.join(HERE, "out");
 
-export const BROWSER_ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-  '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1',
-];
 
 let server;
 let origin;

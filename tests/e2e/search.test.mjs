@@ -10,24 +10,8 @@ import path from "node:path";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-const HERE = path.dirname(new URL(import.meta.url).pathname);
-const ROOT = path.resolve(HERE, "../..");
-const DIST = process.env.DIST || path.join(ROOT, "web/dist");
-const CLI = process.env.CLI || path.join(ROOT, "target/release/rollcall");
-const CHROMIUM = process.env.CHROMIUM || "/usr/bin/chromium";
+import { DIST, CLI, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
 
-// The same flags as page.test.mjs: no network beyond 127.0.0.1.
-const BROWSER_ARGS = [
-  "--headless",
-  "--no-sandbox",
-  "--disable-gpu",
-  "--disable-quic",
-  "--no-first-run",
-  "--disable-background-networking",
-  "--disable-component-update",
-  "--disable-sync",
-  "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1",
-];
 
 let server;
 let origin;
