@@ -9,7 +9,7 @@ import zlib from "node:zlib";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-import { DIST, DEMO, HISTORY, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
+import { ROOT, DIST, DEMO, HISTORY, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
 const RUNS = Number(process.env.RUNS || 5);
 
 const kb = (n) => `${(n / 1024).toFixed(1)} KiB`;
