@@ -305,8 +305,19 @@ pub fn check_with_coverage<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<CategoryCoverage>) {
+    check_among_with_coverage(index, &[], text, options)
+}
+
+/// [`check_among`], plus the coverage of [`check_with_coverage`], from one pass.
+pub fn check_among_with_coverage<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    text: &str,
+    options: &CheckOptions,
+) -> (Report, Vec<CategoryCoverage>) {
     let want = Want {
         coverage: true,
+        others,
         ..Want::default()
     };
     let (report, extras) = run(index, text, options, want);
@@ -492,25 +503,7 @@ fn run<D: AsRef<[u8]>>(
         extras.coverage = coverage_of(&view, &period, &ctx.reached);
     }
 
-    let mut summary = Summary {
-        lines: lines.len(),
-        entries: entries.iter().filter(|e| !e.status.skipped()).count(),
-        ..Summary::default()
-    };
-    for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
-        *summary.systems.entry(sys.clone()).or_default() += 1;
-    }
-    let sevs = entries
-        .iter()
-        .flat_map(|e| e.findings.iter().map(|f| f.severity))
-        .chain(list_findings.iter().map(|f| f.severity));
-    for s in sevs {
-        match s {
-            Severity::Error => summary.errors += 1,
-            Severity::Warning => summary.warnings += 1,
-            Severity::Info => summary.infos += 1,
-        }
-    }
+    let summary = Summary::of(lines.len(), &entries, &list_findings);
     let meta = index.meta();
     let report = Report {
         vocabulary: meta.vocabulary.clone(),
@@ -520,12 +513,7 @@ fn run<D: AsRef<[u8]>>(
             coverage_to: meta.coverage_to,
             sources: meta.sources.clone(),
         },
-        options: OptionsInfo {
-            on: (period.from == period.to).then_some(period.from),
-            from: period.from,
-            to: period.to,
-            billable: options.billable,
-        },
+        options: OptionsInfo::of(&period, options.billable),
         entries,
         list_findings,
         summary,
@@ -580,20 +568,6 @@ pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -
         code: view.display(&view.code(ord)),
         description: view.description_or_note(ord),
         reason: reason.into(),
-    }
-}
-
-fn finding(
-    kind: Kind,
-    severity: Severity,
-    message: String,
-    suggestions: Vec<Suggestion>,
-) -> Finding {
-    Finding {
-        kind,
-        severity,
-        message,
-        suggestions,
     }
 }
 
@@ -723,23 +697,29 @@ fn judge(
 ) {
     let title = &view.meta().title;
     let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
+    // A code of another system at hand (ICD-9-CM beside ICD-10-CM).
+    if let Item::Malformed { written, .. } | Item::Unknown { written, .. } = &item {
+        if let Some((system, message, sugg)) = known_elsewhere(view, others, written, period) {
+            e.status = Status::OtherSystem;
+            e.system = Some(system);
+            if matches!(item, Item::Malformed { .. }) {
+                e.code = Some(written.clone());
+            }
+            e.findings.push(Finding::new(
+                Kind::OtherSystem,
+                Severity::Warning,
+                message,
+                sugg,
+            ));
+            return;
+        }
+    }
     match item {
         Item::Skip(s) => e.status = s,
         Item::Unreadable(m) => {
             e.status = Status::Malformed;
             e.findings
-                .push(finding(Kind::Malformed, Severity::Error, m, vec![]));
-        }
-        Item::Malformed { written, .. }
-            if known_elsewhere(view, others, &written, period).is_some() =>
-        {
-            let (system, message, sugg) =
-                known_elsewhere(view, others, &written, period).expect("just checked");
-            e.status = Status::OtherSystem;
-            e.system = Some(system);
-            e.code = Some(written);
-            e.findings
-                .push(finding(Kind::OtherSystem, Severity::Warning, message, sugg));
+                .push(Finding::new(Kind::Malformed, Severity::Error, m, vec![]));
         }
         Item::Malformed { reason, written } => {
             let undotted = written.to_ascii_uppercase().replace('.', "");
@@ -763,11 +743,11 @@ fn judge(
                     if let [one] = systems.as_slice() {
                         e.system = Some(one.name().to_string());
                     }
-                    finding(Kind::OtherSystem, Severity::Warning, message, sugg)
+                    Finding::new(Kind::OtherSystem, Severity::Warning, message, sugg)
                 }
                 None => {
                     e.status = Status::Malformed;
-                    finding(Kind::Malformed, Severity::Error, reason, sugg)
+                    Finding::new(Kind::Malformed, Severity::Error, reason, sugg)
                 }
             };
             memo.malformed
@@ -779,7 +759,7 @@ fn judge(
             e.status = Status::Pattern;
             e.code = Some(shown.clone());
             if matched.is_empty() {
-                e.findings.push(finding(
+                e.findings.push(Finding::new(
                     Kind::PatternEmpty,
                     Severity::Error,
                     format!(
@@ -789,7 +769,7 @@ fn judge(
                     vec![],
                 ));
             } else {
-                e.findings.push(finding(
+                e.findings.push(Finding::new(
                     Kind::Pattern,
                     Severity::Info,
                     format!(
@@ -801,16 +781,6 @@ fn judge(
                     vec![],
                 ));
             }
-        }
-        Item::Unknown { written, .. }
-            if known_elsewhere(view, others, &written, period).is_some() =>
-        {
-            let (system, message, sugg) =
-                known_elsewhere(view, others, &written, period).expect("just checked");
-            e.status = Status::OtherSystem;
-            e.system = Some(system);
-            e.findings
-                .push(finding(Kind::OtherSystem, Severity::Warning, message, sugg));
         }
         Item::Unknown { code: c, .. } => {
             e.status = Status::Unknown;
@@ -883,7 +853,7 @@ fn judge(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
                 ));
             }
-            let f = finding(Kind::Unknown, Severity::Error, msg, sugg);
+            let f = Finding::new(Kind::Unknown, Severity::Error, msg, sugg);
             memo.unknown.insert(key, f.clone());
             e.findings.push(f);
         }
@@ -900,7 +870,7 @@ fn judge(
             e.code = Some(shown.clone());
             e.description = Some(view.description_or_note(ord));
             if !changes.is_empty() {
-                e.findings.push(finding(
+                e.findings.push(Finding::new(
                     Kind::Normalized,
                     Severity::Info,
                     format!("\"{written}\" read as {shown} ({})", changes.join(", ")),
@@ -928,7 +898,7 @@ fn judge(
                         let left = &mut memo.label_searches;
                         let f = crate::label::mismatch(view, &key.1, ord, period, left).map(
                             |(msg, sugg)| {
-                                finding(Kind::LabelMismatch, Severity::Warning, msg, sugg)
+                                Finding::new(Kind::LabelMismatch, Severity::Warning, msg, sugg)
                             },
                         );
                         memo.labels.insert(key, f.clone());
@@ -1041,7 +1011,7 @@ fn judge_dates(
         } else {
             Severity::Info
         };
-        e.findings.push(finding(Kind::Header, sev, msg, sugg));
+        e.findings.push(Finding::new(Kind::Header, sev, msg, sugg));
         return;
     }
     if only(None) {
@@ -1114,7 +1084,7 @@ fn judge_dates(
                     }
                 }
                 e.findings
-                    .push(finding(Kind::Retired, Severity::Error, msg, sugg));
+                    .push(Finding::new(Kind::Retired, Severity::Error, msg, sugg));
             }
             (Some(first), _) if first > period.to => {
                 e.status = Status::NotYetValid;
@@ -1148,11 +1118,11 @@ fn judge_dates(
                     ));
                 }
                 e.findings
-                    .push(finding(Kind::NotYetValid, Severity::Error, msg, sugg));
+                    .push(Finding::new(Kind::NotYetValid, Severity::Error, msg, sugg));
             }
             _ => {
                 e.status = Status::Retired;
-                e.findings.push(finding(
+                e.findings.push(Finding::new(
                     Kind::Retired,
                     Severity::Error,
                     format!("{shown} is not in use {span_text}"),
@@ -1233,7 +1203,7 @@ fn judge_dates(
             }
         }
     }
-    e.findings.push(finding(
+    e.findings.push(Finding::new(
         Kind::PartialPeriod,
         Severity::Warning,
         format!(
@@ -1260,7 +1230,7 @@ fn redundant(
         };
         let header_throughout = view.header(a).any(|p| p.covers(period));
         if header_throughout {
-            return Some(finding(
+            return Some(Finding::new(
                 Kind::Redundant,
                 Severity::Warning,
                 format!(
@@ -1274,7 +1244,7 @@ fn redundant(
         }
     }
     match ctx.by_pattern.get(&ord) {
-        Some(&pl) if pl != line => Some(finding(
+        Some(&pl) if pl != line => Some(Finding::new(
             Kind::Redundant,
             Severity::Warning,
             format!("{} is already matched by the pattern on line {pl}", shown()),

@@ -284,6 +284,62 @@ pub struct Report {
     pub summary: Summary,
 }
 
+impl Finding {
+    /// A finding.
+    pub fn new(
+        kind: Kind,
+        severity: Severity,
+        message: String,
+        suggestions: Vec<Suggestion>,
+    ) -> Self {
+        Finding {
+            kind,
+            severity,
+            message,
+            suggestions,
+        }
+    }
+}
+
+impl OptionsInfo {
+    /// The options of a check over `period`.
+    pub fn of(period: &crate::model::Period, billable: bool) -> Self {
+        OptionsInfo {
+            on: (period.from == period.to).then_some(period.from),
+            from: period.from,
+            to: period.to,
+            billable,
+        }
+    }
+}
+
+impl Summary {
+    /// The counts of a finished report: lines, entries, findings by
+    /// severity, entries per system.
+    pub fn of(lines: usize, entries: &[Entry], list_findings: &[ListFinding]) -> Self {
+        let mut summary = Summary {
+            lines,
+            entries: entries.iter().filter(|e| !e.status.skipped()).count(),
+            ..Summary::default()
+        };
+        for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
+            *summary.systems.entry(sys.clone()).or_default() += 1;
+        }
+        let sevs = entries
+            .iter()
+            .flat_map(|e| e.findings.iter().map(|f| f.severity))
+            .chain(list_findings.iter().map(|f| f.severity));
+        for s in sevs {
+            match s {
+                Severity::Error => summary.errors += 1,
+                Severity::Warning => summary.warnings += 1,
+                Severity::Info => summary.infos += 1,
+            }
+        }
+        summary
+    }
+}
+
 impl Report {
     /// Whether any finding is an error (the CLI's exit status 1).
     pub fn has_errors(&self) -> bool {

@@ -9,20 +9,6 @@ use crate::report::*;
 use crate::systems::{shape, Shape, System};
 use std::collections::BTreeMap;
 
-fn finding(
-    kind: Kind,
-    severity: Severity,
-    message: String,
-    suggestions: Vec<Suggestion>,
-) -> Finding {
-    Finding {
-        kind,
-        severity,
-        message,
-        suggestions,
-    }
-}
-
 /// Checks every entry of `text` as a code of `system` by shape.
 pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Report {
     let period = options.period();
@@ -45,10 +31,12 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
             LineKind::Blank => e.status = Status::Blank,
             LineKind::Comment => e.status = Status::Comment,
             LineKind::Headings => e.status = Status::ColumnHeadings,
-            LineKind::Unreadable(m) => {
-                e.findings
-                    .push(finding(Kind::Malformed, Severity::Error, m.clone(), vec![]))
-            }
+            LineKind::Unreadable(m) => e.findings.push(Finding::new(
+                Kind::Malformed,
+                Severity::Error,
+                m.clone(),
+                vec![],
+            )),
             LineKind::Entry { code, label } => {
                 e.label = label.clone();
                 let written = code.trim();
@@ -56,7 +44,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
                     Shape::Fits { code, note } => {
                         e.status = Status::ShapeOnly;
                         e.system = Some(system.name().to_string());
-                        e.findings.push(finding(
+                        e.findings.push(Finding::new(
                             Kind::ShapeOnly,
                             Severity::Info,
                             format!(
@@ -65,7 +53,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
                             vec![],
                         ));
                         if code != written.to_ascii_uppercase() {
-                            e.findings.push(finding(
+                            e.findings.push(Finding::new(
                                 Kind::Normalized,
                                 Severity::Info,
                                 format!("\"{written}\" read as {code}"),
@@ -83,7 +71,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
                         e.status = Status::Ambiguous;
                         e.system = Some(system.name().to_string());
                         e.code = Some(written.to_string());
-                        e.findings.push(finding(
+                        e.findings.push(Finding::new(
                             Kind::Ambiguous,
                             Severity::Warning,
                             reason,
@@ -99,7 +87,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
                     }
                     Shape::Fails { reason } => {
                         e.code = Some(written.to_string());
-                        e.findings.push(finding(
+                        e.findings.push(Finding::new(
                             Kind::Malformed,
                             Severity::Error,
                             format!("\"{written}\" is not a {title} code: {reason}"),
@@ -129,25 +117,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
             suggestions: vec![],
         })
         .collect();
-    let mut summary = Summary {
-        lines: lines.len(),
-        entries: entries.iter().filter(|e| !e.status.skipped()).count(),
-        ..Summary::default()
-    };
-    for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
-        *summary.systems.entry(sys.clone()).or_default() += 1;
-    }
-    for s in entries
-        .iter()
-        .flat_map(|e| e.findings.iter().map(|f| f.severity))
-        .chain(list_findings.iter().map(|f| f.severity))
-    {
-        match s {
-            Severity::Error => summary.errors += 1,
-            Severity::Warning => summary.warnings += 1,
-            Severity::Info => summary.infos += 1,
-        }
-    }
+    let summary = Summary::of(lines.len(), &entries, &list_findings);
     Report {
         vocabulary: system.name().to_string(),
         index: IndexInfo {
@@ -156,12 +126,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
             coverage_to: period.to,
             sources: vec![],
         },
-        options: OptionsInfo {
-            on: (period.from == period.to).then_some(period.from),
-            from: period.from,
-            to: period.to,
-            billable: options.billable,
-        },
+        options: OptionsInfo::of(&period, options.billable),
         entries,
         list_findings,
         summary,

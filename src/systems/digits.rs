@@ -1,13 +1,15 @@
 //! Check-digit schemes: the mod 10 scheme LOINC uses (the Luhn algorithm)
 //! and Verhoeff's dihedral-group scheme that SNOMED CT uses.
 
+use super::all_digits;
+
 /// The mod 10 check digit of a string of digits, as the LOINC Users' Guide
 /// computes it (worked example there: 12345 gives 5): from the right, double
 /// every other digit starting with the rightmost, add up the digits of all
 /// the results, and take what is missing to the next multiple of 10.
 /// `None` when `digits` is empty or holds anything but ASCII digits.
 pub fn luhn_check_digit(digits: &str) -> Option<u8> {
-    if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) {
+    if !all_digits(digits) {
         return None;
     }
     let sum: u32 = digits
@@ -57,7 +59,7 @@ const P: [[u8; 10]; 8] = [
 const INV: [u8; 10] = [0, 4, 3, 2, 1, 5, 6, 7, 8, 9];
 
 fn verhoeff_run(digits: &str, offset: usize) -> Option<u8> {
-    if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) {
+    if !all_digits(digits) {
         return None;
     }
     let mut c = 0u8;

@@ -592,13 +592,8 @@ impl Checker {
         text: &str,
         opts: &CheckOptions,
     ) -> (rollcall::Report, Vec<rollcall::CategoryCoverage>) {
-        if self.companions.is_empty() {
-            return rollcall::check_with_coverage(&self.index, text, opts);
-        }
         let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
-        let report = rollcall::check_among(&self.index, &views, text, opts);
-        let (_, coverage) = rollcall::check_with_coverage(&self.index, text, opts);
-        (report, coverage)
+        rollcall::check::check_among_with_coverage(&self.index, &views, text, opts)
     }
 
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {
