@@ -3,18 +3,11 @@
 mod common;
 
 use common::*;
-use rollcall::model::Period;
 use rollcall::{check, Kind, Status};
 use std::collections::{BTreeMap, BTreeSet};
 
 fn billable_on(d: &str) -> BTreeSet<String> {
-    let index = index();
-    let v = index.view();
-    let p = Period::new(day(d), day(d));
-    (0..v.len() as u32)
-        .filter(|&o| v.billable_in(o, &p))
-        .map(|o| v.code(o))
-        .collect()
+    billable_on_in(&index(), d)
 }
 
 fn headers_on(d: &str) -> BTreeSet<String> {

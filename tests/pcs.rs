@@ -14,15 +14,6 @@ fn pcs() -> Index<Vec<u8>> {
     index
 }
 
-fn billable_on(index: &Index<Vec<u8>>, d: &str) -> BTreeSet<String> {
-    let v = index.view();
-    let p = Period::new(day(d), day(d));
-    (0..v.len() as u32)
-        .filter(|&o| v.billable_in(o, &p))
-        .map(|o| v.code(o))
-        .collect()
-}
-
 /// Source: the official CMS ICD-10-PCS code-description file for FY2024
 /// (icd10pcs-codes-FY2024.txt, 78,603 codes), the October 1 2023 release;
 /// codes added by the April 1 2024 update are billable later in FY2024.
@@ -34,10 +25,10 @@ fn billable_set_on_2023_10_01_equals_the_fy2024_code_file() {
         .collect();
     assert_eq!(file.len(), 78_603);
     let index = pcs();
-    let on_oct_1 = billable_on(&index, "2023-10-01");
+    let on_oct_1 = billable_on_in(&index, "2023-10-01");
     let differ = on_oct_1.symmetric_difference(&file).count();
     assert_eq!((on_oct_1.len(), differ), (78_603, 0));
-    let later = billable_on(&index, "2024-09-30");
+    let later = billable_on_in(&index, "2024-09-30");
     assert!(
         later.len() > file.len(),
         "the April 2024 update added codes"

@@ -131,28 +131,12 @@ proptest! {
     }
 }
 
-/// Nodes of the real index with 2..=40 billable codes under them on the day.
-fn rollup_nodes() -> Vec<String> {
-    let index = index();
-    let v = index.view();
-    let p = Period::new(day("2026-01-01"), day("2026-01-01"));
-    (0..v.len() as u32)
-        .filter(|&o| {
-            let n = (o + 1..v.subtree_end(o))
-                .filter(|&c| v.billable_in(c, &p))
-                .count();
-            (2..=40).contains(&n) && !v.billable_in(o, &p)
-        })
-        .map(|o| v.code(o))
-        .collect()
-}
-
 proptest! {
     #![proptest_config(ProptestConfig::with_cases(48))]
 
     #[test]
     fn a_roll_up_expands_to_exactly_the_codes_it_replaces(pick in 0usize..1_000_000, shuffle in any::<u64>()) {
-        let nodes = rollup_nodes();
+        let nodes = roll_up_nodes(&index(), "2026-01-01");
         let node = &nodes[pick % nodes.len()];
         let index = index();
         let v = index.view();

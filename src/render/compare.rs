@@ -1,6 +1,6 @@
 //! Text and CSV forms of a comparison (JSON is its serde form).
 
-use super::{counts, csv_cell, line_label, write_findings};
+use super::{counts, csv_cell, line_label, when, write_findings};
 use crate::compare::{Comparison, Difference, Side};
 use std::fmt::Write;
 
@@ -29,19 +29,7 @@ pub fn comparison_text(c: &Comparison) -> String {
         "rollcall: two {} lists compared against release {} (coverage {} to {})",
         c.vocabulary, c.index.release, c.index.coverage_from, c.index.coverage_to
     );
-    let _ = writeln!(
-        s,
-        "{}{}",
-        match o.on {
-            Some(d) => format!("on {d}"),
-            None => format!("study period {} to {}", o.from, o.to),
-        },
-        if o.billable {
-            ", billable codes required"
-        } else {
-            ""
-        }
-    );
+    let _ = writeln!(s, "{}", when(o));
     for (w, side) in [("A", &c.a), ("B", &c.b)] {
         let _ = writeln!(
             s,

@@ -93,19 +93,7 @@ pub fn text(report: &Report) -> String {
             report.index.coverage_to
         );
     }
-    let _ = writeln!(
-        s,
-        "{}{}",
-        match o.on {
-            Some(d) => format!("on {d}"),
-            None => format!("study period {} to {}", o.from, o.to),
-        },
-        if o.billable {
-            ", billable codes required"
-        } else {
-            ""
-        }
-    );
+    let _ = writeln!(s, "{}", when(o));
     write_findings(&mut s, report, "");
     let m = &report.summary;
     let _ = writeln!(
@@ -119,6 +107,23 @@ pub fn text(report: &Report) -> String {
         "rollcall helps assemble research code lists; it is not coding or billing advice.\n",
     );
     s
+}
+
+/// `on 2026-01-01` or `study period 2019-01-01 to 2024-12-31`, and whether
+/// billable codes were required: the second line of every text output.
+pub(crate) fn when(o: &crate::report::OptionsInfo) -> String {
+    format!(
+        "{}{}",
+        match o.on {
+            Some(d) => format!("on {d}"),
+            None => format!("study period {} to {}", o.from, o.to),
+        },
+        if o.billable {
+            ", billable codes required"
+        } else {
+            ""
+        }
+    )
 }
 
 /// `2 errors, 1 warning, 0 notes`.

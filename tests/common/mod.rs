@@ -45,6 +45,32 @@ pub fn source(name: &str) -> String {
         .unwrap_or_else(|e| e.into_bytes().into_iter().map(char::from).collect())
 }
 
+/// The undotted codes of `index` billable on the day, in code order.
+pub fn billable_on_in(index: &Index<Vec<u8>>, d: &str) -> std::collections::BTreeSet<String> {
+    let v = index.view();
+    let p = rollcall::Period::new(day(d), day(d));
+    (0..v.len() as u32)
+        .filter(|&o| v.billable_in(o, &p))
+        .map(|o| v.code(o))
+        .collect()
+}
+
+/// Undotted nodes of `index`, not billable on the day, with 2 to 40
+/// billable codes under them that day: places a roll-up can happen.
+pub fn roll_up_nodes(index: &Index<Vec<u8>>, d: &str) -> Vec<String> {
+    let v = index.view();
+    let p = rollcall::Period::new(day(d), day(d));
+    (0..v.len() as u32)
+        .filter(|&o| {
+            let n = (o + 1..v.subtree_end(o))
+                .filter(|&c| v.billable_in(c, &p))
+                .count();
+            (2..=40).contains(&n) && !v.billable_in(o, &p)
+        })
+        .map(|o| v.code(o))
+        .collect()
+}
+
 pub fn day(s: &str) -> Date {
     Date::parse(s).unwrap()
 }
