@@ -264,7 +264,7 @@ pub fn compare_among<D: AsRef<[u8]>>(
 
     let chapters = tally(&view, &both, &only_a, &only_b);
     let mut equivalents = equivalents(&reach_a, &reach_b, false);
-    equivalents.extend(equivalents_flipped(&reach_a, &reach_b));
+    equivalents.extend(self::equivalents(&reach_b, &reach_a, true));
     equivalents.sort_by_key(|e| (e.a_lines.first().copied(), e.b_lines.first().copied()));
 
     Comparison {
@@ -596,10 +596,6 @@ fn equivalents(one: &[Reach], two: &[Reach], flipped: bool) -> Vec<Equivalent> {
         out.push(item);
     }
     out
-}
-
-fn equivalents_flipped(a: &[Reach], b: &[Reach]) -> Vec<Equivalent> {
-    equivalents(b, a, true)
 }
 
 impl Difference {
