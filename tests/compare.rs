@@ -274,6 +274,9 @@ proptest! {
     }
 }
 
+/// Source: the FY2026 tabular list (icd10cm-tabular-2026-04-01.xml): E11.6
+/// holds E11.65 and E11.69 among its twelve billable codes; I10 is a
+/// category of its own.
 #[test]
 fn text_and_csv_name_every_difference() {
     let index = index();
