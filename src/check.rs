@@ -262,7 +262,7 @@ fn known_elsewhere(
 }
 
 /// `a` or `an` before a system's title (`an ICD-10-CM`).
-fn article(title: &str) -> &'static str {
+pub(crate) fn article(title: &str) -> &'static str {
     if title.starts_with(['I', 'H', 'N', 'R', 'A', 'E', 'O']) && !title.starts_with("HCPCS") {
         "an"
     } else {
@@ -394,7 +394,13 @@ fn run<D: AsRef<[u8]>>(
     want: Want<'_, '_>,
 ) -> (Report, Extras) {
     let view = index.view();
-    let period = options.period();
+    let meta = index.meta();
+    // One release only (HPO): judged as of it, whatever the study period.
+    let period = if meta.snapshot() {
+        Period::new(meta.coverage_from, meta.coverage_to)
+    } else {
+        options.period()
+    };
     let (_, lines) = parse_list(text);
 
     // Pass 1: what each line is.
@@ -504,7 +510,6 @@ fn run<D: AsRef<[u8]>>(
     }
 
     let summary = Summary::of(lines.len(), &entries, &list_findings);
-    let meta = index.meta();
     let report = Report {
         vocabulary: meta.vocabulary.clone(),
         index: IndexInfo {
@@ -512,8 +517,12 @@ fn run<D: AsRef<[u8]>>(
             coverage_from: meta.coverage_from,
             coverage_to: meta.coverage_to,
             sources: meta.sources.clone(),
+            notice: meta.notice.clone(),
         },
-        options: OptionsInfo::of(&period, options.billable),
+        options: OptionsInfo {
+            single_release: meta.snapshot(),
+            ..OptionsInfo::of(&period, options.billable)
+        },
         entries,
         list_findings,
         summary,
@@ -527,6 +536,10 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Comment => Item::Skip(Status::Comment),
         LineKind::Headings => Item::Skip(Status::ColumnHeadings),
         LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
+        // `2345-7` in a LOINC index is a code, not a range.
+        LineKind::Entry { code, .. } if view.is_graph() && view.ordinal(code.trim()).is_some() => {
+            code_item(view, code)
+        }
         LineKind::Entry { code, .. } => match pattern::parse(code) {
             Some(Ok(p)) => {
                 let m = p.expand(view, period);
@@ -544,21 +557,25 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
                 reason: m,
                 written: code.trim().to_string(),
             },
-            None => match code::resolve(view, code) {
-                Resolved::Found { ord, changes } => Item::Code {
-                    ord,
-                    changes,
-                    written: code.trim().to_string(),
-                },
-                Resolved::Unknown { code: c } => Item::Unknown {
-                    code: c,
-                    written: code.trim().to_string(),
-                },
-                Resolved::Malformed { reason } => Item::Malformed {
-                    reason,
-                    written: code.trim().to_string(),
-                },
-            },
+            None => code_item(view, code),
+        },
+    }
+}
+
+fn code_item(view: &View<'_>, code: &str) -> Item {
+    match code::resolve(view, code) {
+        Resolved::Found { ord, changes } => Item::Code {
+            ord,
+            changes,
+            written: code.trim().to_string(),
+        },
+        Resolved::Unknown { code: c } => Item::Unknown {
+            code: c,
+            written: code.trim().to_string(),
+        },
+        Resolved::Malformed { reason } => Item::Malformed {
+            reason,
+            written: code.trim().to_string(),
         },
     }
 }
@@ -602,9 +619,9 @@ fn in_list(have: usize, of: usize) -> String {
 
 /// Billable codes under a node on some day of `within`.
 pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<u32> {
-    (ord + 1..view.subtree_end(ord))
-        .filter(|&o| view.billable_in(o, within))
-        .collect()
+    let mut under = view.descendants(ord);
+    under.retain(|&o| view.billable_in(o, within));
+    under
 }
 
 /// The code's status on each part of the period, in order.
@@ -785,12 +802,22 @@ fn judge(
         Item::Unknown { code: c, .. } => {
             e.status = Status::Unknown;
             e.code = Some(view.display(&c));
-            let mut msg = format!(
-                "{} is not an {title} code in any release from {} to {}",
-                view.display(&c),
-                cov.from,
-                cov.to
-            );
+            let mut msg = if cov.from == cov.to {
+                format!(
+                    "{} is not {} {title} code of release {}",
+                    view.display(&c),
+                    article(title),
+                    view.meta().release
+                )
+            } else {
+                format!(
+                    "{} is not {} {title} code in any release from {} to {}",
+                    view.display(&c),
+                    article(title),
+                    cov.from,
+                    cov.to
+                )
+            };
             if let Some(extra) = seventh_note(view, &c) {
                 msg.push_str("; ");
                 msg.push_str(&extra);
@@ -948,6 +975,22 @@ fn judge_dates(
     // The common case first: billable on every day of the period.
     if view.billable(ord).any(|p| p.covers(period)) {
         e.status = Status::Valid;
+        if let Some(word) = view.status(ord) {
+            e.findings.push(Finding::new(
+                Kind::ReleaseStatus,
+                Severity::Warning,
+                format!(
+                    "{shown} is valid, but {} marks it {word}; see the release's notes on that status before using it",
+                    view.meta().title
+                ),
+                vec![],
+            ));
+        }
+        return;
+    }
+    // In no span at all: a term the release keeps only as obsolete (HPO).
+    if view.billable(ord).next().is_none() && view.header(ord).next().is_none() {
+        obsolete(view, ctx, ord, shown, e);
         return;
     }
     let segs = segments(view, ord, period);
@@ -1214,6 +1257,60 @@ fn judge_dates(
     ));
 }
 
+/// A code the release keeps only as retired (obsolete), with its successors
+/// (HPO `replaced_by`) and the codes it suggests to consider.
+fn obsolete(view: &View<'_>, ctx: &ListContext, ord: u32, shown: &str, e: &mut Entry) {
+    e.status = Status::Retired;
+    let meta = view.meta();
+    let mut sugg: Vec<Suggestion> = view
+        .successors(ord)
+        .map(|(s, _)| suggestion(view, s, "its replacement, named by the release"))
+        .collect();
+    let replaced = sugg.len();
+    sugg.extend(view.consider(ord).map(|c| {
+        suggestion(
+            view,
+            c,
+            "the release suggests considering it; review whether it fits",
+        )
+    }));
+    let mut msg = format!(
+        "{shown} is obsolete in {} release {}",
+        meta.title, meta.release
+    );
+    let names = |s: &[Suggestion]| {
+        s.iter()
+            .map(|s| s.code.as_str())
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    if replaced > 0 {
+        msg.push_str(&format!(
+            "; it was replaced by {}",
+            names(&sugg[..replaced])
+        ));
+        let have = view
+            .successors(ord)
+            .filter(|(s, _)| ctx.listed.contains_key(s))
+            .count();
+        if have > 0 {
+            msg.push_str(&format!(" ({})", in_list(have, replaced)));
+        }
+    }
+    if sugg.len() > replaced {
+        msg.push_str(&format!(
+            "; the release suggests considering {}",
+            names(&sugg[replaced..])
+        ));
+    }
+    if sugg.is_empty() {
+        msg.push_str("; the release names no replacement");
+    }
+    sugg.truncate(NAMED_LIMIT);
+    e.findings
+        .push(Finding::new(Kind::Retired, Severity::Error, msg, sugg));
+}
+
 /// A code already covered by a header ancestor (a header throughout the
 /// period) or by a pattern elsewhere in the list.
 fn redundant(
@@ -1228,8 +1325,14 @@ fn redundant(
         let Some(lines) = ctx.listed.get(&a) else {
             continue;
         };
-        let header_throughout = view.header(a).any(|p| p.covers(period));
-        if header_throughout {
+        // A stated hierarchy (HPO): a term stands for everything under it
+        // (the true-path rule), so any listed ancestor in use covers it.
+        let covers = if view.is_graph() {
+            view.billable(a).any(|p| p.covers(period))
+        } else {
+            view.header(a).any(|p| p.covers(period))
+        };
+        if covers {
             return Some(Finding::new(
                 Kind::Redundant,
                 Severity::Warning,
@@ -1294,7 +1397,7 @@ pub struct CategoryCoverage {
 fn coverage_of(view: &View<'_>, period: &Period, reached: &Marks) -> Vec<CategoryCoverage> {
     let mut cats: Vec<u32> = reached
         .into_iter()
-        .filter_map(|&o| std::iter::once(o).chain(view.ancestors(o)).last())
+        .map(|&o| view.category(o))
         .collect::<HashSet<_>>()
         .into_iter()
         .collect();
@@ -1302,7 +1405,7 @@ fn coverage_of(view: &View<'_>, period: &Period, reached: &Marks) -> Vec<Categor
     cats.into_iter()
         .map(|c| {
             let all: Vec<u32> = std::iter::once(c)
-                .chain(c + 1..view.subtree_end(c))
+                .chain(view.descendants(c))
                 .filter(|&o| view.billable_in(o, period))
                 .collect();
             CategoryCoverage {

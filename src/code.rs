@@ -31,6 +31,9 @@ pub enum Resolved {
 /// Reads a code cell. Never fails: every outcome is a [`Resolved`].
 pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
     let written = cell.trim();
+    if view.is_graph() {
+        return resolve_stated(view, written);
+    }
     let title = &view.meta().title;
     if let Some(bad) = written
         .chars()
@@ -106,6 +109,74 @@ pub fn resolve(view: &View<'_>, cell: &str) -> Resolved {
             ),
         }
     }
+}
+
+/// [`resolve`] for a vocabulary that states its own hierarchy (HPO, and the
+/// releases a site imports): codes are matched as written, then upper case,
+/// then in the official form of the system's shape (`HP_0001250` is
+/// `HP:0001250`); an alternate id is read as the code it stands for.
+fn resolve_stated(view: &View<'_>, written: &str) -> Resolved {
+    let title = &view.meta().title;
+    if written.is_empty() {
+        return Resolved::Malformed {
+            reason: format!(
+                "the code cell is empty; write {} {title} code",
+                crate::check::article(title)
+            ),
+        };
+    }
+    let lookup = |code: &str, change: Option<&'static str>| {
+        let mut changes: Vec<&'static str> = change.into_iter().collect();
+        let ord = match view.ordinal(code) {
+            Some(o) => o,
+            None => {
+                let o = view.alias(code)?;
+                changes.push("an alternate id, read as the code it stands for");
+                o
+            }
+        };
+        view.note_code(ord, code);
+        Some(Resolved::Found { ord, changes })
+    };
+    if let Some(r) = lookup(written, None) {
+        return r;
+    }
+    let upper: String = written
+        .chars()
+        .filter(|c| !c.is_whitespace())
+        .collect::<String>()
+        .to_ascii_uppercase();
+    if upper != written {
+        let what = if upper.len() == written.len() {
+            "upper case"
+        } else {
+            "spaces removed"
+        };
+        if let Some(r) = lookup(&upper, Some(what)) {
+            return r;
+        }
+    }
+    let system = crate::systems::System::parse(&view.meta().vocabulary);
+    let code = match system.map(|s| crate::systems::shape(s, written)) {
+        Some(crate::systems::Shape::Fits { code, .. }) => {
+            if code != upper {
+                if let Some(r) = lookup(&code, Some("written in the official form")) {
+                    return r;
+                }
+            }
+            code
+        }
+        Some(crate::systems::Shape::Fails { reason }) => {
+            return Resolved::Malformed {
+                reason: format!(
+                    "\"{written}\" is not {} {title} code: {reason}",
+                    crate::check::article(title)
+                ),
+            }
+        }
+        _ => upper,
+    };
+    Resolved::Unknown { code }
 }
 
 /// A sentence describing the shapes the data has (lengths, first character).

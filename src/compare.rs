@@ -360,7 +360,8 @@ impl<'v, 'a> Grouper<'v, 'a> {
     fn billable_size(&mut self, node: u32) -> usize {
         let (view, period) = (self.view, self.period);
         *self.size.entry(node).or_insert_with(|| {
-            (node..view.subtree_end(node))
+            std::iter::once(node)
+                .chain(view.descendants(node))
                 .filter(|&o| view.billable_in(o, period))
                 .count()
         })
@@ -375,7 +376,8 @@ impl<'v, 'a> Grouper<'v, 'a> {
         let mut i = 0;
         while i < only.len() {
             let mut node = only[i];
-            while let Some(p) = view.parent(node) {
+            // A graph's subtrees are not ranges of `only`: each code is its own run.
+            while let Some(p) = view.parent(node).filter(|_| !view.is_graph()) {
                 let end = view.subtree_end(p);
                 if count_in(only, p, end) == self.billable_size(p) {
                     node = p;
@@ -387,6 +389,17 @@ impl<'v, 'a> Grouper<'v, 'a> {
             let j = i + count_in(&only[i..], node, end);
             let parent = view.parent(node);
             let (within_total, within_only) = match parent {
+                Some(p) if view.is_graph() => {
+                    let under: Vec<u32> = std::iter::once(p)
+                        .chain(view.descendants(p))
+                        .filter(|&o| view.billable_in(o, self.period))
+                        .collect();
+                    let have = under
+                        .iter()
+                        .filter(|o| only.binary_search(o).is_ok())
+                        .count();
+                    (under.len(), have)
+                }
                 Some(p) => (
                     self.billable_size(p),
                     count_in(only, p, view.subtree_end(p)),
@@ -405,11 +418,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
                 })
                 .collect();
             let code = view.display(&view.code(node));
-            let category = std::iter::once(node)
-                .chain(view.ancestors(node))
-                .last()
-                .map(|c| view.display(&view.code(c)))
-                .unwrap_or_default();
+            let category = view.display(&view.code(view.category(node)));
             let chapter = view
                 .section_of(&view.code(node))
                 .and_then(|(_, c)| c)
@@ -448,6 +457,9 @@ fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
     {
         return Some(make(a, Relation::Parent));
     }
+    if view.is_graph() {
+        return nearest_in_graph(view, node, other).map(|(o, r)| make(o, r));
+    }
     let end = view.subtree_end(node);
     let under = other.partition_point(|&o| o <= node);
     if other.get(under).is_some_and(|&o| o < end) {
@@ -480,14 +492,43 @@ fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
     None
 }
 
-/// The per-chapter tally of the three parts.
+/// [`nearest`] in a stated hierarchy, past the ancestors: a code below,
+/// then one sharing a parent, then one of the same category.
+fn nearest_in_graph(view: &View<'_>, node: u32, other: &[u32]) -> Option<(u32, Relation)> {
+    let has = |o: &u32| other.binary_search(o).is_ok();
+    if let Some(c) = view.descendants(node).into_iter().find(has) {
+        return Some((c, Relation::Child));
+    }
+    for p in view.parents(node) {
+        if let Some(s) = view.children(p).find(|c| *c != node && has(c)) {
+            return Some((s, Relation::Sibling));
+        }
+    }
+    let cat = view.category(node);
+    other
+        .iter()
+        .copied()
+        .find(|&o| o != node && view.category(o) == cat)
+        .map(|o| (o, Relation::SameCategory))
+}
+
+/// The per-chapter tally of the three parts (per category in a stated hierarchy).
 fn tally(view: &View<'_>, both: &[u32], only_a: &[u32], only_b: &[u32]) -> Vec<ChapterTally> {
     let mut by: Vec<(usize, ChapterTally)> = Vec::new();
     let chapters = view.chapters();
     for (part, set) in [both, only_a, only_b].into_iter().enumerate() {
         for &o in set {
             let code = view.code(o);
+            let graph = view.is_graph().then(|| view.category(o));
             let (key, name, title) = match view.section_of(&code).map(|(s, _)| s.chapter as usize) {
+                _ if graph.is_some() => {
+                    let c = graph.unwrap_or(o);
+                    (
+                        c as usize,
+                        view.display(&view.code(c)),
+                        view.description_or_note(c),
+                    )
+                }
                 Some(i) if i < chapters.len() => {
                     (i, chapters[i].name.clone(), chapters[i].title.clone())
                 }

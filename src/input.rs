@@ -97,8 +97,9 @@ pub fn code_like(cell: &str) -> bool {
     !t.is_empty()
         && t.len() <= 24
         && t.chars().any(|c| c.is_ascii_digit())
-        && t.chars()
-            .all(|c| c.is_ascii_alphanumeric() || matches!(c, '.' | '*' | '%' | '-' | '–' | ' '))
+        && t.chars().all(|c| {
+            c.is_ascii_alphanumeric() || matches!(c, '.' | '*' | '%' | '-' | '–' | ' ' | ':' | '_')
+        })
         && t.split_whitespace()
             .filter(|w| !matches!(*w, "-" | "–"))
             .count()

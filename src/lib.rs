@@ -51,4 +51,4 @@ pub use report::{
     Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary,
 };
 
-pub use model::{Meta, Period, Release, Source, Span, SpanKind};
+pub use model::{CodeEntry, Hierarchy, Meta, Period, Release, Source, Span, SpanKind};

@@ -69,8 +69,9 @@ fn ancestors_of(view: &View<'_>, marks: &Marks) -> Vec<u32> {
     let mut seen = Marks::new(view.len());
     for &o in marks {
         for a in view.ancestors(o) {
-            if !seen.insert(a) {
-                break; // its ancestors are in already
+            // On a prefix chain, a node already in has its ancestors in too.
+            if !seen.insert(a) && !view.is_graph() {
+                break;
             }
         }
     }
@@ -89,7 +90,7 @@ fn count_under(
     stop_on_unmarked: bool,
 ) -> Option<(usize, usize)> {
     let (mut all, mut have) = (0, 0);
-    for o in n + 1..view.subtree_end(n) {
+    for o in view.descendants(n) {
         if view.billable_in(o, period) {
             all += 1;
             if marks.contains(&o) {
@@ -126,21 +127,43 @@ fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFind
         }
         let u = billable_under(view, n, period);
         let shown = view.display(&view.code(n));
-        let pat = Pattern::Prefix(view.code(n)).display(view);
+        let all = if u.len() == 2 {
+            "both".to_string()
+        } else {
+            format!("all {}", u.len())
+        };
+        // A stated hierarchy: the node itself stands for everything under it.
+        let (message, suggestion) = if view.is_graph() {
+            (
+                format!(
+                    "{all} codes under {shown} are in the list; {shown} stands for them all (and for itself) where a query takes a code with everything under it"
+                ),
+                Suggestion {
+                    code: shown.clone(),
+                    description: view.description_or_note(n),
+                    reason: format!("one code in place of {} lines", u.len()),
+                },
+            )
+        } else {
+            let pat = Pattern::Prefix(view.code(n)).display(view);
+            (
+                format!(
+                    "{all} billable codes under {shown} in the period are in the list; {pat} matches exactly these"
+                ),
+                Suggestion {
+                    code: pat.clone(),
+                    description: view.description_or_note(n),
+                    reason: format!("replaces the {} lines with one pattern", u.len()),
+                },
+            )
+        };
         out.push(ListFinding {
             kind: Kind::RollUp,
             severity: Severity::Info,
             lines: lines_of(ctx, &u),
             codes: codes_of(view, &u),
-            message: format!(
-                "{} billable codes under {shown} in the period are in the list; {pat} matches exactly these",
-                if u.len() == 2 { "both".to_string() } else { format!("all {}", u.len()) }
-            ),
-            suggestions: vec![Suggestion {
-                code: pat.clone(),
-                description: view.description_or_note(n),
-                reason: format!("replaces the {} lines with one pattern", u.len()),
-            }],
+            message,
+            suggestions: vec![suggestion],
         });
     }
     out
@@ -184,9 +207,19 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
             lines: lines_of(ctx, &have),
             codes: codes_of(view, &missing),
             message: format!(
-                "the list has {} of the {} billable codes under {shown} in the period; missing: {}",
+                "the list has {} of the {} {} under {shown}{}; missing: {}",
                 have.len(),
                 u.len(),
+                if view.is_graph() {
+                    "codes"
+                } else {
+                    "billable codes"
+                },
+                if view.meta().snapshot() {
+                    ""
+                } else {
+                    " in the period"
+                },
                 name_codes(view, &missing)
             ),
             suggestions: missing

@@ -96,6 +96,48 @@ pub struct CodeEntry {
     /// inclusion terms). Only their words go into the index (the word map),
     /// so [`crate::Index::to_release`] gives this back empty.
     pub terms: Vec<String>,
+    /// The parents the release states, for a vocabulary whose hierarchy is
+    /// explicit ([`Hierarchy::Explicit`]; several for an ontology such as
+    /// HPO). Empty for a prefix hierarchy, where the parent is the longest
+    /// code that is a proper prefix.
+    pub parents: Vec<String>,
+    /// Codes the release suggests reviewing in place of a retired one
+    /// (HPO `consider`): not successors, only candidates.
+    pub consider: Vec<String>,
+    /// The release's own status word when it qualifies use of a code that is
+    /// still valid (LOINC `DISCOURAGED`, `TRIAL`); empty otherwise.
+    pub status: String,
+}
+
+impl CodeEntry {
+    /// An entry with a code and description and nothing else.
+    pub fn new(code: impl Into<String>, description: impl Into<String>) -> CodeEntry {
+        CodeEntry {
+            code: code.into(),
+            description: description.into(),
+            billable: Vec::new(),
+            header: Vec::new(),
+            successors: Vec::new(),
+            seventh: None,
+            terms: Vec::new(),
+            parents: Vec::new(),
+            consider: Vec::new(),
+            status: String::new(),
+        }
+    }
+}
+
+/// How a vocabulary's hierarchy is stated.
+#[derive(Clone, Copy, PartialEq, Eq, Debug, Default, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Hierarchy {
+    /// By the codes themselves: a code's parent is the longest code of the
+    /// release that is a proper prefix of it (ICD-10-CM, ICD-10-PCS, ICD-9-CM).
+    #[default]
+    Prefix,
+    /// By the release's own parent links ([`CodeEntry::parents`]), which may
+    /// give a code several parents (a directed acyclic graph) or none.
+    Explicit,
 }
 
 /// A chapter of the classification.
@@ -161,9 +203,18 @@ pub struct Meta {
     /// Code shapes seen in the data, one letter per character:
     /// `A` a letter, `9` a digit (`A99.9A` style is written without the dot).
     pub shapes: Vec<String>,
+    /// Credit that the release's licence asks users to see, shown with every
+    /// report (HPO: the consortium, the release version, the licence).
+    pub notice: String,
 }
 
 impl Meta {
+    /// Whether the index holds one release only (its coverage is one day):
+    /// codes are judged as of that release, not over a study period.
+    pub fn snapshot(&self) -> bool {
+        self.coverage_from == self.coverage_to
+    }
+
     /// Where the dot goes in `code` (0: no dot).
     pub fn dot_for(&self, code: &str) -> usize {
         let first = code.chars().next();
@@ -189,6 +240,11 @@ pub struct Release {
     pub seventh: Vec<SeventhRule>,
     /// Mappings to or from other vocabularies (the GEMs).
     pub mappings: Vec<Mapping>,
+    /// How the hierarchy is stated.
+    pub hierarchy: Hierarchy,
+    /// Alternate ids and the code each stands for (HPO `alt_id`), sorted by
+    /// alternate id. An alternate id is read as its code, with a note.
+    pub aliases: Vec<(String, String)>,
 }
 
 /// A mapping between two vocabularies, one row per source-target pair, in

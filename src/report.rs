@@ -69,6 +69,8 @@ pub enum Kind {
     Ambiguous,
     /// The label written beside a code does not fit its official description.
     LabelMismatch,
+    /// Valid, but the release qualifies its use (LOINC `DISCOURAGED`, `TRIAL`).
+    ReleaseStatus,
 }
 
 impl Kind {
@@ -92,6 +94,7 @@ impl Kind {
             Kind::ShapeOnly => "shape-only",
             Kind::Ambiguous => "ambiguous",
             Kind::LabelMismatch => "label-mismatch",
+            Kind::ReleaseStatus => "release-status",
         }
     }
 }
@@ -235,6 +238,9 @@ pub struct IndexInfo {
     pub coverage_to: Date,
     /// Source files.
     pub sources: Vec<Source>,
+    /// Credit the release's licence asks to show (HPO); absent when none.
+    #[serde(skip_serializing_if = "String::is_empty")]
+    pub notice: String,
 }
 
 /// The options a report was made with.
@@ -248,6 +254,10 @@ pub struct OptionsInfo {
     pub to: Date,
     /// Whether billable codes were required.
     pub billable: bool,
+    /// The vocabulary is one release (HPO): codes were judged as of that
+    /// release, `on`, whatever study period was asked for. Absent otherwise.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub single_release: bool,
 }
 
 /// Counts over the whole report.
@@ -309,6 +319,7 @@ impl OptionsInfo {
             from: period.from,
             to: period.to,
             billable,
+            single_release: false,
         }
     }
 }

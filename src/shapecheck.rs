@@ -125,6 +125,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
             coverage_from: period.from,
             coverage_to: period.to,
             sources: vec![],
+            notice: String::new(),
         },
         options: OptionsInfo::of(&period, options.billable),
         entries,

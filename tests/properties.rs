@@ -58,6 +58,9 @@ fn arb_release() -> impl Strategy<Value = Release> {
                         successors,
                         seventh,
                         terms: Vec::new(),
+                        parents: Vec::new(),
+                        consider: Vec::new(),
+                        status: String::new(),
                     }
                 })
                 .collect();
@@ -76,6 +79,7 @@ fn arb_release() -> impl Strategy<Value = Release> {
                     dot_after: 3,
                     dot_rules: vec![('E', 4)],
                     shapes: vec!["A99".into()],
+                    notice: String::new(),
                 },
                 codes,
                 chapters: vec![Chapter {
@@ -115,6 +119,8 @@ fn arb_release() -> impl Strategy<Value = Release> {
                         extensions: vec![('A', format!("rule {i}"))],
                     })
                     .collect(),
+                hierarchy: Default::default(),
+                aliases: Vec::new(),
             }
         })
 }

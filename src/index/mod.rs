@@ -3,6 +3,7 @@
 //! checker needs (code to ordinal through an `fst` map, side tables by ordinal).
 
 mod bytes;
+mod extra;
 mod maps;
 pub mod write;
 
@@ -10,7 +11,8 @@ pub use maps::MapView;
 
 use crate::date::Date;
 use crate::model::{
-    Chapter, CodeEntry, Mapping, Meta, Period, Release, Section, SeventhRule, Source, Successor,
+    Chapter, CodeEntry, Hierarchy, Mapping, Meta, Period, Release, Section, SeventhRule, Source,
+    Successor,
 };
 use crate::sha256;
 use bytes::{u32_at, In};
@@ -133,6 +135,8 @@ pub struct Index<D> {
     tree: Tree,
     /// Where the MAPS section is, if there is one.
     maps: Option<(usize, usize)>,
+    /// Where the optional sections of [`extra`] are.
+    extras: Vec<([u8; 4], (usize, usize))>,
 }
 
 impl<D: AsRef<[u8]>> Index<D> {
@@ -217,6 +221,11 @@ impl<D: AsRef<[u8]>> Index<D> {
             .ok_or(IndexError::Corrupt("word map"))?;
         let post = sec(b"POST", "word postings missing")?;
         let wlen = sec(b"WLEN", "word counts missing")?;
+        let extras: Vec<([u8; 4], (usize, usize))> = [*b"GRPH", *b"CONS", *b"STAT", *b"ALTS"]
+            .into_iter()
+            .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
+            .collect();
+        extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
         let rec_blocks = len.div_ceil(REC_BLOCK);
         let wide = pard.1 == len * 4 && len > 0;
         let col = if wide { 4 } else { 2 };
@@ -257,6 +266,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             meta,
             tree,
             maps,
+            extras,
         })
     }
 
@@ -316,6 +326,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             mappings: self.maps.and_then(|m| maps::read(s(m))).unwrap_or_default(),
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
+            extra: extra::read(|t| slice_of(b, &self.extras, t), l.len, false).unwrap_or_default(),
         }
     }
 
@@ -337,6 +348,12 @@ impl<D: AsRef<[u8]>> Index<D> {
                     .collect(),
                 seventh: v.own_seventh(o),
                 terms: Vec::new(),
+                parents: match v.extra.graph {
+                    Some(_) => v.parents(o).map(|p| v.code(p)).collect(),
+                    None => Vec::new(),
+                },
+                consider: v.consider(o).map(|c| v.code(c)).collect(),
+                status: v.status(o).unwrap_or_default().to_string(),
             })
             .collect();
         Release {
@@ -356,8 +373,25 @@ impl<D: AsRef<[u8]>> Index<D> {
                     rows: m.rows(),
                 })
                 .collect(),
+            hierarchy: if v.is_graph() {
+                Hierarchy::Explicit
+            } else {
+                Hierarchy::Prefix
+            },
+            aliases: v.aliases(),
         }
     }
+}
+
+/// The bytes of an optional section, if the directory has it.
+fn slice_of<'b>(
+    bytes: &'b [u8],
+    at: &[([u8; 4], (usize, usize))],
+    tag: &[u8; 4],
+) -> Option<&'b [u8]> {
+    at.iter()
+        .find(|(t, _)| t == tag)
+        .map(|(_, (o, n))| &bytes[*o..*o + *n])
 }
 
 fn read_meta(b: &[u8]) -> Option<Meta> {
@@ -390,6 +424,11 @@ fn read_meta(b: &[u8]) -> Option<Meta> {
             dot_rules.push((c, r.u8()?));
         }
     }
+    let notice = if r.pos < b.len() {
+        r.str()?.to_string()
+    } else {
+        String::new()
+    };
     Some(Meta {
         vocabulary,
         title,
@@ -400,6 +439,7 @@ fn read_meta(b: &[u8]) -> Option<Meta> {
         dot_after,
         dot_rules,
         shapes,
+        notice,
     })
 }
 
@@ -437,6 +477,42 @@ fn read_tree(b: &[u8]) -> Option<Tree> {
     })
 }
 
+/// Ancestors of a node, from [`View::ancestors`].
+pub struct Ancestors<'v, 'a> {
+    view: &'v View<'a>,
+    /// The next one on a prefix chain.
+    cur: Option<u32>,
+    guard: u32,
+    /// Graph: nodes still to hand out, in order.
+    queue: Vec<u32>,
+    seen: std::collections::HashSet<u32>,
+}
+
+impl Iterator for Ancestors<'_, '_> {
+    type Item = u32;
+    fn next(&mut self) -> Option<u32> {
+        if let Some((parents, _)) = &self.view.extra.graph {
+            let i = self.guard as usize;
+            let n = *self.queue.get(i)?;
+            self.guard += 1;
+            for p in parents.of(n) {
+                if self.seen.insert(p) {
+                    self.queue.push(p);
+                }
+            }
+            return Some(n);
+        }
+        let c = self.cur?;
+        self.guard += 1;
+        self.cur = if self.guard > 64 {
+            None
+        } else {
+            self.view.parent(c)
+        };
+        Some(c)
+    }
+}
+
 /// Lookups over an opened index. Every accessor tolerates a damaged file
 /// (out-of-range reads give empty answers), so an unverified index cannot panic.
 pub struct View<'a> {
@@ -464,6 +540,8 @@ pub struct View<'a> {
     /// Codes already known by ordinal (reading one back from the fst costs
     /// a walk; a check notes the codes it looked up).
     known: std::cell::RefCell<std::collections::HashMap<u32, Box<str>>>,
+    /// The optional sections (stated hierarchy, statuses, alternate ids).
+    extra: extra::Extra<'a>,
 }
 
 impl<'a> View<'a> {
@@ -584,42 +662,155 @@ impl<'a> View<'a> {
             .unwrap_or(0) as usize
     }
 
-    /// The parent node, if any.
+    /// Whether the hierarchy is the release's own parent links (a graph, as
+    /// in HPO) rather than code prefixes.
+    pub fn is_graph(&self) -> bool {
+        self.extra.graph.is_some()
+    }
+
+    /// The parent node, if any (with several parents, the first in code order).
     pub fn parent(&self, ord: u32) -> Option<u32> {
+        if let Some((parents, _)) = &self.extra.graph {
+            return parents.of(ord).next();
+        }
         let d = self.column(self.pard, ord);
         (d != 0 && d <= ord).then(|| ord - d)
     }
 
-    /// Ancestors, nearest first.
-    pub fn ancestors(&self, ord: u32) -> impl Iterator<Item = u32> + '_ {
-        let mut cur = self.parent(ord);
-        let mut guard = 0;
-        std::iter::from_fn(move || {
-            let c = cur?;
-            guard += 1;
-            cur = if guard > 64 { None } else { self.parent(c) };
-            Some(c)
-        })
+    /// Every parent, in code order.
+    pub fn parents(&self, ord: u32) -> impl Iterator<Item = u32> + 'a {
+        let (graph, single) = match &self.extra.graph {
+            Some((parents, _)) => (Some(parents.of(ord)), None),
+            None => (None, self.parent(ord)),
+        };
+        graph.into_iter().flatten().chain(single)
     }
 
-    /// One past the last descendant: the subtree of `ord` is `ord..end`.
+    /// Ancestors, each once, nearest first (breadth first in a graph).
+    pub fn ancestors(&self, ord: u32) -> Ancestors<'_, 'a> {
+        match &self.extra.graph {
+            None => Ancestors {
+                view: self,
+                cur: self.parent(ord),
+                guard: 0,
+                queue: Vec::new(),
+                seen: Default::default(),
+            },
+            Some(_) => {
+                let queue: Vec<u32> = self.parents(ord).collect();
+                let seen = queue.iter().copied().collect();
+                Ancestors {
+                    view: self,
+                    cur: None,
+                    guard: 0,
+                    queue,
+                    seen,
+                }
+            }
+        }
+    }
+
+    /// One past the last descendant by code order: for a prefix hierarchy
+    /// the subtree of `ord` is `ord..end`. A graph's descendants are not a
+    /// range (see [`descendants`](Self::descendants)); there it is `ord + 1`.
     pub fn subtree_end(&self, ord: u32) -> u32 {
+        if self.extra.graph.is_some() {
+            return ord + 1;
+        }
         let size = self.column(self.subt, ord).max(1);
         (ord + size).min(self.len as u32).max(ord + 1)
     }
 
+    /// The category a node belongs to, for tallies: in a prefix hierarchy
+    /// its topmost ancestor (`E11` for `E11.9`); in a stated hierarchy the
+    /// ancestor two levels below the root along first parents (HPO: the
+    /// organ-system branches under "Phenotypic abnormality"), or the node
+    /// itself when it is that high.
+    pub fn category(&self, ord: u32) -> u32 {
+        if self.extra.graph.is_none() {
+            return self.ancestors(ord).last().unwrap_or(ord);
+        }
+        let mut chain = vec![ord];
+        while let Some(p) = self.parent(*chain.last().unwrap_or(&ord)) {
+            if chain.len() > 64 {
+                break;
+            }
+            chain.push(p);
+        }
+        chain[chain.len().saturating_sub(3).min(chain.len() - 1)]
+    }
+
+    /// Every node below `ord`, each once, ascending.
+    pub fn descendants(&self, ord: u32) -> Vec<u32> {
+        let Some((_, children)) = &self.extra.graph else {
+            return (ord + 1..self.subtree_end(ord)).collect();
+        };
+        let mut seen = std::collections::HashSet::new();
+        let mut stack: Vec<u32> = children.of(ord).collect();
+        let mut out = Vec::new();
+        while let Some(n) = stack.pop() {
+            if seen.insert(n) {
+                out.push(n);
+                stack.extend(children.of(n));
+            }
+        }
+        out.sort_unstable();
+        out
+    }
+
     /// Direct children, in code order.
     pub fn children(&self, ord: u32) -> impl Iterator<Item = u32> + '_ {
-        let end = self.subtree_end(ord);
+        let graph = self.extra.graph.as_ref().map(|(_, c)| c.of(ord));
+        let end = if graph.is_some() {
+            ord
+        } else {
+            self.subtree_end(ord)
+        };
         let mut next = ord + 1;
-        std::iter::from_fn(move || {
+        let tree = std::iter::from_fn(move || {
             if next >= end {
                 return None;
             }
             let c = next;
             next = self.subtree_end(c);
             Some(c)
-        })
+        });
+        graph.into_iter().flatten().chain(tree)
+    }
+
+    /// Codes the release suggests considering in place of a retired one.
+    pub fn consider(&self, ord: u32) -> impl Iterator<Item = u32> + 'a {
+        self.extra.consider.of(ord)
+    }
+
+    /// The release's own status word for a code still in use (`DISCOURAGED`).
+    pub fn status(&self, ord: u32) -> Option<&'a str> {
+        extra::status_of(self.extra.status, ord)
+    }
+
+    /// The code an alternate id stands for (HPO `alt_id`), written exactly.
+    pub fn alias(&self, alt: &str) -> Option<u32> {
+        let m = fst::Map::new(self.extra.aliases?).ok()?;
+        m.get(alt.as_bytes())
+            .map(|o| o as u32)
+            .filter(|&o| (o as usize) < self.len)
+    }
+
+    /// Every alternate id with its code, sorted by alternate id.
+    pub fn aliases(&self) -> Vec<(String, String)> {
+        use fst::Streamer;
+        let Some(b) = self.extra.aliases else {
+            return Vec::new();
+        };
+        let Ok(m) = fst::Map::new(b) else {
+            return Vec::new();
+        };
+        let mut out = Vec::new();
+        let mut s = m.stream();
+        while let Some((k, o)) = s.next() {
+            out.push((String::from_utf8_lossy(k).into_owned(), self.code(o as u32)));
+        }
+        out
     }
 
     /// Start of this record's run in a table whose block starts are in

@@ -34,6 +34,9 @@ pub enum WriteError {
     Fst(String),
     /// A count or distance does not fit the format's field.
     TooLarge(String),
+    /// A parent, alternate id or code to consider names no code, or the
+    /// parent links form a cycle.
+    Links(String),
 }
 
 impl std::fmt::Display for WriteError {
@@ -53,6 +56,7 @@ impl std::fmt::Display for WriteError {
             ),
             WriteError::Fst(e) => write!(f, "building the code map failed: {e}"),
             WriteError::TooLarge(e) => write!(f, "the release does not fit the index format ({e})"),
+            WriteError::Links(e) => write!(f, "{e}"),
         }
     }
 }
@@ -106,13 +110,16 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     for s in &m.shapes {
         meta.str(s);
     }
-    // An optional trailing field: files without dot rules end here.
-    if !m.dot_rules.is_empty() {
+    // Optional trailing fields: files without dot rules (and notice) end here.
+    if !m.dot_rules.is_empty() || !m.notice.is_empty() {
         meta.varint(m.dot_rules.len() as u32);
         for (c, n) in &m.dot_rules {
             meta.varint(*c as u32);
             meta.u8(*n);
         }
+    }
+    if !m.notice.is_empty() {
+        meta.str(&m.notice);
     }
     sections.push((*b"META", meta.buf));
 
@@ -134,9 +141,16 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     // CNTS counts per record,
     // SPBK/SCBK where each block of records starts in SPAN/SUCC, SPOF where
     // each record's spans start within its block (span lookups are hot).
-    let parents = parents(codes.iter().map(|c| c.code.as_str()), &ordinal);
-    let ends =
-        crate::model::subtree_ends(&codes.iter().map(|c| c.code.as_str()).collect::<Vec<_>>());
+    // A stated hierarchy goes in GRPH instead (see `extra`): no prefix links.
+    let explicit = release.hierarchy == crate::model::Hierarchy::Explicit;
+    let (parents, ends) = if explicit {
+        (vec![u32::MAX; codes.len()], (1..=codes.len()).collect())
+    } else {
+        (
+            parents(codes.iter().map(|c| c.code.as_str()), &ordinal),
+            crate::model::subtree_ends(&codes.iter().map(|c| c.code.as_str()).collect::<Vec<_>>()),
+        )
+    };
     let mut pard = Out::default();
     let mut subt = Out::default();
     let mut cnts = Out::default();
@@ -272,6 +286,7 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
             super::maps::write(&release.mappings).map_err(WriteError::TooLarge)?,
         ));
     }
+    sections.extend(super::extra::write(release, &ordinal).map_err(WriteError::Links)?);
 
     Ok(assemble(&sections))
 }

@@ -94,6 +94,9 @@ pub fn text(report: &Report) -> String {
         );
     }
     let _ = writeln!(s, "{}", when(o));
+    if !report.index.notice.is_empty() {
+        let _ = writeln!(s, "{}", report.index.notice);
+    }
     write_findings(&mut s, report, "");
     let m = &report.summary;
     let _ = writeln!(
@@ -115,6 +118,9 @@ pub(crate) fn when(o: &crate::report::OptionsInfo) -> String {
     format!(
         "{}{}",
         match o.on {
+            Some(d) if o.single_release => {
+                format!("as of its one release ({d}); study dates do not apply to it")
+            }
             Some(d) => format!("on {d}"),
             None => format!("study period {} to {}", o.from, o.to),
         },

@@ -294,6 +294,9 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
                 .into_iter()
                 .filter(|t| Some(t.as_str()) != desc.get(code.as_str()).copied())
                 .collect(),
+            parents: Vec::new(),
+            consider: Vec::new(),
+            status: String::new(),
         });
     }
     // Successors must name kept nodes.
@@ -346,12 +349,15 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
             dot_after: inp.vocabulary.dot_after,
             dot_rules: inp.vocabulary.dot_rules.to_vec(),
             shapes: shapes.into_iter().collect(),
+            notice: String::new(),
         },
         codes: entries,
         chapters,
         sections,
         seventh: rules,
         mappings: inp.mappings,
+        hierarchy: Default::default(),
+        aliases: Vec::new(),
     }
 }
 

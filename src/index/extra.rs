@@ -1,0 +1,276 @@
+//! Optional sections for vocabularies that state their own hierarchy and
+//! statuses (HPO, and the releases a site imports). Each is written only
+//! when the release has something to put in it, so an ICD index is the same
+//! bytes with or without this module.
+//!
+//! - `GRPH` (present for [`Hierarchy::Explicit`]): parents and children of
+//!   each record as two adjacency tables. A table is `n + 1` u32 offsets
+//!   followed by u32 ordinals; the links of record `i` are
+//!   `ords[off[i]..off[i + 1]]`, ascending.
+//! - `CONS`: codes to consider in place of a retired one, one table as above.
+//! - `STAT`: the release's own status words (a count, the words, then one
+//!   byte per record: 0 for none, `k` for word `k - 1`).
+//! - `ALTS`: an `fst` map from alternate id to the ordinal it stands for.
+//!
+//! [`Hierarchy::Explicit`]: crate::model::Hierarchy::Explicit
+
+use super::bytes::{u32_at, In, Out};
+use crate::model::Release;
+use std::collections::HashMap;
+
+/// One adjacency table over the records, borrowed from the file.
+#[derive(Clone, Copy, Default)]
+pub struct Links<'a> {
+    off: &'a [u8],
+    ords: &'a [u8],
+}
+
+impl<'a> Links<'a> {
+    /// Splits a table of `n` records off the front of `b`; the rest follows.
+    fn read(b: &'a [u8], n: usize, check: bool) -> Option<(Links<'a>, &'a [u8])> {
+        let off_len = (n + 1) * 4;
+        let off = b.get(..off_len)?;
+        let total = u32_at(off, n * 4)? as usize;
+        let ords = b.get(off_len..off_len + total * 4)?;
+        let rest = &b[off_len + total * 4..];
+        if !check {
+            return Some((Links { off, ords }, rest));
+        }
+        let mut prev = 0;
+        for i in 0..=n {
+            let o = u32_at(off, i * 4)?;
+            if o < prev || o as usize > total {
+                return None;
+            }
+            prev = o;
+        }
+        if (0..total).any(|i| u32_at(ords, i * 4).is_none_or(|o| o as usize >= n)) {
+            return None;
+        }
+        Some((Links { off, ords }, rest))
+    }
+
+    /// The links of record `ord` (none for a record out of range).
+    pub fn of(&self, ord: u32) -> impl Iterator<Item = u32> + 'a {
+        let i = ord as usize;
+        let from = u32_at(self.off, i * 4).unwrap_or(0) as usize;
+        let to = u32_at(self.off, i * 4 + 4).unwrap_or(0) as usize;
+        let ords = self.ords;
+        (from..to.max(from)).filter_map(move |k| u32_at(ords, k * 4))
+    }
+}
+
+fn write_links(out: &mut Out, lists: &[Vec<u32>]) {
+    let mut at = 0u32;
+    out.u32(0);
+    for l in lists {
+        at += l.len() as u32;
+        out.u32(at);
+    }
+    for l in lists {
+        for &o in l {
+            out.u32(o);
+        }
+    }
+}
+
+/// What the optional sections hold, decoded on open.
+#[derive(Clone, Copy, Default)]
+pub struct Extra<'a> {
+    /// Parents and children (present only for an explicit hierarchy).
+    pub graph: Option<(Links<'a>, Links<'a>)>,
+    /// Codes to consider for each record.
+    pub consider: Links<'a>,
+    /// The status words and one byte per record.
+    pub status: Option<(&'a [u8], &'a [u8])>,
+    /// Alternate ids.
+    pub aliases: Option<&'a [u8]>,
+}
+
+/// Why a code of a section named no record.
+fn unknown(section: &str, code: &str, what: &str) -> String {
+    format!("{code} names {what} that is not a code of this release ({section})")
+}
+
+/// The optional sections of a release, as `(tag, bytes)`.
+pub fn write(
+    release: &Release,
+    ordinal: &HashMap<&str, u32>,
+) -> Result<Vec<([u8; 4], Vec<u8>)>, String> {
+    let codes = &release.codes;
+    let ords_of = |list: &[String], code: &str, what: &str| -> Result<Vec<u32>, String> {
+        let mut v = list
+            .iter()
+            .map(|c| {
+                ordinal
+                    .get(c.as_str())
+                    .copied()
+                    .ok_or_else(|| unknown(what, code, c))
+            })
+            .collect::<Result<Vec<u32>, String>>()?;
+        v.sort_unstable();
+        v.dedup();
+        Ok(v)
+    };
+    let mut out = Vec::new();
+    if release.hierarchy == crate::model::Hierarchy::Explicit {
+        let mut parents = Vec::with_capacity(codes.len());
+        let mut children = vec![Vec::new(); codes.len()];
+        for (i, c) in codes.iter().enumerate() {
+            let p = ords_of(&c.parents, &c.code, "a parent")?;
+            for &q in &p {
+                if q as usize == i {
+                    return Err(format!("{} names itself as its parent", c.code));
+                }
+                children[q as usize].push(i as u32);
+            }
+            parents.push(p);
+        }
+        if let Some(c) = cycle(&parents) {
+            return Err(format!(
+                "the parent links go round in a circle through {}",
+                codes[c as usize].code
+            ));
+        }
+        let mut g = Out::default();
+        write_links(&mut g, &parents);
+        write_links(&mut g, &children);
+        out.push((*b"GRPH", g.buf));
+    }
+    if codes.iter().any(|c| !c.consider.is_empty()) {
+        let lists = codes
+            .iter()
+            .map(|c| ords_of(&c.consider, &c.code, "a code to consider"))
+            .collect::<Result<Vec<_>, String>>()?;
+        let mut o = Out::default();
+        write_links(&mut o, &lists);
+        out.push((*b"CONS", o.buf));
+    }
+    if codes.iter().any(|c| !c.status.is_empty()) {
+        let mut words: Vec<&str> = codes
+            .iter()
+            .map(|c| c.status.as_str())
+            .filter(|s| !s.is_empty())
+            .collect();
+        words.sort_unstable();
+        words.dedup();
+        if words.len() > 255 {
+            return Err("more than 255 distinct status words".into());
+        }
+        let mut o = Out::default();
+        o.varint(words.len() as u32);
+        for w in &words {
+            o.str(w);
+        }
+        for c in codes {
+            let k = words
+                .iter()
+                .position(|w| *w == c.status)
+                .map_or(0, |k| k + 1);
+            o.u8(k as u8);
+        }
+        out.push((*b"STAT", o.buf));
+    }
+    if !release.aliases.is_empty() {
+        let mut b = fst::MapBuilder::memory();
+        for (alt, code) in &release.aliases {
+            let &o = ordinal
+                .get(code.as_str())
+                .ok_or_else(|| unknown("alternate ids", alt, code))?;
+            if ordinal.contains_key(alt.as_str()) {
+                return Err(format!(
+                    "{alt} is both a code and an alternate id of {code}"
+                ));
+            }
+            b.insert(alt.as_bytes(), o as u64)
+                .map_err(|e| format!("alternate ids: {e} (they must be sorted and distinct)"))?;
+        }
+        out.push((*b"ALTS", b.into_inner().map_err(|e| e.to_string())?));
+    }
+    Ok(out)
+}
+
+/// A record on a cycle of parent links, if there is one.
+fn cycle(parents: &[Vec<u32>]) -> Option<u32> {
+    // 0 unvisited, 1 on the current path, 2 done.
+    let mut state = vec![0u8; parents.len()];
+    for start in 0..parents.len() {
+        if state[start] != 0 {
+            continue;
+        }
+        let mut stack: Vec<(u32, usize)> = vec![(start as u32, 0)];
+        state[start] = 1;
+        while let Some((n, k)) = stack.pop() {
+            if let Some(&p) = parents[n as usize].get(k) {
+                stack.push((n, k + 1));
+                match state[p as usize] {
+                    0 => {
+                        state[p as usize] = 1;
+                        stack.push((p, 0));
+                    }
+                    1 => return Some(p),
+                    _ => {}
+                }
+            } else {
+                state[n as usize] = 2;
+            }
+        }
+    }
+    None
+}
+
+/// Decodes the optional sections found in the directory (`Err` names a
+/// damaged one). With `check`, every offset and ordinal is checked (done once,
+/// when the index is opened); without, only the table sizes.
+pub fn read<'a>(
+    find: impl Fn(&[u8; 4]) -> Option<&'a [u8]>,
+    n: usize,
+    check: bool,
+) -> Result<Extra<'a>, &'static str> {
+    let mut extra = Extra::default();
+    if let Some(b) = find(b"GRPH") {
+        let (parents, rest) = Links::read(b, n, check).ok_or("parent links")?;
+        let (children, _) = Links::read(rest, n, check).ok_or("child links")?;
+        extra.graph = Some((parents, children));
+    }
+    if let Some(b) = find(b"CONS") {
+        extra.consider = Links::read(b, n, check).ok_or("codes to consider")?.0;
+    }
+    if let Some(b) = find(b"STAT") {
+        let mut r = In::new(b);
+        let k = r.varint().ok_or("status words")?;
+        for _ in 0..k {
+            r.str().ok_or("status words")?;
+        }
+        let words = &b[..r.pos];
+        let bytes = r.take(n).ok_or("status words")?;
+        if bytes.iter().any(|&x| x as u32 > k) {
+            return Err("status words");
+        }
+        extra.status = Some((words, bytes));
+    }
+    if let Some(b) = find(b"ALTS") {
+        let m = fst::Map::new(b).map_err(|_| "alternate ids")?;
+        if check && m.as_fst().verify().is_err() {
+            return Err("alternate ids");
+        }
+        extra.aliases = Some(b);
+    }
+    Ok(extra)
+}
+
+/// The status word of record `ord`, if the release gave one.
+pub fn status_of<'a>(status: Option<(&'a [u8], &'a [u8])>, ord: u32) -> Option<&'a str> {
+    let (words, bytes) = status?;
+    let k = *bytes.get(ord as usize)?;
+    if k == 0 {
+        return None;
+    }
+    let mut r = In::new(words);
+    r.varint()?;
+    let mut w = None;
+    for _ in 0..k {
+        w = r.str();
+    }
+    w
+}
