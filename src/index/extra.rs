@@ -92,11 +92,11 @@ fn unknown(section: &str, code: &str, what: &str) -> String {
     format!("{code} names {what} that is not a code of this release ({section})")
 }
 
+/// Tagged section bytes, in file order.
+pub type Sections = Vec<([u8; 4], Vec<u8>)>;
+
 /// The optional sections of a release, as `(tag, bytes)`.
-pub fn write(
-    release: &Release,
-    ordinal: &HashMap<&str, u32>,
-) -> Result<Vec<([u8; 4], Vec<u8>)>, String> {
+pub fn write(release: &Release, ordinal: &HashMap<&str, u32>) -> Result<Sections, String> {
     let codes = &release.codes;
     let ords_of = |list: &[String], code: &str, what: &str| -> Result<Vec<u32>, String> {
         let mut v = list
