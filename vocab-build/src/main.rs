@@ -10,7 +10,9 @@ mod conversion;
 mod error;
 mod gems;
 mod history;
+mod obo;
 mod order;
+mod stated;
 mod tabular;
 mod xml;
 
@@ -27,8 +29,9 @@ vocab-build: write a rollcall index from official ICD-10-CM release files
 
 usage:
   vocab-build                      build the bundled indexes (vocab-build/sources ->
-                                   vocab/icd10cm.rcx and vocab/icd10pcs.rcx)
-  vocab-build [--vocabulary icd10cm|icd10pcs] [FILES...] --out PATH
+                                   vocab/icd10cm.rcx, icd10pcs.rcx, icd9cm.rcx, hpo.rcx)
+  vocab-build [--vocabulary icd10cm|icd10pcs|icd9cm] [FILES...] --out PATH
+  vocab-build --hpo FILE.obo --out PATH
 
 files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in force):
   --history FILE               release-history TSV (code, valid_from, valid_to, description)
@@ -37,6 +40,9 @@ files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in 
   --codes FILE@PERIOD          CMS code-description file (billable codes)
   --conversion FILE            CMS conversion table (effective_date, current_code, previous_code)
   --gems FILE                  a General Equivalence Mappings CSV (either direction), kept in the index
+
+  --hpo FILE                   an HPO release in OBO format (hp.obo): terms, is_a parents,
+                               obsolete terms with replaced_by and consider, alt_ids
 
 Without --history, billable dates come from the order and code files' periods.
 --vocabulary icd10pcs builds an ICD-10-PCS index: no dots, and the hierarchy by
@@ -133,6 +139,7 @@ enum Arg {
     Codes(PathBuf, Period),
     Conversion(PathBuf),
     Gems(PathBuf),
+    Hpo(PathBuf),
 }
 
 fn bundled(dir: &Path) -> Vec<Arg> {
@@ -236,6 +243,7 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             "--history" => out.push(Arg::History(val()?.into())),
             "--conversion" => out.push(Arg::Conversion(val()?.into())),
             "--gems" => out.push(Arg::Gems(val()?.into())),
+            "--hpo" => out.push(Arg::Hpo(val()?.into())),
             "--tabular" => {
                 let (f, p) = dated(val()?)?;
                 out.push(Arg::Tabular(f, p))
@@ -265,6 +273,13 @@ fn run(args: &[String]) -> Result<(), String> {
     if let Some(h) = help {
         print!("{h}");
         return Ok(());
+    }
+    if let [Arg::Hpo(f)] = files.as_slice() {
+        let dest = dest.unwrap_or_else(|| root.join("..").join("vocab").join("hpo.rcx"));
+        return build_hpo(f, &dest, None);
+    }
+    if files.iter().any(|a| matches!(a, Arg::Hpo(_))) {
+        return Err("--hpo builds an index of its own; give it without other files".into());
     }
     if !files.is_empty() {
         let dest = dest.unwrap_or_else(|| {
@@ -301,7 +316,75 @@ fn run(args: &[String]) -> Result<(), String> {
         &vocab.join("icd9cm.rcx"),
         assemble::ICD9CM,
         Some(&sums),
+    )?;
+    build_hpo(
+        &dir.join("hp-2025-01-16.obo.gz"),
+        &vocab.join("hpo.rcx"),
+        Some(&sums),
     )
+}
+
+/// The credit the HPO licence asks for (https://hpo.jax.org/app/license):
+/// name the HPO and its release version, and point to the project.
+fn hpo_notice(release: &str) -> String {
+    format!(
+        "This product uses the Human Phenotype Ontology (HPO), release {release}, from the HPO consortium; find out more at http://www.human-phenotype-ontology.org (licence: https://hpo.jax.org/app/license). Terms and their links are shown as released."
+    )
+}
+
+/// Builds an HPO index from an OBO release file.
+fn build_hpo(file: &Path, dest: &Path, sums: Option<&str>) -> Result<(), String> {
+    let started = std::time::Instant::now();
+    let e = |e: BuildError| e.to_string();
+    let l = load(
+        file,
+        "terms, is_a hierarchy, obsolete terms, alternate ids",
+        sums,
+    )
+    .map_err(e)?;
+    let onto = obo::read(&l.name, &l.text).map_err(e)?;
+    eprintln!(
+        "read {}: {} ({} terms, {} obsolete)",
+        l.name,
+        onto.data_version,
+        onto.terms.len(),
+        onto.obsolete
+    );
+    let release = onto.day.to_string();
+    let about = stated::About {
+        id: "hpo".into(),
+        title: "HPO".into(),
+        notice: hpo_notice(&release),
+        release,
+        day: onto.day,
+        sources: vec![l.source],
+    };
+    let release = stated::build(about, onto.terms).map_err(e)?;
+    write_release(&release, dest, started)
+}
+
+/// Writes the index file and says what it holds.
+fn write_release(
+    release: &rollcall::Release,
+    dest: &Path,
+    started: std::time::Instant,
+) -> Result<(), String> {
+    let bytes = rollcall::index::write::write(release).map_err(|x| x.to_string())?;
+    if let Some(dir) = dest.parent() {
+        std::fs::create_dir_all(dir).map_err(|x| format!("{}: {x}", dir.display()))?;
+    }
+    std::fs::write(dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
+    eprintln!(
+        "wrote {} ({} bytes, {} entries, release {}, coverage {} to {}) in {:.1} s",
+        dest.display(),
+        bytes.len(),
+        release.codes.len(),
+        release.meta.release,
+        release.meta.coverage_from,
+        release.meta.coverage_to,
+        started.elapsed().as_secs_f64()
+    );
+    Ok(())
 }
 
 fn build(
@@ -377,6 +460,7 @@ fn build(
                 inp.mappings.push(m);
                 inp.sources.push(l.source);
             }
+            Arg::Hpo(_) => return Err("--hpo builds an index of its own".into()),
             Arg::Conversion(f) => {
                 let l = load(f, "successors of retired codes", sums).map_err(e)?;
                 inp.conversion = conversion::parse(&l.name, &l.text).map_err(e)?;
@@ -387,22 +471,7 @@ fn build(
     }
     cross_check(&inp);
     let release = assemble::assemble(inp, &mut |line| eprintln!("  {line}"));
-    let bytes = rollcall::index::write::write(&release).map_err(|x| x.to_string())?;
-    if let Some(dir) = dest.parent() {
-        std::fs::create_dir_all(dir).map_err(|x| format!("{}: {x}", dir.display()))?;
-    }
-    std::fs::write(dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
-    eprintln!(
-        "wrote {} ({} bytes, {} entries, release {}, coverage {} to {}) in {:.1} s",
-        dest.display(),
-        bytes.len(),
-        release.codes.len(),
-        release.meta.release,
-        release.meta.coverage_from,
-        release.meta.coverage_to,
-        started.elapsed().as_secs_f64()
-    );
-    Ok(())
+    write_release(&release, dest, started)
 }
 
 /// When the history and a dated file both say what was billable on a day,
