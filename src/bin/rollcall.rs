@@ -18,6 +18,9 @@ const BUNDLED_PCS_NAME: &str = "vocab/icd10pcs.rcx (built into this binary)";
 /// The bundled ICD-9-CM index (final version 32).
 static BUNDLED_ICD9: &[u8] = include_bytes!("../../vocab/icd9cm.rcx");
 const BUNDLED_ICD9_NAME: &str = "vocab/icd9cm.rcx (built into this binary)";
+/// The bundled HPO index (release 2025-01-16).
+static BUNDLED_HPO: &[u8] = include_bytes!("../../vocab/hpo.rcx");
+const BUNDLED_HPO_NAME: &str = "vocab/hpo.rcx (built into this binary)";
 
 const HELP: &str = "\
 rollcall: check a clinical code list against dated ICD-10-CM releases
@@ -37,7 +40,7 @@ usage:
   --on       a single reference date (default: today)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
-  --system   icd10cm (default), icd10pcs or icd9cm: the bundled index of that system; hpo,
+  --system   icd10cm (default), icd10pcs, icd9cm or hpo: the bundled index of that system;
              loinc, snomed, ndc, hcpcs, cpt or rxnorm: checks by shape and check digit only
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
   translate  maps an ICD-9-CM list to ICD-10-CM, or back, with the 2015 GEMs, and judges each
@@ -190,6 +193,9 @@ fn target(a: &Args) -> Result<Target, String> {
             .map(|i| Target::Index(Loaded::Bundled(i)))
             .map_err(|e| e.to_string()),
         (Some(System::Icd9cm), None) => Index::open(BUNDLED_ICD9)
+            .map(|i| Target::Index(Loaded::Bundled(i)))
+            .map_err(|e| e.to_string()),
+        (Some(System::Hpo), None) => Index::open(BUNDLED_HPO)
             .map(|i| Target::Index(Loaded::Bundled(i)))
             .map_err(|e| e.to_string()),
         (Some(s), None) => Ok(Target::Shapes(s)),
@@ -348,6 +354,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                     load_index(None)?,
                     Loaded::Bundled(Index::open(BUNDLED_PCS).map_err(|e| e.to_string())?),
                     Loaded::Bundled(Index::open(BUNDLED_ICD9).map_err(|e| e.to_string())?),
+                    Loaded::Bundled(Index::open(BUNDLED_HPO).map_err(|e| e.to_string())?),
                 ],
             };
             let described: Vec<_> = loaded
@@ -358,6 +365,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                         match i.meta().vocabulary.as_str() {
                             "icd10pcs" => BUNDLED_PCS_NAME.to_string(),
                             "icd9cm" => BUNDLED_ICD9_NAME.to_string(),
+                            "hpo" => BUNDLED_HPO_NAME.to_string(),
                             _ => BUNDLED_NAME.to_string(),
                         },
                         i.bytes().len(),
@@ -378,6 +386,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                                 "coverage_from": meta.coverage_from,
                                 "coverage_to": meta.coverage_to,
                                 "sources": meta.sources,
+                                "notice": meta.notice,
                                 "path": path,
                                 "bytes": size,
                                 "sha256": sum,
@@ -400,8 +409,11 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                                 src.file, src.role, src.sha256
                             ));
                         }
+                        if !meta.notice.is_empty() {
+                            s.push_str(&format!("  notice: {}\n", meta.notice));
+                        }
                     }
-                    s.push_str("checked by shape and check digit only (no content bundled): hpo, loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
+                    s.push_str("checked by shape and check digit only (no content bundled): loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
                     s
                 }
                 f => return Err(format!("--format must be text or json for info, not {f}")),

@@ -83,7 +83,10 @@ impl System {
 
     /// Whether rollcall ships an index of the system's content.
     pub fn bundled(self) -> bool {
-        matches!(self, System::Icd10cm | System::Icd10pcs | System::Icd9cm)
+        matches!(
+            self,
+            System::Icd10cm | System::Icd10pcs | System::Icd9cm | System::Hpo
+        )
     }
 
     /// `a` or `an`, as said before the title.
