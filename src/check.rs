@@ -1266,6 +1266,17 @@ fn obsolete(view: &View<'_>, ctx: &ListContext, ord: u32, shown: &str, e: &mut E
         .successors(ord)
         .map(|(s, _)| suggestion(view, s, "its replacement, named by the release"))
         .collect();
+    // Also an alternate id of a term in use (HPO): that term too.
+    let alias_of = view
+        .alias(&view.code(ord))
+        .filter(|a| !view.successors(ord).any(|(s, _)| s == *a));
+    if let Some(a) = alias_of {
+        sugg.push(suggestion(
+            view,
+            a,
+            "the release also gives it as an alternate id of this term",
+        ));
+    }
     let replaced = sugg.len();
     sugg.extend(view.consider(ord).map(|c| {
         suggestion(
@@ -1289,6 +1300,9 @@ fn obsolete(view: &View<'_>, ctx: &ListContext, ord: u32, shown: &str, e: &mut E
             "; it was replaced by {}",
             names(&sugg[..replaced])
         ));
+        if alias_of.is_some() {
+            msg.push_str(" (the last as an alternate id)");
+        }
         let have = view
             .successors(ord)
             .filter(|(s, _)| ctx.listed.contains_key(s))

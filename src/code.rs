@@ -128,14 +128,16 @@ fn resolve_stated(view: &View<'_>, written: &str) -> Resolved {
     let lookup = |code: &str, change: Option<&'static str>| {
         let mut changes: Vec<&'static str> = change.into_iter().collect();
         let ord = match view.ordinal(code) {
-            Some(o) => o,
+            Some(o) => {
+                view.note_code(o, code);
+                o
+            }
             None => {
                 let o = view.alias(code)?;
                 changes.push("an alternate id, read as the code it stands for");
                 o
             }
         };
-        view.note_code(ord, code);
         Some(Resolved::Found { ord, changes })
     };
     if let Some(r) = lookup(written, None) {

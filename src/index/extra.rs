@@ -177,10 +177,14 @@ pub fn write(release: &Release, ordinal: &HashMap<&str, u32>) -> Result<Sections
             let &o = ordinal
                 .get(code.as_str())
                 .ok_or_else(|| unknown("alternate ids", alt, code))?;
-            if ordinal.contains_key(alt.as_str()) {
-                return Err(format!(
-                    "{alt} is both a code and an alternate id of {code}"
-                ));
+            // A retired code may also be an alternate id (HPO keeps such
+            // stanzas); one in use may not.
+            if let Some(&a) = ordinal.get(alt.as_str()) {
+                if !codes[a as usize].billable.is_empty() {
+                    return Err(format!(
+                        "{alt} is both a code in use and an alternate id of {code}"
+                    ));
+                }
             }
             b.insert(alt.as_bytes(), o as u64)
                 .map_err(|e| format!("alternate ids: {e} (they must be sorted and distinct)"))?;

@@ -98,10 +98,11 @@ pub fn build(about: About, mut terms: Vec<Term>) -> Result<Release, BuildError> 
         }
         for a in &t.alt_ids {
             // An alternate id may also be kept as a retired code of its own
-            // (HPO keeps 387 such stanzas, obsolete and replaced by the term
-            // whose alt_id they are): the retired code's own entry wins.
+            // (HPO keeps 387 such stanzas, obsolete, mostly replaced by the
+            // term whose alt_id they are): the code reads as itself, and the
+            // check names the term too.
             match known.get(a.as_str()) {
-                Some(other) if other.billable.is_empty() => continue,
+                Some(other) if other.billable.is_empty() => {}
                 Some(_) => {
                     return Err(BuildError::at(
                         &t.at.0,

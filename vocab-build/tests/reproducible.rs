@@ -177,3 +177,23 @@ fn a_bad_row_names_its_line() {
     assert!(!out.exists());
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn rebuilding_the_bundled_hpo_index_gives_the_committed_bytes() {
+    let root = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("..");
+    let out = std::env::temp_dir().join(format!("rollcall-rebuild-hpo-{}.rcx", std::process::id()));
+    let status = Command::new(env!("CARGO_BIN_EXE_vocab-build"))
+        .arg("--hpo")
+        .arg(root.join("vocab-build/sources/hp-2025-01-16.obo.gz"))
+        .args(["--out", out.to_str().unwrap()])
+        .status()
+        .unwrap();
+    assert!(status.success());
+    let built = std::fs::read(&out).unwrap();
+    let committed = std::fs::read(root.join("vocab/hpo.rcx")).unwrap();
+    let _ = std::fs::remove_file(&out);
+    assert!(
+        built == committed,
+        "vocab/hpo.rcx is out of date: run `cargo run --release -p vocab-build`"
+    );
+}
