@@ -299,7 +299,7 @@ fn compare_exit_status_and_formats() {
     std::fs::remove_file(a).unwrap();
 }
 
-/// --system: the bundled ICD-10-PCS index (0DTJ4ZZ, FY2024 PCS code file),
+/// --system: the bundled ICD-10-PCS index (0DTJ4ZZ, FY2024 PCS code file), HPO,
 /// shape-only systems (LOINC 2345-7 and its mod 10 check digit, LOINC
 /// Users' Guide), and names that are not systems.
 #[test]
@@ -338,6 +338,22 @@ fn system_option_picks_the_index_or_the_shape_rules() {
     assert_eq!(v["entries"][1]["status"], "malformed");
     assert_eq!(v["summary"]["systems"]["loinc"], 1);
 
+    // The bundled HPO index (hp-2025-01-16.obo: HP:0001250 Seizure; HP:0001425
+    // obsolete, replaced_by HP:0000005).
+    let hpo = rollcall(
+        &["check", "-", "--system", "hpo", "--format", "json"],
+        Some("HP:0001250\nHP:0001425\n"),
+    );
+    assert_eq!(hpo.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_str(&out(&hpo)).unwrap();
+    assert_eq!(v["vocabulary"], "hpo");
+    assert_eq!(v["entries"][0]["status"], "valid");
+    assert_eq!(v["entries"][1]["status"], "retired");
+    assert_eq!(
+        v["entries"][1]["findings"][0]["suggestions"][0]["code"],
+        "HP:0000005"
+    );
+
     for (args, says) in [
         (vec!["check", "-", "--system", "icd11"], "not known"),
         (
@@ -374,7 +390,7 @@ fn system_option_picks_the_index_or_the_shape_rules() {
         .iter()
         .map(|i| i["vocabulary"].as_str().unwrap())
         .collect();
-    assert_eq!(names, ["icd10cm", "icd10pcs", "icd9cm"]);
+    assert_eq!(names, ["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
 }
 
 /// Source: the CDC tabular XML 2026-04-01 (vocab-build/sources): E11.65 is
