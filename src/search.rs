@@ -412,7 +412,8 @@ pub struct Found {
     pub code: String,
     /// Its official description.
     pub description: String,
-    /// On the day asked about: `billable`, `header`, or `not-in-use`.
+    /// On the day asked about: `billable`, `header`, or `not-in-use`; in a
+    /// stated hierarchy (HPO) `in-use` or `retired`.
     pub status: &'static str,
     /// First day it was billable, if ever.
     pub billable_from: Option<Date>,
@@ -427,6 +428,12 @@ pub struct Found {
 /// taken as a prefix when `typing` (search as you type). Codes in use on
 /// `day` are preferred.
 pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Vec<Found> {
+    // A one-release vocabulary (HPO) is as of its release.
+    let day = if view.meta().snapshot() {
+        view.meta().coverage_from
+    } else {
+        day
+    };
     let opts = SearchOptions {
         limit,
         prefix_last: typing,
@@ -437,7 +444,14 @@ pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool)
         .into_iter()
         .map(|h| {
             let o = h.ord;
-            let status = if view.billable(o).any(|p| p.contains(day)) {
+            // A stated hierarchy has no headers: a code is in use or retired.
+            let status = if view.is_graph() {
+                if view.billable(o).any(|p| p.contains(day)) {
+                    "in-use"
+                } else {
+                    "retired"
+                }
+            } else if view.billable(o).any(|p| p.contains(day)) {
                 "billable"
             } else if view.header(o).any(|p| p.contains(day)) {
                 "header"

@@ -496,8 +496,11 @@ fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
     } else {
         let mut s = String::new();
         for f in &found {
-            let span = match (f.billable_from, f.billable_to) {
-                (Some(a), Some(b)) => format!("billable {a} to {b}"),
+            let span = match (f.status, f.billable_from, f.billable_to) {
+                ("in-use", Some(a), Some(b)) if a == b => format!("in use in release {a}"),
+                ("in-use", Some(a), Some(b)) => format!("in use {a} to {b}"),
+                ("retired", None, _) => "obsolete: never in use in this release".into(),
+                (_, Some(a), Some(b)) => format!("billable {a} to {b}"),
                 _ => "never billable".into(),
             };
             s.push_str(&format!(

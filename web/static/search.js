@@ -18,6 +18,8 @@ const STATUS_WORDS = {
   billable: "billable today",
   header: "header today (not billable)",
   "not-in-use": "not in use today",
+  "in-use": "in use in this release",
+  retired: "obsolete in this release",
 };
 
 /** Fill the results list (built with DOM nodes: descriptions are data, not markup). */
@@ -38,9 +40,11 @@ function show(list, status, query, found, addToList) {
     li.append(text("code", "search-code", r.code), " ");
     li.append(text("span", "search-desc", r.description), " ");
     li.append(text("span", `search-status status-${r.status}`, STATUS_WORDS[r.status] || r.status), " ");
-    const span = r.billable_from
-      ? `billable ${r.billable_from} to ${r.billable_to}`
-      : "never billable (a header only)";
+    const span = r.status === "in-use" || r.status === "retired"
+      ? (r.billable_from === r.billable_to && r.billable_from ? `release ${r.billable_from}` : "")
+      : r.billable_from
+        ? `billable ${r.billable_from} to ${r.billable_to}`
+        : "never billable (a header only)";
     li.append(text("span", "search-dates", span), " ");
     const add = text("button", "search-add", "Add to list");
     add.type = "button";
