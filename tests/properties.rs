@@ -166,3 +166,123 @@ proptest! {
         prop_assert_eq!(f.lines.len(), k);
     }
 }
+
+/// A release that states its hierarchy: each code takes parents among the
+/// codes before it (so the links never form a cycle), some codes are
+/// retired with codes to consider, some carry a status word, and some have
+/// alternate ids.
+fn arb_stated_release() -> impl Strategy<Value = Release> {
+    (
+        proptest::collection::btree_set("[A-Z]{2}:[0-9]{1,4}", 1..120),
+        proptest::collection::vec(any::<u32>(), 120),
+    )
+        .prop_map(|(codes, dice)| {
+            let keys: Vec<String> = codes.into_iter().collect();
+            let day = date(0);
+            let codes: Vec<CodeEntry> = keys
+                .iter()
+                .enumerate()
+                .map(|(i, k)| {
+                    let d = dice[i];
+                    let mut e = CodeEntry::new(k.clone(), format!("term {i}"));
+                    if i > 0 {
+                        for n in 0..(d % 3) as usize {
+                            let p = keys[(d as usize / 7 + n * 13) % i].clone();
+                            if !e.parents.contains(&p) {
+                                e.parents.push(p);
+                            }
+                        }
+                        e.parents.sort();
+                    }
+                    if d % 11 == 0 {
+                        e.consider = vec![keys[(d as usize / 3) % keys.len()].clone()];
+                        e.consider.retain(|c| c != k);
+                    } else {
+                        e.billable = vec![Period::new(day, day)];
+                    }
+                    if d % 5 == 1 {
+                        e.status = ["TRIAL", "DISCOURAGED"][(d / 5 % 2) as usize].into();
+                    }
+                    e
+                })
+                .collect();
+            let aliases: Vec<(String, String)> = keys
+                .iter()
+                .enumerate()
+                .filter(|(i, _)| dice[*i] % 4 == 0)
+                .map(|(i, k)| (format!("ALT-{i}"), k.clone()))
+                .collect::<std::collections::BTreeMap<_, _>>()
+                .into_iter()
+                .collect();
+            Release {
+                meta: Meta {
+                    vocabulary: "stated".into(),
+                    title: "Stated".into(),
+                    release: "R1".into(),
+                    coverage_from: day,
+                    coverage_to: day,
+                    sources: vec![],
+                    dot_after: 0,
+                    dot_rules: vec![],
+                    shapes: vec!["AA99".into()],
+                    notice: "Credit line.".into(),
+                },
+                codes,
+                chapters: vec![],
+                sections: vec![],
+                seventh: vec![],
+                mappings: vec![],
+                hierarchy: Hierarchy::Explicit,
+                aliases,
+            }
+        })
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(64))]
+
+    /// The stated hierarchy survives the index, and its walks agree with
+    /// each other: a code is among the descendants of exactly its ancestors.
+    #[test]
+    fn a_stated_hierarchy_round_trips_and_its_walks_agree(release in arb_stated_release()) {
+        let bytes = write(&release).unwrap();
+        let index = Index::open(&bytes[..]).unwrap();
+        index.verify().unwrap();
+        prop_assert_eq!(index.to_release(), release.clone());
+        let v = index.view();
+        prop_assert!(v.is_graph());
+        let n = v.len() as u32;
+        for a in 0..n {
+            let below: BTreeSet<u32> = v.descendants(a).into_iter().collect();
+            for b in 0..n {
+                let above: BTreeSet<u32> = v.ancestors(b).collect();
+                prop_assert_eq!(below.contains(&b), above.contains(&a), "{} {}", a, b);
+            }
+            let kids: BTreeSet<u32> = v.children(a).collect();
+            for k in &kids {
+                prop_assert!(v.parents(*k).any(|p| p == a));
+            }
+        }
+        for (alt, code) in &release.aliases {
+            prop_assert_eq!(v.alias(alt).map(|o| v.code(o)), Some(code.clone()));
+        }
+    }
+}
+
+/// A cycle of parent links is refused with a message naming a code on it.
+#[test]
+fn a_cycle_of_parents_is_refused() {
+    use proptest::strategy::ValueTree;
+    let mut release = arb_stated_release()
+        .new_tree(&mut proptest::test_runner::TestRunner::deterministic())
+        .unwrap()
+        .current();
+    let mut a = CodeEntry::new("AA:1", "a");
+    a.parents = vec!["AA:2".into()];
+    let mut b = CodeEntry::new("AA:2", "b");
+    b.parents = vec!["AA:1".into()];
+    release.codes = vec![a, b];
+    release.aliases.clear();
+    let e = write(&release).unwrap_err().to_string();
+    assert!(e.contains("circle") && e.contains("AA:"), "{e}");
+}
