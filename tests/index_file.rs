@@ -141,3 +141,56 @@ fn every_description_word_lists_its_code() {
         }
     }
 }
+
+/// The same for the sections of a stated hierarchy (the HPO index): bytes
+/// flipped inside the parent and child tables, codes to consider, status
+/// words and alternate ids give an error on open or answers, never a panic
+/// or a walk that does not end (a damaged table may form a cycle).
+#[test]
+fn damaged_graph_sections_never_panic() {
+    let good = std::fs::read(root().join("vocab/hpo.rcx")).unwrap();
+    let u32_at = |b: &[u8], at: usize| u32::from_le_bytes(b[at..at + 4].try_into().unwrap());
+    let count = u32_at(&good, 12) as usize;
+    let ranges: Vec<(usize, usize)> = (0..count)
+        .map(|i| 56 + i * 12)
+        .filter(|&d| [&b"GRPH"[..], b"CONS", b"STAT", b"ALTS"].contains(&&good[d..d + 4]))
+        .map(|d| (u32_at(&good, d + 4) as usize, u32_at(&good, d + 8) as usize))
+        .collect();
+    assert_eq!(ranges.len(), 3, "GRPH, CONS and ALTS are present");
+    let mut seed: u64 = 0x2545f4914f6cdd1d;
+    let mut next = || {
+        seed ^= seed << 13;
+        seed ^= seed >> 7;
+        seed ^= seed << 17;
+        seed
+    };
+    let (mut opened, mut refused) = (0, 0);
+    for round in 0..80 {
+        let mut b = good.clone();
+        for _ in 0..1 + round % 5 {
+            let (off, len) = ranges[next() as usize % ranges.len()];
+            let at = off + next() as usize % len;
+            // Small values keep offsets and ordinals plausible.
+            b[at] = (next() % 4) as u8;
+        }
+        match Index::open(&b[..]) {
+            Ok(idx) => {
+                opened += 1;
+                let r = check(
+                    &idx,
+                    "HP:0001250\nHP:0002069\nHP:0001425\nHP:0000118\nHP:0004715\nHP:0012638\n",
+                    &on("2026-01-01"),
+                );
+                assert_eq!(r.summary.lines, 6);
+                let v = idx.view();
+                for o in [0, 1000, 19_000] {
+                    let _ = v.descendants(o).len();
+                    let _ = v.ancestors(o).count();
+                    let _ = v.category(o);
+                }
+            }
+            Err(_) => refused += 1,
+        }
+    }
+    assert!(opened > 0 && refused > 0, "{opened} opened, {refused} refused");
+}
