@@ -23,6 +23,8 @@ export interface IndexInfo {
   coverage_from: string;
   coverage_to: string;
   sources: { file: string; sha256: string; role: string }[];
+  /** Credit the release's licence asks to show (HPO); empty when none. */
+  notice: string;
   byte_length: number;
   sha256: string;
 }
@@ -177,6 +179,9 @@ pub struct IndexInfo {
     pub coverage_from: String,
     pub coverage_to: String,
     pub sources: Vec<SourceInfo>,
+    /// Credit the release's licence asks to show (HPO); empty when none.
+    #[serde(default)]
+    pub notice: String,
     pub byte_length: u64,
     /// SHA-256 of the index content (everything after the 56-byte header),
     /// as sealed in the header and verified on open.
@@ -218,6 +223,7 @@ pub fn describe_index<D: AsRef<[u8]>>(
                 role: s.role.clone(),
             })
             .collect(),
+        notice: meta.notice.clone(),
         byte_length,
         sha256,
     }
