@@ -36,3 +36,21 @@ for _ in range(runs):
     times.append((time.perf_counter() - t) * 1000)
 print(f"compare Elixhauser (4,690 rows) with itself less CANCER_SOLID, JSON out: median {statistics.median(times):.0f} ms over {runs} runs")
 PY
+# 5. HPO: every term of the release in one list (a stress test of the graph
+#    rules: redundancy through every parent, roll-ups and sibling gaps), and
+#    the index size.
+zcat vocab-build/sources/hp-2025-01-16.obo.gz | sed -n 's/^id: \(HP:[0-9]*\)$/\1/p' > "$tmp/hpo-all.txt"
+python3 - "$tmp" "${RUNS:-15}" vocab/hpo.rcx <<'PY'
+import gzip, subprocess, sys, time, statistics
+tmp, runs, idx = sys.argv[1], int(sys.argv[2]), sys.argv[3]
+cmd = ["target/release/rollcall", "check", f"{tmp}/hpo-all.txt", "--system", "hpo", "--format", "json"]
+times = []
+for _ in range(runs):
+    t = time.perf_counter()
+    subprocess.run(cmd, stdout=subprocess.DEVNULL, check=False)
+    times.append((time.perf_counter() - t) * 1000)
+n = sum(1 for _ in open(f"{tmp}/hpo-all.txt"))
+b = open(idx, "rb").read()
+print(f"check all {n:,} HPO terms in one list, JSON out: median {statistics.median(times):.0f} ms over {runs} runs")
+print(f"HPO index: {len(b):,} bytes; gzip -9 {len(gzip.compress(b, 9)):,}")
+PY
