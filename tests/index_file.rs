@@ -192,5 +192,8 @@ fn damaged_graph_sections_never_panic() {
             Err(_) => refused += 1,
         }
     }
-    assert!(opened > 0 && refused > 0, "{opened} opened, {refused} refused");
+    assert!(
+        opened > 0 && refused > 0,
+        "{opened} opened, {refused} refused"
+    );
 }

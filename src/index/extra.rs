@@ -4,9 +4,9 @@
 //! bytes with or without this module.
 //!
 //! - `GRPH` (present for [`Hierarchy::Explicit`]): parents and children of
-//!   each record as two adjacency tables. A table is `n + 1` u32 offsets
-//!   followed by u32 ordinals; the links of record `i` are
-//!   `ords[off[i]..off[i + 1]]`, ascending.
+//!   each record as two adjacency tables. A table is a width byte (2 or 4),
+//!   `n + 1` offsets and the ordinals, each of that width; the links of
+//!   record `i` are `ords[off[i]..off[i + 1]]`, ascending.
 //! - `CONS`: codes to consider in place of a retired one, one table as above.
 //! - `STAT`: the release's own status words (a count, the words, then one
 //!   byte per record: 0 for none, `k` for word `k - 1`).
@@ -18,58 +18,89 @@ use super::bytes::{u32_at, In, Out};
 use crate::model::Release;
 use std::collections::HashMap;
 
-/// One adjacency table over the records, borrowed from the file.
+/// One adjacency table over the records, borrowed from the file: a width
+/// byte (2 or 4), then `n + 1` offsets and the ordinals, each that wide
+/// (2 when every offset and ordinal fits in 16 bits, as in HPO).
 #[derive(Clone, Copy, Default)]
 pub struct Links<'a> {
     off: &'a [u8],
     ords: &'a [u8],
+    wide: bool,
+}
+
+/// The `i`-th number of a table of 2- or 4-byte numbers.
+fn num(b: &[u8], i: usize, wide: bool) -> Option<u32> {
+    if wide {
+        u32_at(b, i * 4)
+    } else {
+        b.get(i * 2..i * 2 + 2)
+            .map(|x| u16::from_le_bytes([x[0], x[1]]) as u32)
+    }
 }
 
 impl<'a> Links<'a> {
     /// Splits a table of `n` records off the front of `b`; the rest follows.
     fn read(b: &'a [u8], n: usize, check: bool) -> Option<(Links<'a>, &'a [u8])> {
-        let off_len = (n + 1) * 4;
+        let wide = match *b.first()? {
+            2 => false,
+            4 => true,
+            _ => return None,
+        };
+        let w = if wide { 4 } else { 2 };
+        let b = &b[1..];
+        let off_len = (n + 1) * w;
         let off = b.get(..off_len)?;
-        let total = u32_at(off, n * 4)? as usize;
-        let ords = b.get(off_len..off_len + total * 4)?;
-        let rest = &b[off_len + total * 4..];
+        let total = num(off, n, wide)? as usize;
+        let ords = b.get(off_len..off_len + total * w)?;
+        let rest = &b[off_len + total * w..];
+        let links = Links { off, ords, wide };
         if !check {
-            return Some((Links { off, ords }, rest));
+            return Some((links, rest));
         }
         let mut prev = 0;
         for i in 0..=n {
-            let o = u32_at(off, i * 4)?;
+            let o = num(off, i, wide)?;
             if o < prev || o as usize > total {
                 return None;
             }
             prev = o;
         }
-        if (0..total).any(|i| u32_at(ords, i * 4).is_none_or(|o| o as usize >= n)) {
+        if (0..total).any(|i| num(ords, i, wide).is_none_or(|o| o as usize >= n)) {
             return None;
         }
-        Some((Links { off, ords }, rest))
+        Some((links, rest))
     }
 
     /// The links of record `ord` (none for a record out of range).
     pub fn of(&self, ord: u32) -> impl Iterator<Item = u32> + 'a {
-        let i = ord as usize;
-        let from = u32_at(self.off, i * 4).unwrap_or(0) as usize;
-        let to = u32_at(self.off, i * 4 + 4).unwrap_or(0) as usize;
+        let (i, wide) = (ord as usize, self.wide);
+        let from = num(self.off, i, wide).unwrap_or(0) as usize;
+        let to = num(self.off, i + 1, wide).unwrap_or(0) as usize;
         let ords = self.ords;
-        (from..to.max(from)).filter_map(move |k| u32_at(ords, k * 4))
+        (from..to.max(from)).filter_map(move |k| num(ords, k, wide))
     }
 }
 
 fn write_links(out: &mut Out, lists: &[Vec<u32>]) {
+    let total: usize = lists.iter().map(Vec::len).sum();
+    let wide = total > u16::MAX as usize || lists.len() > u16::MAX as usize;
+    out.u8(if wide { 4 } else { 2 });
+    let put = |out: &mut Out, v: u32| {
+        if wide {
+            out.u32(v)
+        } else {
+            out.u16(v as u16)
+        }
+    };
     let mut at = 0u32;
-    out.u32(0);
+    put(out, 0);
     for l in lists {
         at += l.len() as u32;
-        out.u32(at);
+        put(out, at);
     }
     for l in lists {
         for &o in l {
-            out.u32(o);
+            put(out, o);
         }
     }
 }
