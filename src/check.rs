@@ -1262,59 +1262,71 @@ fn judge_dates(
 fn obsolete(view: &View<'_>, ctx: &ListContext, ord: u32, shown: &str, e: &mut Entry) {
     e.status = Status::Retired;
     let meta = view.meta();
-    let mut sugg: Vec<Suggestion> = view
-        .successors(ord)
-        .map(|(s, _)| suggestion(view, s, "its replacement, named by the release"))
-        .collect();
+    let replaced: Vec<u32> = view.successors(ord).map(|(s, _)| s).collect();
     // Also an alternate id of a term in use (HPO): that term too.
     let alias_of = view
         .alias(&view.code(ord))
-        .filter(|a| !view.successors(ord).any(|(s, _)| s == *a));
+        .filter(|a| !replaced.contains(a));
+    let consider: Vec<u32> = view
+        .consider(ord)
+        .filter(|c| !replaced.contains(c) && Some(*c) != alias_of)
+        .collect();
+    let considered_alias = alias_of.is_some_and(|a| view.consider(ord).any(|c| c == a));
+    let mut sugg: Vec<Suggestion> = replaced
+        .iter()
+        .map(|&s| suggestion(view, s, "its replacement, named by the release"))
+        .collect();
     if let Some(a) = alias_of {
         sugg.push(suggestion(
             view,
             a,
-            "the release also gives it as an alternate id of this term",
+            if considered_alias {
+                "the release gives it as an alternate id of this term and suggests considering it"
+            } else {
+                "the release also gives it as an alternate id of this term"
+            },
         ));
     }
-    let replaced = sugg.len();
-    sugg.extend(view.consider(ord).map(|c| {
+    sugg.extend(consider.iter().map(|&c| {
         suggestion(
             view,
             c,
             "the release suggests considering it; review whether it fits",
         )
     }));
+    let names = |ords: &[u32]| name_codes(view, ords);
     let mut msg = format!(
         "{shown} is obsolete in {} release {}",
         meta.title, meta.release
     );
-    let names = |s: &[Suggestion]| {
-        s.iter()
-            .map(|s| s.code.as_str())
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
-    if replaced > 0 {
-        msg.push_str(&format!(
-            "; it was replaced by {}",
-            names(&sugg[..replaced])
-        ));
-        if alias_of.is_some() {
-            msg.push_str(" (the last as an alternate id)");
-        }
-        let have = view
-            .successors(ord)
-            .filter(|(s, _)| ctx.listed.contains_key(s))
+    if !replaced.is_empty() {
+        msg.push_str(&format!("; it was replaced by {}", names(&replaced)));
+        let have = replaced
+            .iter()
+            .filter(|s| ctx.listed.contains_key(s))
             .count();
         if have > 0 {
-            msg.push_str(&format!(" ({})", in_list(have, replaced)));
+            msg.push_str(&format!(" ({})", in_list(have, replaced.len())));
         }
     }
-    if sugg.len() > replaced {
+    if let Some(a) = alias_of {
+        msg.push_str(&format!(
+            "; the release also gives it as an alternate id of {}{}",
+            names(&[a]),
+            if considered_alias {
+                " and suggests considering that term"
+            } else {
+                ""
+            }
+        ));
+        if ctx.listed.contains_key(&a) {
+            msg.push_str(" (in the list)");
+        }
+    }
+    if !consider.is_empty() {
         msg.push_str(&format!(
             "; the release suggests considering {}",
-            names(&sugg[replaced..])
+            names(&consider)
         ));
     }
     if sugg.is_empty() {

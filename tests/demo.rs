@@ -165,3 +165,30 @@ fn demo_comparison_json_snapshot() {
         &(serde_json::to_string_pretty(&demo_pair()).unwrap() + "\n"),
     );
 }
+
+/// The invented genetics-substudy list of HPO terms (demo-data/hpo-phenotypes.tsv)
+/// against the bundled HPO release: what each line shows is checked against
+/// the release file hp-2025-01-16.obo (HP:0005130 obsolete, replaced_by
+/// HP:0001723; HP:0008356 obsolete, an alt_id of HP:0003077 and its consider;
+/// HP:0001639 is_a HP:0001638; HP:0004908 an alt_id of HP:0000819, the parent
+/// of HP:0005978; HP:0000822 is Hypertension), and the text is pinned.
+#[test]
+fn hpo_demo_list_snapshot() {
+    let bytes = std::fs::read(root().join("vocab/hpo.rcx")).unwrap();
+    let index = rollcall::Index::open(bytes).unwrap();
+    let text = std::fs::read_to_string(root().join("demo-data/hpo-phenotypes.tsv")).unwrap();
+    let r = rollcall::check(&index, &text, &demo_options());
+    let kinds = |line: usize| -> Vec<&str> {
+        let e = r.entries.iter().find(|e| e.line == line).unwrap();
+        e.findings.iter().map(|f| f.kind.name()).collect()
+    };
+    assert_eq!(kinds(7), ["retired"]);
+    assert_eq!(kinds(8), ["retired"]);
+    assert_eq!(kinds(6), ["redundant"]);
+    assert_eq!(kinds(10), ["redundant"]);
+    assert_eq!(kinds(11), ["normalized"]);
+    assert_eq!(kinds(12), ["normalized"]);
+    assert_eq!(kinds(14), ["label-mismatch"]);
+    assert_eq!(r.summary.entries, 11);
+    snapshot("demo-hpo.txt", &render::text(&r));
+}
