@@ -35,6 +35,16 @@ impl CheckOptions {
         }
     }
 
+    /// The period a check against an index of `meta` uses: one release
+    /// only (HPO) is judged as of it, whatever the study period.
+    pub fn period_for(&self, meta: &crate::model::Meta) -> Period {
+        if meta.snapshot() {
+            Period::new(meta.coverage_from, meta.coverage_to)
+        } else {
+            self.period()
+        }
+    }
+
     /// The study period as a [`Period`].
     pub fn period(&self) -> Period {
         Period::new(self.from.min(self.to), self.to.max(self.from))
@@ -395,12 +405,7 @@ fn run<D: AsRef<[u8]>>(
 ) -> (Report, Extras) {
     let view = index.view();
     let meta = index.meta();
-    // One release only (HPO): judged as of it, whatever the study period.
-    let period = if meta.snapshot() {
-        Period::new(meta.coverage_from, meta.coverage_to)
-    } else {
-        options.period()
-    };
+    let period = options.period_for(meta);
     let (_, lines) = parse_list(text);
 
     // Pass 1: what each line is.

@@ -230,7 +230,7 @@ pub fn compare_among<D: AsRef<[u8]>>(
     options: &CheckOptions,
 ) -> Comparison {
     let view = index.view();
-    let period = options.period();
+    let period = options.period_for(index.meta());
     let (report_a, reach_a) = check_with_reach_among(index, others, a.1, options);
     let (report_b, reach_b) = check_with_reach_among(index, others, b.1, options);
     let set_a = union_of(&reach_a);

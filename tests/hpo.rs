@@ -347,3 +347,41 @@ fn the_report_credits_hpo_and_names_its_release() {
     assert!(text.contains("Human Phenotype Ontology (HPO), release 2025-01-16"));
     assert!(text.contains("study dates do not apply"));
 }
+
+/// A term reaches itself and every term under it: comparing HP:0001638
+/// (Cardiomyopathy) with the list of those terms agrees fully, and with
+/// them all but itself differs by exactly it. The terms under it come from
+/// the file's `is_a` lines.
+#[test]
+fn a_term_reaches_everything_under_it_in_a_comparison() {
+    let file = stanzas();
+    let mut under: BTreeSet<&str> = BTreeSet::from(["HP:0001638"]);
+    loop {
+        let more: Vec<&str> = file
+            .values()
+            .filter(|s| {
+                !under.contains(s.id.as_str()) && s.is_a.iter().any(|p| under.contains(p.as_str()))
+            })
+            .map(|s| s.id.as_str())
+            .collect();
+        if more.is_empty() {
+            break;
+        }
+        under.extend(more);
+    }
+    assert!(under.len() > 10, "{under:?}");
+    let i = hpo();
+    let all: String = under.iter().map(|c| format!("{c}\n")).collect();
+    let c = rollcall::compare(&i, ("a", "HP:0001638\n"), ("b", &all), &opts());
+    assert_eq!(c.agreement.both, under.len());
+    assert_eq!(c.agreement.jaccard, 1.0);
+    // Every term under it listed, but not the term itself: only it differs.
+    let fewer: String = under
+        .iter()
+        .filter(|c| **c != "HP:0001638")
+        .map(|c| format!("{c}\n"))
+        .collect();
+    let c = rollcall::compare(&i, ("a", "HP:0001638\n"), ("b", &fewer), &opts());
+    assert_eq!((c.agreement.only_a, c.agreement.only_b), (1, 0));
+    assert_eq!(c.differences[0].code, "HP:0001638");
+}

@@ -30,10 +30,16 @@ pub fn comparison_text(c: &Comparison) -> String {
         c.vocabulary, c.index.release, c.index.coverage_from, c.index.coverage_to
     );
     let _ = writeln!(s, "{}", when(o));
+    // A one-release vocabulary (HPO) has terms in use, not billable codes by date.
+    let (billable, in_period, by) = if o.single_release {
+        ("", "", "BY CATEGORY")
+    } else {
+        ("billable ", " in the period", "BY CHAPTER")
+    };
     for (w, side) in [("A", &c.a), ("B", &c.b)] {
         let _ = writeln!(
             s,
-            "  {w}  {}: {} entries reaching {} billable code{}; check: {}",
+            "  {w}  {}: {} entries reaching {} {billable}code{}; check: {}",
             side.name,
             side.summary.entries,
             side.reaches,
@@ -45,7 +51,7 @@ pub fn comparison_text(c: &Comparison) -> String {
     let g = &c.agreement;
     let _ = writeln!(
         s,
-        "\nAGREEMENT (billable codes each list reaches in the period)\n  in both {}, only in A {}, only in B {}; Jaccard index {:.3}\n  B reaches {} of A's codes; A reaches {} of B's",
+        "\nAGREEMENT ({billable}codes each list reaches{in_period})\n  in both {}, only in A {}, only in B {}; Jaccard index {:.3}\n  B reaches {} of A's codes; A reaches {} of B's",
         g.both,
         g.only_a,
         g.only_b,
@@ -55,11 +61,7 @@ pub fn comparison_text(c: &Comparison) -> String {
     );
 
     if !c.chapters.is_empty() {
-        let _ = writeln!(
-            s,
-            "\n{:<59}{:>7}{:>8}{:>8}",
-            "BY CHAPTER", "both", "only A", "only B"
-        );
+        let _ = writeln!(s, "\n{:<59}{:>7}{:>8}{:>8}", by, "both", "only A", "only B");
         for t in &c.chapters {
             let title: String = t.title.chars().take(58).collect();
             let _ = writeln!(
@@ -97,7 +99,7 @@ pub fn comparison_text(c: &Comparison) -> String {
                 (Some(w), 2..) => {
                     let _ = writeln!(
                         s,
-                        "  {:<10} {} of its {} billable codes: {}",
+                        "  {:<10} {} of its {} {billable}codes: {}",
                         w.code, d.within_only, d.within_total, w.description
                     );
                     "  "
@@ -120,7 +122,7 @@ pub fn comparison_text(c: &Comparison) -> String {
         for e in &c.equivalents {
             let _ = writeln!(
                 s,
-                "  A {} {}  =  B {} {}  ({} billable code{})",
+                "  A {} {}  =  B {} {}  ({} {billable}code{})",
                 line_label(&e.a_lines),
                 short_list(&e.a_entries),
                 line_label(&e.b_lines),
@@ -144,9 +146,9 @@ pub fn comparison_text(c: &Comparison) -> String {
         s,
         "\n{}",
         if c.same_codes() {
-            "The two lists reach the same billable codes."
+            format!("The two lists reach the same {billable}codes.")
         } else {
-            "The two lists differ."
+            "The two lists differ.".to_string()
         }
     );
     s.push_str(
