@@ -28,6 +28,7 @@ pub mod index;
 pub mod input;
 pub mod label;
 pub mod listcheck;
+pub mod mixed;
 pub mod model;
 pub mod pattern;
 pub mod render;
@@ -48,7 +49,7 @@ pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
 pub use input::{parse_list, InputLine, LineKind};
 pub use report::{
-    Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary,
+    Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary, SystemPart,
 };
 
 pub use model::{Meta, Period, Release, Source, Span, SpanKind};
