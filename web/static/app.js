@@ -273,6 +273,9 @@ function render() {
     `${r.options.billable ? ", billable codes required" : ""}.</span>`;
 
   renderSystems(r);
+  // The system column only for a list of several systems.
+  const several = Object.keys(s.systems || {}).length > 1 || !!(s.by_system || []).length;
+  $("findings").classList.toggle("one-system", !several);
   const all = findingRows(r);
   const kinds = new Map();
   for (const row of all) kinds.set(row.kind, (kinds.get(row.kind) || 0) + 1);

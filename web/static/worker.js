@@ -133,8 +133,11 @@ async function check(text, options, system) {
   let report = run();
   const wanted = needed(report);
   if (wanted.length) {
-    const got = await Promise.all(wanted.map(companion));
-    if (got.some(Boolean)) report = run();
+    // One after the other, so the indexes are at hand in the same order as
+    // on the command line (the order of the system names).
+    let any = false;
+    for (const name of wanted) any = (await companion(name)) || any;
+    if (any) report = run();
   }
   const t1 = performance.now();
   const coverage = checker.coverage();
