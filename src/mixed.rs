@@ -109,7 +109,12 @@ pub fn check_listed<D: AsRef<[u8]>>(
         v
     };
 
-    let primary_text = keep(&lines, &groups, Group::Primary);
+    // A list with no system cell is checked as it is.
+    let primary_text: std::borrow::Cow<'_, str> = if explicit {
+        keep(&lines, &groups, Group::Primary).into()
+    } else {
+        text.into()
+    };
     let (mut report, coverage) = match &primary {
         Primary::Index(i) => {
             let at_hand = views(Some(&i.meta().vocabulary));
