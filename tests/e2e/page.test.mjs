@@ -585,3 +585,23 @@ test("a shape-only system picked in the menu checks by shape as the CLI's --syst
   assert.deepEqual(page.errors, []);
   await page.close();
 });
+
+test("a PCS list naming ICD-10-CM rows fetches the ICD-10-CM index for them", async () => {
+  // 0DTJ4ZZ (FY2024 ICD-10-PCS code file) and E11.9 (FY2024 ICD-10-CM code file).
+  const list = path.join(OUT, "pcs-with-cm.tsv");
+  fs.writeFileSync(list, "system\tcode\n\t0DTJ4ZZ\nICD-10-CM\tE11.9\n");
+  const want = cli(list, ["--system", "icd10pcs", "--on", "2024-01-01"]);
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, { on: "2024-01-01" });
+  await page.selectOption("#opt-system", "icd10pcs");
+  await page.waitForFunction(() => document.body.dataset.state === "ready" && /ICD-10-PCS/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  await page.fill("#list", fs.readFileSync(list, "utf8"));
+  await checkNow(page);
+  const { text } = await downloadText(page, "download-json");
+  const got = JSON.parse(text);
+  assert.deepEqual(got.entries.map((e) => `${e.system} ${e.status}`), ["null column-headings", "icd10pcs valid", "icd10cm valid"]);
+  assert.deepEqual(got, want);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});

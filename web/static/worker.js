@@ -98,7 +98,9 @@ async function companion(name) {
       name,
       (async () => {
         try {
-          const manifest = await (await fetch(`./manifest-${name}.json`)).json();
+          // The default index's manifest has its own name (see web/Trunk.toml).
+          const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
+          const manifest = await (await fetch(`./${file}`)).json();
           const bytes = new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
           if (wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) return false;
           checker.addCompanion(bytes);
