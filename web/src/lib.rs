@@ -613,6 +613,16 @@ impl Checker {
                 ),
             ));
         };
+        if s.bundled() {
+            return Err(fail(
+                "not a shape-only system",
+                format!(
+                    "{} has a bundled index; open that index (its manifest is beside the page) to check {} lists",
+                    s.title(),
+                    s.name()
+                ),
+            ));
+        }
         let mut loaded: Vec<&Index<Vec<u8>>> = vec![&self.index];
         loaded.extend(self.companions.iter());
         let report = rollcall::mixed::check_list(Primary::Shapes(s), &loaded, text, &opts);

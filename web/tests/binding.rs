@@ -277,4 +277,9 @@ fn check_shapes_json_checks_a_shape_only_system() {
         .check_shapes_json("icd11", "x\n", options("{}"))
         .unwrap_err();
     assert!(message(err).contains("rxnorm"));
+    // A bundled system is checked against its index, not by shape.
+    let err = c
+        .check_shapes_json("icd10pcs", "0DTJ4ZZ\n", options("{}"))
+        .unwrap_err();
+    assert!(message(err).contains("bundled index"));
 }
