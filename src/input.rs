@@ -1,6 +1,6 @@
 //! Reading a pasted or uploaded list into lines: plain lines (`code label`),
-//! CSV or TSV with a code column and an optional label column. Every input
-//! line comes back, so the report can account for each one.
+//! CSV or TSV with a code column and optional label and system columns.
+//! Every input line comes back, so the report can account for each one.
 
 /// What a line of the input is.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -17,6 +17,10 @@ pub enum LineKind {
         code: String,
         /// The label cell, if any and not empty.
         label: Option<String>,
+        /// The system column's cell as written, trimmed, if the list has a
+        /// system column and the cell is not empty (read it with
+        /// [`crate::systems::System::from_cell`]).
+        system: Option<String>,
     },
     /// A row that cannot be read; the message says why and what to do.
     Unreadable(String),
@@ -51,6 +55,8 @@ pub struct Detected {
     pub layout: Layout,
     /// Whether the first row that is not blank or a comment is column names.
     pub headings: bool,
+    /// The system column (0-based), when a heading names one.
+    pub system: Option<usize>,
 }
 
 /// Column names that mark a row of headings (with [`LABEL_WORDS`]).
@@ -66,7 +72,19 @@ const HEADING_WORDS: &[&str] = &[
     "diagnosis",
     "concept",
     "category",
+];
+/// Headings of a system column (compared without case, spaces, `_` and `-`).
+/// Never taken for the code column, even though a system's name such as
+/// `ICD-10-CM` looks like a code.
+const SYSTEM_WORDS: &[&str] = &[
     "system",
+    "codesystem",
+    "codingsystem",
+    "vocabulary",
+    "vocab",
+    "terminology",
+    "systemuri",
+    "systemurl",
 ];
 const LABEL_WORDS: &[&str] = &[
     "description",
@@ -108,7 +126,10 @@ pub fn code_like(cell: &str) -> bool {
 
 fn heading_word(cell: &str) -> Option<String> {
     let w = cell.trim().trim_matches('"').to_ascii_lowercase();
-    let w = w.replace([' ', '_'], "");
+    let w = w.replace([' ', '_', '-'], "");
+    if SYSTEM_WORDS.contains(&w.as_str()) {
+        return Some(w);
+    }
     HEADING_WORDS
         .iter()
         .chain(LABEL_WORDS)
@@ -193,6 +214,7 @@ pub fn detect(text: &str) -> Detected {
     let plain = Detected {
         layout: Layout::Plain,
         headings: false,
+        system: None,
     };
     if sample.is_empty() {
         return plain;
@@ -227,6 +249,17 @@ pub fn detect(text: &str) -> Detected {
     } else {
         &rows[..]
     };
+    // A system column is named by its heading only.
+    let system = has_headings
+        .then(|| {
+            (0..width).find(|&i| {
+                first
+                    .get(i)
+                    .and_then(|c| heading_word(c))
+                    .is_some_and(|w| SYSTEM_WORDS.contains(&w.as_str()))
+            })
+        })
+        .flatten();
     // The code column: a heading that names codes, else the most code-like column.
     let score = |i: usize| {
         body.iter()
@@ -236,16 +269,17 @@ pub fn detect(text: &str) -> Detected {
     let named = has_headings
         .then(|| {
             (0..width).find(|&i| {
-                first.get(i).and_then(|c| heading_word(c)).is_some_and(|w| {
-                    !LABEL_WORDS.iter().any(|l| w.starts_with(l))
-                        && w != "category"
-                        && w != "system"
-                }) && score(i) * 2 >= body.len()
+                Some(i) != system
+                    && first.get(i).and_then(|c| heading_word(c)).is_some_and(|w| {
+                        !LABEL_WORDS.iter().any(|l| w.starts_with(l)) && w != "category"
+                    })
+                    && score(i) * 2 >= body.len()
             })
         })
         .flatten();
     let code = named.unwrap_or_else(|| {
         (0..width)
+            .filter(|&i| Some(i) != system)
             .max_by_key(|&i| (score(i), usize::MAX - i))
             .unwrap_or(0)
     });
@@ -255,6 +289,7 @@ pub fn detect(text: &str) -> Detected {
     let label = if has_headings {
         (0..width).find(|&i| {
             i != code
+                && Some(i) != system
                 && first
                     .get(i)
                     .and_then(|c| heading_word(c))
@@ -265,14 +300,16 @@ pub fn detect(text: &str) -> Detected {
     }
     .or_else(|| {
         // The column with the most letters that is not the code column.
-        (0..width).filter(|&i| i != code).max_by_key(|&i| {
-            body.iter()
-                .map(|r| {
-                    r.get(i)
-                        .map_or(0, |c| c.chars().filter(|c| c.is_alphabetic()).count())
-                })
-                .sum::<usize>()
-        })
+        (0..width)
+            .filter(|&i| i != code && Some(i) != system)
+            .max_by_key(|&i| {
+                body.iter()
+                    .map(|r| {
+                        r.get(i)
+                            .map_or(0, |c| c.chars().filter(|c| c.is_alphabetic()).count())
+                    })
+                    .sum::<usize>()
+            })
     });
     Detected {
         layout: if delim_tsv {
@@ -281,12 +318,17 @@ pub fn detect(text: &str) -> Detected {
             Layout::Csv(code, label)
         },
         headings: has_headings,
+        system,
     }
 }
 
 /// Reads a whole list. Every line of `text` is returned, in order.
 pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
-    let Detected { layout, headings } = detect(text);
+    let Detected {
+        layout,
+        headings,
+        system: system_column,
+    } = detect(text);
     let mut out = Vec::new();
     let mut seen_data = false;
     for (i, raw) in text.lines().enumerate() {
@@ -314,6 +356,10 @@ pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
                             .and_then(|l| cells.get(l))
                             .map(|s| s.trim().to_string())
                             .filter(|s| !s.is_empty());
+                        let system = system_column
+                            .and_then(|s| cells.get(s))
+                            .map(|s| s.trim().to_string())
+                            .filter(|s| !s.is_empty());
                         if first_data && headings {
                             LineKind::Headings
                         } else if code.is_empty() {
@@ -322,7 +368,11 @@ pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
                                 c + 1
                             ))
                         } else {
-                            LineKind::Entry { code, label }
+                            LineKind::Entry {
+                                code,
+                                label,
+                                system,
+                            }
                         }
                     }
                 },
@@ -374,6 +424,7 @@ fn plain_entry(line: &str) -> LineKind {
     LineKind::Entry {
         code,
         label: (!label.is_empty()).then_some(label),
+        system: None,
     }
 }
 
@@ -386,7 +437,7 @@ mod tests {
             .1
             .into_iter()
             .filter_map(|l| match l.kind {
-                LineKind::Entry { code, label } => Some((code, label)),
+                LineKind::Entry { code, label, .. } => Some((code, label)),
                 _ => None,
             })
             .collect()
@@ -416,7 +467,8 @@ mod tests {
             lines[2].kind,
             LineKind::Entry {
                 code: "A1884".into(),
-                label: Some("Tuberculosis of heart, x".into())
+                label: Some("Tuberculosis of heart, x".into()),
+                system: None,
             }
         );
     }
@@ -436,5 +488,44 @@ mod tests {
     fn unterminated_quote_is_reported_on_its_line() {
         let (_, lines) = parse_list("code,label\nE11.9,\"open\nI10,Hypertension\n");
         assert!(matches!(lines[1].kind, LineKind::Unreadable(ref m) if m.contains("quoted")));
+    }
+
+    #[test]
+    fn a_system_column_is_read_and_never_taken_for_the_code() {
+        // The system cells look like codes (`ICD-10-CM` has digits and hyphens).
+        for (text, layout) in [
+            (
+                "system\tcode\tdescription\nICD-10-CM\tE11.9\tType 2 DM\nICD-10-PCS\t0DTJ4ZZ\t\n",
+                Layout::Tsv(1, Some(2)),
+            ),
+            (
+                "Code System,Code,Display\nICD-10-CM,E11.9,Type 2 DM\n,I10,Hypertension\n",
+                Layout::Csv(1, Some(2)),
+            ),
+            (
+                "code\tcoding_system\nE11.9\tICD-10-CM\n0DTJ4ZZ\tICD-10-PCS\n",
+                Layout::Tsv(0, None),
+            ),
+        ] {
+            let d = detect(text);
+            assert_eq!(d.layout, layout, "{text}");
+            assert!(d.headings && d.system.is_some(), "{text}");
+            let (_, lines) = parse_list(text);
+            match &lines[1].kind {
+                LineKind::Entry { code, system, .. } => {
+                    assert_eq!(code, "E11.9");
+                    assert_eq!(system.as_deref(), Some("ICD-10-CM"));
+                }
+                k => panic!("{k:?}"),
+            }
+        }
+        // An empty cell is no system: the code decides.
+        let (_, lines) = parse_list("Code System,Code\nICD-10-CM,E11.9\n,I10\n");
+        assert!(matches!(
+            &lines[2].kind,
+            LineKind::Entry { system: None, .. }
+        ));
+        // Without headings there is no system column.
+        assert_eq!(detect("E11.9\tType 2 DM\n").system, None);
     }
 }

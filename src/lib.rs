@@ -9,6 +9,8 @@
 //!   (billable and header spans, parent and subtree, successors, descriptions).
 //! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
+//! - [`mixed::check_list`] checks a list with a system column, each row in the
+//!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
@@ -28,6 +30,7 @@ pub mod index;
 pub mod input;
 pub mod label;
 pub mod listcheck;
+pub mod mixed;
 pub mod model;
 pub mod pattern;
 pub mod render;
@@ -48,7 +51,7 @@ pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
 pub use input::{parse_list, InputLine, LineKind};
 pub use report::{
-    Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary,
+    Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary, SystemPart,
 };
 
 pub use model::{CodeEntry, Hierarchy, Meta, Period, Release, Source, Span, SpanKind};

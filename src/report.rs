@@ -275,6 +275,33 @@ pub struct Summary {
     pub infos: usize,
     /// Entries per code system (`system` of each entry), in name order.
     pub systems: std::collections::BTreeMap<String, usize>,
+    /// For a list with a system column: the rows of each system and what
+    /// they were checked against; absent for a list of one system.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub by_system: Vec<SystemPart>,
+}
+
+/// The rows of one system in a list with a system column.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct SystemPart {
+    /// The system's name (`icd10pcs`).
+    pub system: String,
+    /// Its title (`ICD-10-PCS`).
+    pub title: String,
+    /// `index` (checked against a loaded index), `shape` (rollcall ships no
+    /// content: shape and check digit only) or `not-loaded` (bundled, but
+    /// its index was not loaded: shape only, with a warning per row).
+    pub checked: String,
+    /// The index's release, when checked against one.
+    pub release: Option<String>,
+    /// Rows holding a code or pattern.
+    pub entries: usize,
+    /// Error-level findings on these rows and in their list findings.
+    pub errors: usize,
+    /// Warnings, likewise.
+    pub warnings: usize,
+    /// Infos, likewise.
+    pub infos: usize,
 }
 
 /// The result of checking one list.

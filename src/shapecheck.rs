@@ -37,7 +37,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
                 m.clone(),
                 vec![],
             )),
-            LineKind::Entry { code, label } => {
+            LineKind::Entry { code, label, .. } => {
                 e.label = label.clone();
                 let written = code.trim();
                 match shape(system, written) {

@@ -494,3 +494,96 @@ fn translate_maps_a_list_and_names_its_outcomes() {
         assert!(err(&o).contains(says), "{args:?}: {}", err(&o));
     }
 }
+
+/// A list with a system column (demo-data/mixed-list.tsv): the bundled
+/// index each row names is loaded; the JSON gives each entry's system and the
+/// per-system parts. Sources: icd10pcs-codes-FY2024.txt (CMS) holds 02703ZZ
+/// and 02100Z9; CMS32_DESC_LONG_DX.txt holds 25000, retired for services
+/// from 2015-10-01 (79 FR 45128); LOINC Users' Guide: 2345-7's check digit.
+#[test]
+fn a_system_column_checks_each_row_in_its_system() {
+    let args = [
+        "check",
+        "demo-data/mixed-list.tsv",
+        "--from",
+        "2019-01-01",
+        "--to",
+        "2024-12-31",
+        "--format",
+        "json",
+    ];
+    let o = rollcall(&args, None);
+    assert_eq!(o.status.code(), Some(1), "{}", err(&o));
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap();
+    let row = |code: &str| {
+        v["entries"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|e| e["code"] == code)
+            .unwrap_or_else(|| panic!("{code}"))
+            .clone()
+    };
+    for (code, status, system) in [
+        ("E11.9", "valid", "icd10cm"),
+        ("I10", "valid", "icd10cm"),
+        ("02703ZZ", "valid", "icd10pcs"),
+        ("02100Z9", "valid", "icd10pcs"),
+        ("250.00", "retired", "icd9cm"),
+        ("2345-7", "shape-only", "loinc"),
+    ] {
+        let e = row(code);
+        assert_eq!(
+            (e["status"].as_str(), e["system"].as_str()),
+            (Some(status), Some(system)),
+            "{code}"
+        );
+    }
+    let refused = row("5A11");
+    assert_eq!(refused["status"], "malformed");
+    assert!(refused["system"].is_null());
+    assert!(refused["findings"][0]["message"]
+        .as_str()
+        .unwrap()
+        .contains("\"ICD-11\""));
+    let parts: Vec<(&str, &str)> = v["summary"]["by_system"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|p| {
+            (
+                p["system"].as_str().unwrap(),
+                p["checked"].as_str().unwrap(),
+            )
+        })
+        .collect();
+    assert_eq!(
+        parts,
+        [
+            ("icd10cm", "index"),
+            ("icd10pcs", "index"),
+            ("icd9cm", "index"),
+            ("loinc", "shape")
+        ]
+    );
+    // The text report names the systems.
+    let text = rollcall(&args[..6], None);
+    assert!(
+        out(&text).contains("ICD-10-PCS (icd10pcs)"),
+        "{}",
+        out(&text)
+    );
+
+    // --system sets the system of the rows with no cell; the cells still win.
+    let mut forced = args.to_vec();
+    forced.extend(["--system", "icd9cm"]);
+    let v: serde_json::Value = serde_json::from_str(&out(&rollcall(&forced, None))).unwrap();
+    assert_eq!(v["vocabulary"], "icd9cm");
+    let at = |line: usize| {
+        let e = &v["entries"][line - 1];
+        (e["status"].clone(), e["system"].clone())
+    };
+    // Line 5: E11.9 with the cell ICD-10-CM; line 7: I10 with an empty cell.
+    assert_eq!(at(5), ("valid".into(), "icd10cm".into()));
+    assert_eq!(at(7), ("other-system".into(), "icd10cm".into()));
+}

@@ -4,23 +4,46 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
+use rollcall::mixed::{check_list, systems_named, Primary};
 use rollcall::systems::System;
-use rollcall::{check_among, render, CheckOptions, Date, Index, View};
+use rollcall::{render, CheckOptions, Date, Index, View};
 use std::io::Read;
 use std::process::ExitCode;
 
-/// The bundled ICD-10-CM index, built by vocab-build from vocab-build/sources.
-static BUNDLED: &[u8] = include_bytes!("../../vocab/icd10cm.rcx");
-const BUNDLED_NAME: &str = "vocab/icd10cm.rcx (built into this binary)";
-/// The bundled ICD-10-PCS index.
-static BUNDLED_PCS: &[u8] = include_bytes!("../../vocab/icd10pcs.rcx");
-const BUNDLED_PCS_NAME: &str = "vocab/icd10pcs.rcx (built into this binary)";
-/// The bundled ICD-9-CM index (final version 32).
-static BUNDLED_ICD9: &[u8] = include_bytes!("../../vocab/icd9cm.rcx");
-const BUNDLED_ICD9_NAME: &str = "vocab/icd9cm.rcx (built into this binary)";
-/// The bundled HPO index (release 2025-01-16).
-static BUNDLED_HPO: &[u8] = include_bytes!("../../vocab/hpo.rcx");
-const BUNDLED_HPO_NAME: &str = "vocab/hpo.rcx (built into this binary)";
+/// The bundled indexes, built by vocab-build from vocab-build/sources, with
+/// the name `info` shows; the first is the default. Adding one is a line
+/// here (and its system's `System::bundled`).
+static BUNDLED_INDEXES: &[(System, &[u8], &str)] = &[
+    (
+        System::Icd10cm,
+        include_bytes!("../../vocab/icd10cm.rcx"),
+        "vocab/icd10cm.rcx (built into this binary)",
+    ),
+    (
+        System::Icd10pcs,
+        include_bytes!("../../vocab/icd10pcs.rcx"),
+        "vocab/icd10pcs.rcx (built into this binary)",
+    ),
+    (
+        System::Icd9cm,
+        include_bytes!("../../vocab/icd9cm.rcx"),
+        "vocab/icd9cm.rcx (built into this binary)",
+    ),
+    (
+        System::Hpo,
+        include_bytes!("../../vocab/hpo.rcx"),
+        "vocab/hpo.rcx (built into this binary)",
+    ),
+];
+static BUNDLED: &[u8] = BUNDLED_INDEXES[0].1;
+
+/// The bundled index of `system`, opened (a header check; no copy).
+fn bundled(system: System) -> Option<Result<Index<&'static [u8]>, String>> {
+    BUNDLED_INDEXES
+        .iter()
+        .find(|(s, _, _)| *s == system)
+        .map(|(_, bytes, _)| Index::open(*bytes).map_err(|e| e.to_string()))
+}
 
 const HELP: &str = "\
 rollcall: check a clinical code list against dated ICD-10-CM releases
@@ -43,6 +66,11 @@ usage:
   --system   icd10cm (default), icd10pcs, icd9cm or hpo: the bundled index of that system;
              loinc, snomed, ndc, hcpcs, cpt or rxnorm: checks by shape and check digit only
   --index    an index file written by vocab-build (default: the bundled ICD-10-CM index)
+             A CSV/TSV list may have a system column (headed system, code system, coding
+             system or vocabulary; values such as icd10pcs, ICD-10-PCS, LOINC or a FHIR
+             system URI): its rows are checked in that system, the bundled index loaded
+             when the column names one; --system and --index set the system of the rows
+             whose cell is empty.
   translate  maps an ICD-9-CM list to ICD-10-CM, or back, with the 2015 GEMs, and judges each
              target for the period; the first list's system is the other one
   compare    checks both lists, then compares the billable codes each reaches in the
@@ -133,7 +161,17 @@ fn options(a: &Args) -> Result<CheckOptions, Usage> {
 
 enum Loaded {
     Bundled(Index<&'static [u8]>),
-    File(Index<Vec<u8>>, String),
+    /// An index file; its bytes live as long as the process, like the
+    /// bundled ones, so both can be checked side by side.
+    File(Index<&'static [u8]>, String),
+}
+
+impl Loaded {
+    fn index(&self) -> &Index<&'static [u8]> {
+        match self {
+            Loaded::Bundled(i) | Loaded::File(i, _) => i,
+        }
+    }
 }
 
 /// What a list is checked against: an index, or a system's shape rules.
@@ -147,9 +185,45 @@ enum Target {
 fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
     static ONCE: std::sync::OnceLock<Result<Index<&'static [u8]>, String>> =
         std::sync::OnceLock::new();
-    ONCE.get_or_init(|| Index::open(BUNDLED_ICD9).map_err(|e| e.to_string()))
+    ONCE.get_or_init(|| bundled(System::Icd9cm).expect("ICD-9-CM is bundled"))
         .as_ref()
         .map_err(|e| e.clone())
+}
+
+/// The bundled indexes a check of `text` needs beside its own vocabulary
+/// `own`: every one the list's system column names, and ICD-9-CM (with the
+/// GEMs) beside ICD-10-CM, so old codes in a new list are named with their
+/// targets.
+fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
+    let mut want = systems_named(text);
+    if own == "icd10cm" {
+        want.push(System::Icd9cm);
+    }
+    want.sort();
+    want.dedup();
+    want.into_iter()
+        .filter(|s| s.name() != own)
+        .filter_map(bundled)
+        .collect()
+}
+
+/// Checks a list: the rows with no system cell against the target, the
+/// others in the system their cell names.
+fn check_text(
+    target: &Target,
+    text: &str,
+    opts: &CheckOptions,
+) -> Result<rollcall::Report, String> {
+    let (primary, own) = match target {
+        Target::Index(l) => (
+            Primary::Index(l.index()),
+            l.index().meta().vocabulary.clone(),
+        ),
+        Target::Shapes(s) => (Primary::Shapes(*s), s.name().to_string()),
+    };
+    let others = at_hand(&own, text)?;
+    let refs: Vec<&Index<&'static [u8]>> = others.iter().collect();
+    Ok(check_list(primary, &refs, text, opts))
 }
 
 /// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
@@ -176,9 +250,7 @@ fn target(a: &Args) -> Result<Target, String> {
         (None, path) => load_index(path).map(Target::Index),
         (Some(s), Some(path)) => {
             let loaded = load_index(Some(path))?;
-            let Loaded::File(i, _) = &loaded else {
-                unreachable!("a path loads a file")
-            };
+            let i = loaded.index();
             if i.meta().vocabulary != s.name() {
                 return Err(format!(
                     "{path} is an {} index, not {}; drop --system or give an index of that system",
@@ -188,17 +260,10 @@ fn target(a: &Args) -> Result<Target, String> {
             }
             Ok(Target::Index(loaded))
         }
-        (Some(System::Icd10cm), None) => load_index(None).map(Target::Index),
-        (Some(System::Icd10pcs), None) => Index::open(BUNDLED_PCS)
-            .map(|i| Target::Index(Loaded::Bundled(i)))
-            .map_err(|e| e.to_string()),
-        (Some(System::Icd9cm), None) => Index::open(BUNDLED_ICD9)
-            .map(|i| Target::Index(Loaded::Bundled(i)))
-            .map_err(|e| e.to_string()),
-        (Some(System::Hpo), None) => Index::open(BUNDLED_HPO)
-            .map(|i| Target::Index(Loaded::Bundled(i)))
-            .map_err(|e| e.to_string()),
-        (Some(s), None) => Ok(Target::Shapes(s)),
+        (Some(s), None) => match bundled(s) {
+            Some(i) => i.map(|i| Target::Index(Loaded::Bundled(i))),
+            None => Ok(Target::Shapes(s)),
+        },
     }
 }
 
@@ -209,6 +274,7 @@ fn load_index(path: Option<&str>) -> Result<Loaded, String> {
             .map_err(|e| e.to_string()),
         Some(p) => {
             let bytes = std::fs::read(p).map_err(|e| format!("cannot read the index {p}: {e}"))?;
+            let bytes: &'static [u8] = Box::leak(bytes.into_boxed_slice());
             let idx = Index::open(bytes).map_err(|e| format!("{p}: {e}"))?;
             idx.verify().map_err(|e| format!("{p}: {e}"))?;
             Ok(Loaded::File(idx, p.to_string()))
@@ -246,11 +312,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 }
             };
             let text = read_list(file)?;
-            let report = match target(&a)? {
-                Target::Index(Loaded::Bundled(i)) => check_among(&i, &companions(&i)?, &text, &opts),
-                Target::Index(Loaded::File(i, _)) => check_among(&i, &companions(&i)?, &text, &opts),
-                Target::Shapes(s) => rollcall::shapecheck::check_shapes(s, &text, &opts),
-            };
+            let report = check_text(&target(&a)?, &text, &opts)?;
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n",
                 "csv" => render::csv(&report),
@@ -285,11 +347,9 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             }
             let (ta, tb) = (read_list(fa)?, read_list(fb)?);
             let c = match target(&a)? {
-                Target::Index(Loaded::Bundled(i)) => {
-                    rollcall::compare::compare_among(&i, &companions(&i)?, (fa, &ta), (fb, &tb), &opts)
-                }
-                Target::Index(Loaded::File(i, _)) => {
-                    rollcall::compare::compare_among(&i, &companions(&i)?, (fa, &ta), (fb, &tb), &opts)
+                Target::Index(l) => {
+                    let i = l.index();
+                    rollcall::compare::compare_among(i, &companions(i)?, (fa, &ta), (fb, &tb), &opts)
                 }
                 Target::Shapes(s) => {
                     return Err(format!(
@@ -350,24 +410,24 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             }
             let loaded: Vec<Loaded> = match a.index.as_deref() {
                 Some(p) => vec![load_index(Some(p))?],
-                None => vec![
-                    load_index(None)?,
-                    Loaded::Bundled(Index::open(BUNDLED_PCS).map_err(|e| e.to_string())?),
-                    Loaded::Bundled(Index::open(BUNDLED_ICD9).map_err(|e| e.to_string())?),
-                    Loaded::Bundled(Index::open(BUNDLED_HPO).map_err(|e| e.to_string())?),
-                ],
+                None => BUNDLED_INDEXES
+                    .iter()
+                    .map(|(_, bytes, _)| {
+                        Index::open(*bytes)
+                            .map(Loaded::Bundled)
+                            .map_err(|e| e.to_string())
+                    })
+                    .collect::<Result<_, _>>()?,
             };
             let described: Vec<_> = loaded
                 .iter()
                 .map(|l| match l {
                     Loaded::Bundled(i) => (
                         i.meta(),
-                        match i.meta().vocabulary.as_str() {
-                            "icd10pcs" => BUNDLED_PCS_NAME.to_string(),
-                            "icd9cm" => BUNDLED_ICD9_NAME.to_string(),
-                            "hpo" => BUNDLED_HPO_NAME.to_string(),
-                            _ => BUNDLED_NAME.to_string(),
-                        },
+                        BUNDLED_INDEXES
+                            .iter()
+                            .find(|(s, _, _)| s.name() == i.meta().vocabulary)
+                            .map_or(String::new(), |(_, _, name)| name.to_string()),
                         i.bytes().len(),
                         i.checksum(),
                     ),

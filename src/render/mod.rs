@@ -99,6 +99,30 @@ pub fn text(report: &Report) -> String {
     }
     write_findings(&mut s, report, "");
     let m = &report.summary;
+    if !m.by_system.is_empty() {
+        let _ = writeln!(s, "\nBY SYSTEM (the list's system column)");
+        for p in &m.by_system {
+            let how = match (p.checked.as_str(), &p.release) {
+                ("index", Some(r)) => format!("against release {r}"),
+                ("not-loaded", _) => "by shape only (its index was not loaded)".into(),
+                _ => "by shape and check digit only".into(),
+            };
+            let part = crate::report::Summary {
+                errors: p.errors,
+                warnings: p.warnings,
+                infos: p.infos,
+                ..Default::default()
+            };
+            let _ = writeln!(
+                s,
+                "  {:<24} {} entr{}, {how}: {}",
+                format!("{} ({})", p.title, p.system),
+                p.entries,
+                if p.entries == 1 { "y" } else { "ies" },
+                counts(&part)
+            );
+        }
+    }
     let _ = writeln!(
         s,
         "\n{} lines, {} entries: {}",

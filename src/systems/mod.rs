@@ -7,11 +7,13 @@
 mod digits;
 mod drugs;
 mod icd;
+mod names;
 mod procedures;
 mod terms;
 
 pub use digits::{luhn_check_digit, verhoeff_check_digit, verhoeff_valid};
 pub use drugs::{ndc, NdcForm, NdcReading};
+pub use names::FHIR_URIS;
 pub use terms::{loinc_check_digit, snomed_partition, Partition};
 
 /// A code system, by the names the CLI and the JSON report use.

@@ -302,8 +302,19 @@ test("a FHIR ValueSet file becomes code and display lines", async () => {
   const before = await page.evaluate(() => Number(document.body.dataset.checked || 0));
   await page.setInputFiles("#file-input", { name: "list.json", mimeType: "application/json", buffer: Buffer.from(JSON.stringify(vs)) });
   await page.waitForFunction((n) => Number(document.body.dataset.checked || 0) > n && document.body.dataset.checking === "false", before);
-  assert.equal(await page.inputValue("#list"), "E11.9\tType 2 diabetes\nI10\nE10.9\tType 1 diabetes");
-  assert.match(await page.textContent("#file-message"), /3 concept\(s\).*1 concept\(s\) from other code systems/);
+  // Concepts of two systems: each row names its system's URI in a system column.
+  assert.equal(
+    await page.inputValue("#list"),
+    "system\tcode\tdisplay\nhttp://hl7.org/fhir/sid/icd-10-cm\tE11.9\tType 2 diabetes\nhttp://hl7.org/fhir/sid/icd-10-cm\tI10\t\n" +
+      "http://snomed.info/sct\t44054006\t\nhttp://hl7.org/fhir/sid/icd-10-cm\tE10.9\tType 1 diabetes",
+  );
+  assert.match(await page.textContent("#file-message"), /4 concept\(s\).*2 code systems, named in the system column/);
+  await page.waitForSelector('#findings tbody tr[data-line="4"][data-kind="shape-only"][data-system="snomed"]');
+  // ICD-10-CM concepts alone stay code and display lines.
+  const cmOnly = { resourceType: "ValueSet", compose: { include: [{ system: "http://hl7.org/fhir/sid/icd-10-cm", concept: [{ code: "E11.9", display: "Type 2 diabetes" }, { code: "I10" }] }] } };
+  await page.setInputFiles("#file-input", { name: "cm.json", mimeType: "application/json", buffer: Buffer.from(JSON.stringify(cmOnly)) });
+  await page.waitForFunction(() => document.getElementById("list").value.startsWith("E11.9"));
+  assert.equal(await page.inputValue("#list"), "E11.9\tType 2 diabetes\nI10");
   // Not a ValueSet: a clear message, the list is left alone.
   await page.setInputFiles("#file-input", { name: "p.json", mimeType: "application/json", buffer: Buffer.from('{"resourceType":"Patient"}') });
   await page.waitForFunction(() => document.getElementById("file-message").textContent.includes("Patient"));
@@ -510,6 +521,87 @@ test("another code system's index is fetched when picked, and checks as the CLI 
   await checkNow(page);
   assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
   assert.ok(requests.some((u) => u.endsWith("icd10pcs.rcx")));
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
+
+test("a list with a system column is checked per system as the CLI does, the PCS index fetched only then", async () => {
+  // demo-data/mixed-list.tsv: ICD-10-CM, ICD-10-PCS (02703ZZ and 02100Z9, in
+  // the FY2024 PCS code file), ICD-9-CM (250.00, CMS32_DESC_LONG_DX.txt),
+  // LOINC (2345-7, the LOINC Users' Guide's check digit) and a system value
+  // rollcall does not know.
+  const file = path.join(ROOT, "demo-data/mixed-list.tsv");
+  const want = cli(file, ["--from", "2019-01-01", "--to", "2024-12-31"]);
+  const pcsFetches = () => requests.filter((u) => /\/(icd10pcs\.rcx|manifest-icd10pcs\.json)$/.test(u)).length;
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, { from: "2019-01-01", to: "2024-12-31" });
+  const before = pcsFetches();
+  await page.fill("#list", demoText());
+  await checkNow(page);
+  assert.equal(pcsFetches(), before, "an ICD-10-CM list does not fetch the PCS index");
+  assert.equal(await page.isHidden("#systems-line"), true);
+
+  await page.fill("#list", fs.readFileSync(file, "utf8"));
+  await checkNow(page);
+  assert.ok(pcsFetches() >= before + 2, "the PCS manifest and index are fetched for the list that names ICD-10-PCS");
+  // The report is the CLI's, field for field: each entry's system and status,
+  // the per-system parts and every finding.
+  const { text } = await downloadText(page, "download-json");
+  const got = JSON.parse(text);
+  assert.deepEqual(
+    got.entries.map((e) => `${e.line} ${e.system} ${e.status}`),
+    want.entries.map((e) => `${e.line} ${e.system} ${e.status}`),
+  );
+  assert.deepEqual(got.summary.by_system, want.summary.by_system);
+  assert.deepEqual(got, want);
+  assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
+  // The findings table names each row's system; the line above it the parts
+  // and the indexes loaded.
+  const systems = await page.$$eval("#findings tbody tr[data-row]", (rows) => rows.map((r) => `${r.dataset.line} ${r.dataset.system}`));
+  assert.ok(systems.includes("10 icd9cm") && systems.includes("11 loinc"), systems.join("; "));
+  const line = await page.$eval("#systems-line", (p) => ({ text: p.textContent, loaded: p.dataset.loaded.split(" ") }));
+  // ICD-9-CM came with the demo list (its 250.00), ICD-10-PCS with this one.
+  assert.deepEqual(line.loaded, ["icd10cm", "icd9cm", "icd10pcs"]);
+  for (const p of want.summary.by_system) assert.ok(line.text.includes(`${p.title}: ${p.entries} entr`), `${p.title} in ${line.text}`);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
+
+test("a shape-only system picked in the menu checks by shape as the CLI's --system", async () => {
+  const list = path.join(OUT, "loinc-list.txt");
+  // LOINC Users' Guide: 2345-7 has the right mod 10 check digit, so 2345-8 has not.
+  fs.writeFileSync(list, "2345-7\n2345-8\n");
+  const want = cli(list, ["--system", "loinc", "--on", "2024-01-01"]);
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, { on: "2024-01-01" });
+  await page.fill("#list", fs.readFileSync(list, "utf8"));
+  await page.selectOption("#opt-system", "loinc");
+  await checkNow(page);
+  assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
+  const { text } = await downloadText(page, "download-json");
+  assert.deepEqual(JSON.parse(text), want);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
+
+test("a PCS list naming ICD-10-CM rows fetches the ICD-10-CM index for them", async () => {
+  // 0DTJ4ZZ (FY2024 ICD-10-PCS code file) and E11.9 (FY2024 ICD-10-CM code file).
+  const list = path.join(OUT, "pcs-with-cm.tsv");
+  fs.writeFileSync(list, "system\tcode\n\t0DTJ4ZZ\nICD-10-CM\tE11.9\n");
+  const want = cli(list, ["--system", "icd10pcs", "--on", "2024-01-01"]);
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, { on: "2024-01-01" });
+  await page.selectOption("#opt-system", "icd10pcs");
+  await page.waitForFunction(() => document.body.dataset.state === "ready" && /ICD-10-PCS/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  await page.fill("#list", fs.readFileSync(list, "utf8"));
+  await checkNow(page);
+  const { text } = await downloadText(page, "download-json");
+  const got = JSON.parse(text);
+  assert.deepEqual(got.entries.map((e) => `${e.system} ${e.status}`), ["null column-headings", "icd10pcs valid", "icd10cm valid"]);
+  assert.deepEqual(got, want);
   assert.deepEqual(page.errors, []);
   await page.close();
 });

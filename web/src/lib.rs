@@ -8,6 +8,7 @@
 //! Every core error goes through [`fail`], which turns it into a JS `Error`
 //! with a readable message; nothing here panics on bad input.
 
+use rollcall::mixed::Primary;
 use rollcall::{CheckOptions, Date, Index};
 use serde::{Deserialize, Serialize};
 use wasm_bindgen::prelude::*;
@@ -52,6 +53,8 @@ export interface Entry {
   line: number;
   input: string;
   code: string | null;
+  /** The system the entry was checked in (icd10cm, icd10pcs, loinc, ...). */
+  system: string | null;
   label: string | null;
   description: string | null;
   status: string;
@@ -74,7 +77,24 @@ export interface Report {
   options: { on: string | null; from: string; to: string; billable: boolean };
   entries: Entry[];
   list_findings: ListFinding[];
-  summary: { lines: number; entries: number; errors: number; warnings: number; infos: number };
+  summary: {
+    lines: number; entries: number; errors: number; warnings: number; infos: number;
+    systems: Record<string, number>;
+    /** Only for a list with a system column: each system's rows. */
+    by_system?: SystemPart[];
+  };
+}
+
+/** The rows of one system in a list with a system column. */
+export interface SystemPart {
+  system: string;
+  title: string;
+  checked: "index" | "shape" | "not-loaded";
+  release: string | null;
+  entries: number;
+  errors: number;
+  warnings: number;
+  infos: number;
 }
 
 export interface Span { kind: "billable" | "header"; from: string; to: string }
@@ -578,6 +598,55 @@ impl Checker {
         serde_json::to_string(&c).map_err(|e| fail("could not hand the result to the page", e))
     }
 
+    /// Check a list whose rows with no system cell are in `system`, a system
+    /// rollcall checks by shape only (`loinc`, `snomed`, ...): the same report
+    /// as `rollcall check --system NAME --format json`, as JSON text. Rows
+    /// whose system column names a loaded index's system are checked in it.
+    #[wasm_bindgen(js_name = checkShapesJson)]
+    pub fn check_shapes_json(
+        &mut self,
+        system: &str,
+        text: &str,
+        options: JsCheckOptions,
+    ) -> Result<String, JsValue> {
+        let opts = self.options(options)?;
+        let Some(s) = rollcall::systems::System::parse(system) else {
+            return Err(fail(
+                "unknown code system",
+                format!(
+                    "\u{201c}{system}\u{201d} (known: {})",
+                    rollcall::systems::ALL.map(|s| s.name()).join(", ")
+                ),
+            ));
+        };
+        if s.bundled() {
+            return Err(fail(
+                "not a shape-only system",
+                format!(
+                    "{} has a bundled index; open that index (its manifest is beside the page) to check {} lists",
+                    s.title(),
+                    s.name()
+                ),
+            ));
+        }
+        let mut loaded: Vec<&Index<Vec<u8>>> = vec![&self.index];
+        loaded.extend(self.companions.iter());
+        let report = rollcall::mixed::check_list(Primary::Shapes(s), &loaded, text, &opts);
+        let out = serde_json::to_string(&report)
+            .map_err(|e| fail("could not hand the result to the page", e))?;
+        self.last = Some(Vec::new());
+        Ok(out)
+    }
+
+    /// The systems whose indexes are loaded: this index's, then the
+    /// companions' (fetched for lists that need them).
+    pub fn loaded(&self) -> Vec<String> {
+        std::iter::once(&self.index)
+            .chain(self.companions.iter())
+            .map(|i| i.meta().vocabulary.clone())
+            .collect()
+    }
+
     /// Add the index of another system (verified like the main one), so that
     /// its codes in a list are named with its mapping's targets, as the CLI
     /// does with the bundled ICD-9-CM index. Returns its vocabulary.
@@ -598,8 +667,10 @@ impl Checker {
         text: &str,
         opts: &CheckOptions,
     ) -> (rollcall::Report, Vec<rollcall::CategoryCoverage>) {
-        let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
-        rollcall::check::check_among_with_coverage(&self.index, &views, text, opts)
+        // Rows whose system column names a companion's system are checked
+        // in it; a list without system cells is checked as before.
+        let others: Vec<&Index<Vec<u8>>> = self.companions.iter().collect();
+        rollcall::mixed::check_listed(Primary::Index(&self.index), &others, text, opts)
     }
 
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {

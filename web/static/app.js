@@ -16,6 +16,9 @@ const SEVERITY_ICON = { error: "✖", warning: "▲", info: "●" };
 const ROW_PAGE = 500;
 const STRIP_LIMIT = 150;
 const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
+// Systems with a bundled index (manifest-NAME.json beside the page); the
+// others in the "Code system" menu are checked by shape and check digit.
+const BUNDLED = new Set(["icd10cm", "icd10pcs", "icd9cm"]);
 
 // --------------------------------------------------------------- checker --
 
@@ -39,6 +42,8 @@ const state = {
   shown: ROW_PAGE,
   seq: 0,
   timer: 0,
+  shapes: null, // a shape-only system picked in the menu, or null
+  loaded: [], // the systems whose indexes the worker has loaded
 };
 
 // ----------------------------------------------------------- index load --
@@ -75,8 +80,20 @@ function showProgress(got, total) {
 
 /** Opens the index of another system (fetched the first time it is asked for). */
 async function switchSystem(name) {
-  if (state.info && state.info.vocabulary === name) return;
   const box = $("options-error");
+  if (!BUNDLED.has(name)) {
+    // No content to load: the loaded index stays for rows naming its system.
+    state.shapes = name;
+    box.hidden = true;
+    runCheck();
+    return;
+  }
+  const wasShapes = state.shapes;
+  state.shapes = null;
+  if (state.info && state.info.vocabulary === name) {
+    if (wasShapes) runCheck();
+    return;
+  }
   $("check-status").textContent = `Loading the ${name} index…`;
   document.body.dataset.state = "loading";
   try {
@@ -91,7 +108,8 @@ async function switchSystem(name) {
   } catch (e) {
     box.hidden = false;
     box.textContent = `Could not load the ${name} index: ${e.message.replace(/^Error: /, "")}`;
-    $("opt-system").value = state.info ? state.info.vocabulary : "icd10cm";
+    $("opt-system").value = wasShapes || (state.info ? state.info.vocabulary : "icd10cm");
+    state.shapes = wasShapes;
     document.body.dataset.state = state.info ? "ready" : "index-error";
     $("check-status").textContent = "";
   }
@@ -187,11 +205,12 @@ async function runCheck() {
   document.body.dataset.checking = "true";
   $("check-status").textContent = "Checking…";
   try {
-    const result = await ask("check", { text, options: checkerOptions(opts) });
+    const result = await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
     if (seq !== state.seq) return; // a newer check is on its way
     $("options-error").hidden = true;
     state.report = result.report;
     state.coverage = result.coverage;
+    state.loaded = result.loaded || [];
     render();
     const n = result.report.summary.lines;
     $("check-status").textContent = `Checked ${n.toLocaleString("en-US")} line${n === 1 ? "" : "s"} in ${result.checkMs.toFixed(0)} ms.`;
@@ -253,6 +272,10 @@ function render() {
     `checked ${r.options.from === r.options.to ? `on ${esc(r.options.from)}` : `from ${esc(r.options.from)} to ${esc(r.options.to)}`}` +
     `${r.options.billable ? ", billable codes required" : ""}.</span>`;
 
+  renderSystems(r);
+  // The system column only for a list of several systems.
+  const several = Object.keys(s.systems || {}).length > 1 || !!(s.by_system || []).length;
+  $("findings").classList.toggle("one-system", !several);
   const all = findingRows(r);
   const kinds = new Map();
   for (const row of all) kinds.set(row.kind, (kinds.get(row.kind) || 0) + 1);
@@ -268,6 +291,35 @@ function render() {
   $("apply-safe").disabled = !all.some((x) => x.kind === "normalized" && x.entry && x.suggestions.length);
   renderCleaned();
   renderCoverage();
+}
+
+/** Which systems the list holds, what each was checked against, and the loaded indexes. */
+function renderSystems(r) {
+  const p = $("systems-line");
+  const parts = r.summary.by_system || [];
+  if (!parts.length && !state.shapes) {
+    p.hidden = true;
+    p.textContent = "";
+    return;
+  }
+  const how = (x) =>
+    x.checked === "index"
+      ? `index release ${x.release}`
+      : x.checked === "not-loaded"
+        ? "shape only (its index could not be loaded here)"
+        : "shape and check digit only";
+  const list = parts.length
+    ? parts.map((x) => `${x.title}: ${x.entries.toLocaleString("en-US")} ${x.entries === 1 ? "entry" : "entries"} (${how(x)}; ${plural(x.errors, "error")})`)
+    : [`${r.vocabulary}: shape and check digit only`];
+  p.hidden = false;
+  p.dataset.loaded = state.loaded.join(" ");
+  p.textContent = `By system: ${list.join(" · ")}. Indexes loaded: ${state.loaded.join(", ") || "none"}.`;
+}
+
+/** The system of a findings row: its entry's, or that of the first line of a list finding. */
+function rowSystem(x) {
+  const e = x.entry || state.report.entries[x.line - 1];
+  return (e && e.system) || "";
 }
 
 function renderRows() {
@@ -289,15 +341,15 @@ function renderRows() {
         .join("");
       const lines = x.lines.length > 1 ? x.lines.join(", ") : String(x.line);
       return (
-        `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${x.severity}">` +
-        `<td class="num">${lines}</td><td class="input"><code>${esc(x.input)}</code></td>` +
+        `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${x.severity}" data-system="${esc(rowSystem(x))}">` +
+        `<td class="num">${lines}</td><td class="input"><code>${esc(x.input)}</code></td><td class="system">${esc(rowSystem(x))}</td>` +
         `<td><span class="sev sev-${x.severity}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
         `<td>${esc(x.kind)}</td><td class="what">${esc(x.message)}</td><td class="suggs">${sugg || '<span class="hint">—</span>'}</td></tr>`
       );
     })
     .join("");
   if (!rows.length) {
-    body.innerHTML = `<tr><td colspan="6" class="hint">${state.allRows.length ? "No findings match the filter." : "No findings: every entry is fine for these options."}</td></tr>`;
+    body.innerHTML = `<tr><td colspan="7" class="hint">${state.allRows.length ? "No findings match the filter." : "No findings: every entry is fine for these options."}</td></tr>`;
   }
   const more = $("findings-more");
   if (rows.length > shown.length) {
@@ -381,6 +433,8 @@ async function requestStrips(report) {
   const seen = new Set();
   for (const e of report.entries) {
     if (e.code == null || e.status === "pattern" || seen.has(e.code)) continue;
+    // Strips come from the loaded index: codes of the list's own system only.
+    if (e.system && e.system !== report.vocabulary) continue;
     seen.add(e.code);
     codes.push(e.code);
     if (codes.length >= STRIP_LIMIT) break;
@@ -541,7 +595,7 @@ function wire() {
   $("download-fhir").addEventListener("click", () => {
     const { resource, leftOut } = toValueSet(state.cleaned, state.report);
     download("code-list.valueset.json", "application/fhir+json", JSON.stringify(resource, null, 2) + "\n");
-    exportStatus(`Saved the FHIR ValueSet (${plural(resource.compose.include[0].concept.length, "concept")})${leftOut ? `; ${plural(leftOut, "pattern")} left out` : ""}.`);
+    exportStatus(`Saved the FHIR ValueSet (${plural(resource.compose.include.reduce((n, inc) => n + inc.concept.length, 0), "concept")})${leftOut ? `; ${plural(leftOut, "pattern")} left out` : ""}.`);
   });
   $("copy-link").addEventListener("click", async () => {
     await updateLink($("list").value, readOptions());

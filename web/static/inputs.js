@@ -1,7 +1,8 @@
 // Turning files into the lines the checker reads. TXT, CSV and TSV files are
 // taken as they are (the checker finds the code and label columns itself, and
 // line numbers stay those of the file); a FHIR ValueSet becomes
-// "code<TAB>display" lines.
+// "code<TAB>display" lines, with a system column when it holds concepts of
+// other code systems than ICD-10-CM.
 
 export const FHIR_ICD10CM = "http://hl7.org/fhir/sid/icd-10-cm";
 
@@ -11,9 +12,13 @@ function flat(value) {
 }
 
 /**
- * The concepts of a FHIR ValueSet as "code<TAB>display" lines: those of
+ * The concepts of a FHIR ValueSet as lines: those of
  * compose.include[].concept[] and expansion.contains[] (nested too), each
- * code once. Concepts of other code systems are left out and counted.
+ * code of each system once. ICD-10-CM concepts alone (or concepts without a
+ * system) become "code<TAB>display"; with other systems, the lines get a
+ * heading and a system column holding each concept's system URI
+ * ("system<TAB>code<TAB>display"), which the checker reads per row (an
+ * unknown URI is a finding on its line, never dropped).
  */
 export function valueSetToLines(vs) {
   if (!vs || typeof vs !== "object" || Array.isArray(vs)) {
@@ -23,20 +28,14 @@ export function valueSetToLines(vs) {
     throw new Error(`the JSON file is a FHIR ${vs.resourceType ? `“${vs.resourceType}”` : "resource without resourceType"}, not a ValueSet`);
   }
   const seen = new Set();
-  const lines = [];
-  const otherSystems = new Set();
-  let skipped = 0;
+  const rows = [];
   const add = (system, code, display) => {
-    if (system && system !== FHIR_ICD10CM) {
-      otherSystems.add(system);
-      skipped++;
-      return;
-    }
     const c = flat(code);
-    if (!c || seen.has(c)) return;
-    seen.add(c);
-    const d = flat(display);
-    lines.push(d ? `${c}\t${d}` : c);
+    const sys = flat(system);
+    const key = `${sys || FHIR_ICD10CM}\t${c}`;
+    if (!c || seen.has(key)) return;
+    seen.add(key);
+    rows.push({ system: sys, code: c, display: flat(display) });
   };
   const includes = vs.compose && Array.isArray(vs.compose.include) ? vs.compose.include : [];
   let filtersOnly = 0;
@@ -57,12 +56,17 @@ export function valueSetToLines(vs) {
     }
   };
   if (vs.expansion) walk(vs.expansion.contains);
+  const systems = new Set(rows.map((r) => r.system || FHIR_ICD10CM));
+  const mixed = systems.size > 1 || (rows.length > 0 && !systems.has(FHIR_ICD10CM));
+  const lines = mixed
+    ? ["system\tcode\tdisplay", ...rows.map((r) => `${r.system}\t${r.code}\t${r.display}`)]
+    : rows.map((r) => (r.display ? `${r.code}\t${r.display}` : r.code));
   const notes = [];
-  if (skipped) notes.push(`${skipped} concept(s) from other code systems left out (${[...otherSystems].join(", ")})`);
+  if (mixed) notes.push(`${systems.size} code systems, named in the system column (${[...systems].join(", ")})`);
   if (filtersOnly) notes.push(`${filtersOnly} include rule(s) given by filter or other value set cannot be read`);
   if (vs.compose && Array.isArray(vs.compose.exclude) && vs.compose.exclude.length) notes.push("compose.exclude is not applied");
-  if (!lines.length) throw new Error("the ValueSet lists no ICD-10-CM concepts (compose.include[].concept or expansion.contains)");
-  return { text: lines.join("\n"), notes };
+  if (!rows.length) throw new Error("the ValueSet lists no concepts (compose.include[].concept or expansion.contains)");
+  return { text: lines.join("\n"), notes, count: rows.length };
 }
 
 /**
@@ -81,8 +85,7 @@ export function fileToLines(name, raw) {
     } catch (e) {
       throw new Error(`“${name}” is not valid JSON: ${e.message}`);
     }
-    const { text: lines, notes } = valueSetToLines(vs);
-    const count = lines.split("\n").length;
+    const { text: lines, notes, count } = valueSetToLines(vs);
     return { text: lines, note: `Read ${count} concept(s) from the FHIR ValueSet “${name}”.${notes.length ? " " + notes.join("; ") + "." : ""}` };
   }
   const lines = text.replace(/\r\n?/g, "\n").replace(/\n$/, "");

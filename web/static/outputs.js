@@ -13,14 +13,16 @@ export function cleanedRows(report) {
   const rows = [];
   for (const e of report.entries) {
     if (SKIPPED.has(e.status) || e.code == null) continue;
-    if (seen.has(e.code)) continue;
-    seen.add(e.code);
+    const key = `${e.system ?? report.vocabulary}\t${e.code}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
     rows.push({
       code: e.code,
       label: e.label ?? "",
       description: e.description ?? "",
       status: e.status,
       line: e.line,
+      system: e.system ?? report.vocabulary,
     });
   }
   return rows;
@@ -52,26 +54,50 @@ export function toJsonReport(report) {
  * The cleaned list as a FHIR R4 ValueSet. Patterns (like E11.*) are not
  * concepts, so they are left out and counted in `leftOut`.
  */
-// FHIR code system URIs (HL7 terminology; the ICD-9-CM and ICD-10-PCS ones from memory).
+// FHIR code system URIs (HL7 Terminology, the FHIR R4 code system registry;
+// written from memory, the same as rollcall::systems::FHIR_URIS).
 const FHIR_SYSTEMS = {
   icd10cm: FHIR_ICD10CM,
-  icd9cm: "http://hl7.org/fhir/sid/icd-9-cm",
   icd10pcs: "http://www.cms.gov/Medicare/Coding/ICD10",
+  icd9cm: "http://hl7.org/fhir/sid/icd-9-cm",
+  hpo: "http://purl.obolibrary.org/obo/hp.owl",
+  loinc: "http://loinc.org",
+  snomed: "http://snomed.info/sct",
+  ndc: "http://hl7.org/fhir/sid/ndc",
+  hcpcs: "https://www.cms.gov/Medicare/Coding/HCPCSReleaseCodeSets",
+  cpt: "http://www.ama-assn.org/go/cpt",
+  rxnorm: "http://www.nlm.nih.gov/research/umls/rxnorm",
 };
 
 export function toValueSet(rows, report) {
-  const concept = [];
+  // One include per system, in order of first appearance; the list's own
+  // system first.
+  const bySystem = new Map([[report.vocabulary, []]]);
   let leftOut = 0;
   for (const r of rows) {
-    if (r.status === "pattern" || !/^[A-Z0-9.]+$/.test(r.code)) {
+    if (r.status === "pattern" || !/^[A-Za-z0-9.:_-]+$/.test(r.code) || !FHIR_SYSTEMS[r.system || report.vocabulary]) {
       leftOut++;
       continue;
     }
     const c = { code: r.code };
     const display = r.description || r.label;
     if (display) c.display = display;
-    concept.push(c);
+    const sys = r.system || report.vocabulary;
+    if (!bySystem.has(sys)) bySystem.set(sys, []);
+    bySystem.get(sys).push(c);
   }
+  const parts = report.summary.by_system || [];
+  const release = (sys) =>
+    sys === report.vocabulary ? report.index.release : (parts.find((p) => p.system === sys) || {}).release;
+  const used = [...bySystem].filter(([, concept]) => concept.length);
+  const include = (used.length ? used : [[report.vocabulary, []]])
+    .map(([sys, concept]) => {
+      const inc = { system: FHIR_SYSTEMS[sys] || FHIR_ICD10CM };
+      const version = release(sys);
+      if (version && !/^none/.test(version)) inc.version = version;
+      inc.concept = concept;
+      return inc;
+    });
   const o = report.options;
   const when = o.from === o.to ? `on ${o.from}` : `from ${o.from} to ${o.to}`;
   const resource = {
@@ -83,9 +109,7 @@ export function toValueSet(rows, report) {
     description:
       `${report.vocabulary === "icd10cm" ? "ICD-10-CM" : report.vocabulary} codes checked ${when}` +
       `${o.billable ? ", billable codes required" : ""}, against index release ${report.index.release}.`,
-    compose: {
-      include: [{ system: FHIR_SYSTEMS[report.vocabulary] || FHIR_ICD10CM, version: report.index.release, concept }],
-    },
+    compose: { include },
   };
   return { resource, leftOut };
 }

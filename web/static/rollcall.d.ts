@@ -26,6 +26,11 @@ export interface CheckOptionsInput {
   to?: string | null;
   /** Header (non-billable) codes are errors. */
   billable?: boolean;
+  /**
+   * A system checked by shape only (hpo, loinc, snomed, ndc, hcpcs, cpt, rxnorm)
+   * for the rows with no system cell, as the CLI's `--system NAME`.
+   */
+  system?: string;
 }
 
 export type Severity = "error" | "warning" | "info";
@@ -47,6 +52,8 @@ export interface Entry {
   line: number;
   input: string;
   code: string | null;
+  /** The system the entry was checked in (icd10cm, icd10pcs, loinc, ...). */
+  system: string | null;
   label: string | null;
   description: string | null;
   status: string;
@@ -74,7 +81,28 @@ export interface Report {
   options: { on: string | null; from: string; to: string; billable: boolean };
   entries: Entry[];
   list_findings: ListFinding[];
-  summary: { lines: number; entries: number; errors: number; warnings: number; infos: number };
+  summary: {
+    lines: number;
+    entries: number;
+    errors: number;
+    warnings: number;
+    infos: number;
+    /** Entries per system. */
+    systems: Record<string, number>;
+    /** Only for a list with a system column: each system's rows and what they were checked against. */
+    by_system?: SystemPart[];
+  };
+}
+
+export interface SystemPart {
+  system: string;
+  title: string;
+  checked: "index" | "shape" | "not-loaded";
+  release: string | null;
+  entries: number;
+  errors: number;
+  warnings: number;
+  infos: number;
 }
 
 export interface Span {
@@ -126,6 +154,8 @@ export interface CheckResult {
   checkMs: number;
   /** Check plus coverage in the worker, ms. */
   totalMs: number;
+  /** The systems whose indexes the worker has loaded (this one's first). */
+  loaded: string[];
 }
 
 /** A loaded, verified index in its own worker. */

@@ -185,7 +185,10 @@ export class Checker {
 
   /** The report, the category coverage of the same pass, and timings in ms. */
   checkWithCoverage(list, options = {}) {
-    return this.channel.ask("check", { text: listText(list), options: options ?? {} });
+    // `system`: a shape-only system (loinc, snomed, ...) for the rows with no
+    // system cell; the other options are the CLI's.
+    const { system, ...rest } = options ?? {};
+    return this.channel.ask("check", { text: listText(list), options: rest, system: system || undefined });
   }
 
   /** The list with edits applied (replace a line's code, remove or add a line). */

@@ -8,8 +8,11 @@
 //   <- {id, ok: true, result: true}
 //   -> {id, type: "load", bytes: ArrayBuffer, manifest: object}
 //   <- {id, ok: true, result: IndexInfo}
-//   -> {id, type: "check", text: string, options: CheckOptionsInput}
-//   <- {id, ok: true, result: {report, coverage, checkMs, totalMs}}
+//   -> {id, type: "check", text: string, options: CheckOptionsInput, system?: string}
+//      (system: a shape-only system, loinc, snomed, ...: the rows with no
+//      system cell are checked by its shape rules instead of the index)
+//   <- {id, ok: true, result: {report, coverage, checkMs, totalMs, loaded: string[]}}
+//      (loaded: the systems whose indexes are loaded, this one's first)
 //   -> {id, type: "edit", text: string, edits: Edit[]}   (replace / remove / add)
 //   <- {id, ok: true, result: string}   (the list with the edits applied)
 //   -> {id, type: "compare", a: string, b: string, options: CheckOptionsInput}
@@ -84,7 +87,9 @@ function load(bytes, manifest) {
 
 // Other systems' indexes, fetched the first time a list needs one: an
 // ICD-10-CM list with ICD-9-CM codes in it gets the ICD-9-CM index (and its
-// GEMs), verified against its manifest, as the CLI has it built in.
+// GEMs), and a list whose system column names a bundled system gets that
+// system's index, each verified against its manifest (manifest-NAME.json,
+// written by the post-build hook), as the CLI has them built in.
 const companions = new Map(); // vocabulary -> Promise<boolean>
 
 async function companion(name) {
@@ -93,7 +98,9 @@ async function companion(name) {
       name,
       (async () => {
         try {
-          const manifest = await (await fetch(`./manifest-${name}.json`)).json();
+          // The default index's manifest has its own name (see web/Trunk.toml).
+          const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
+          const manifest = await (await fetch(`./${file}`)).json();
           const bytes = new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
           if (wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) return false;
           checker.addCompanion(bytes);
@@ -107,22 +114,37 @@ async function companion(name) {
   return companions.get(name);
 }
 
-async function check(text, options) {
+/** The bundled indexes a report says its list needs and that are not loaded yet. */
+function needed(report) {
+  const wanted = new Set(
+    (report.summary.by_system || []).filter((p) => p.checked === "not-loaded").map((p) => p.system),
+  );
+  if (report.vocabulary === "icd10cm" && report.entries.some((e) => e.status === "other-system" && e.system === "icd9cm")) {
+    wanted.add("icd9cm");
+  }
+  return [...wanted].filter((name) => !companions.has(name));
+}
+
+async function check(text, options, system) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
   // One JSON string across the boundary is much faster than building the
   // report object by object (see Checker.checkJson).
-  let report = JSON.parse(checker.checkJson(text, options));
-  const wanted = new Set(
-    report.entries.filter((e) => e.status === "other-system" && e.system === "icd9cm").map((e) => e.system),
-  );
-  if (report.vocabulary === "icd10cm" && wanted.size && !companions.has("icd9cm")) {
-    if (await companion("icd9cm")) report = JSON.parse(checker.checkJson(text, options));
+  const run = () =>
+    JSON.parse(system ? checker.checkShapesJson(system, text, options) : checker.checkJson(text, options));
+  let report = run();
+  const wanted = needed(report);
+  if (wanted.length) {
+    // One after the other, so the indexes are at hand in the same order as
+    // on the command line (the order of the system names).
+    let any = false;
+    for (const name of wanted) any = (await companion(name)) || any;
+    if (any) report = run();
   }
   const t1 = performance.now();
   const coverage = checker.coverage();
   const t2 = performance.now();
-  return { report, coverage, checkMs: t1 - t0, totalMs: t2 - t0 };
+  return { report, coverage, checkMs: t1 - t0, totalMs: t2 - t0, loaded: checker.loaded() };
 }
 
 function timelines(codes) {
@@ -148,7 +170,7 @@ self.onmessage = async (event) => {
         result = load(msg.bytes, msg.manifest);
         break;
       case "check":
-        result = await check(String(msg.text ?? ""), msg.options ?? {});
+        result = await check(String(msg.text ?? ""), msg.options ?? {}, msg.system ? String(msg.system) : null);
         break;
       case "edit":
         if (!checker) throw new Error("the index is not loaded");

@@ -235,3 +235,51 @@ fn a_companion_index_names_old_codes_with_their_gem_targets() {
     );
     assert!(c.add_companion(vec![1, 2, 3]).is_err());
 }
+
+/// A list with a system column: a PCS row is checked by shape with a
+/// warning until the ICD-10-PCS index is added, then against it (0DTJ4ZZ is
+/// in the FY2024 ICD-10-PCS code file, icd10pcs-codes-FY2024.txt).
+#[wasm_bindgen_test]
+fn a_system_column_uses_the_companion_of_that_system() {
+    const PCS: &[u8] = include_bytes!("../../vocab/icd10pcs.rcx");
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let list = "system\tcode\nICD-10-PCS\t0DTJ4ZZ\nICD-10-CM\tE11.9\n";
+    let day = options(r#"{"on":"2024-01-01"}"#);
+    let v: serde_json::Value = serde_json::from_str(&c.check_json(list, day).unwrap()).unwrap();
+    assert_eq!(v["entries"][1]["status"], "shape-only");
+    assert_eq!(v["summary"]["by_system"][1]["checked"], "not-loaded");
+    assert_eq!(c.add_companion(PCS.to_vec()).unwrap(), "icd10pcs");
+    assert_eq!(c.loaded(), ["icd10cm", "icd10pcs"]);
+    let day = options(r#"{"on":"2024-01-01"}"#);
+    let v: serde_json::Value = serde_json::from_str(&c.check_json(list, day).unwrap()).unwrap();
+    assert_eq!(v["entries"][1]["status"], "valid");
+    assert_eq!(v["entries"][1]["system"], "icd10pcs");
+    assert_eq!(v["entries"][2]["system"], "icd10cm");
+}
+
+/// A shape-only system: LOINC 2345-7 has the right mod 10 check digit
+/// (LOINC Users' Guide), 2345-8 not; an unknown name is an Error.
+#[wasm_bindgen_test]
+fn check_shapes_json_checks_a_shape_only_system() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let json = c
+        .check_shapes_json(
+            "loinc",
+            "2345-7\n2345-8\n",
+            options(r#"{"on":"2024-01-01"}"#),
+        )
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(v["vocabulary"], "loinc");
+    assert_eq!(v["entries"][0]["status"], "shape-only");
+    assert_eq!(v["entries"][1]["status"], "malformed");
+    let err = c
+        .check_shapes_json("icd11", "x\n", options("{}"))
+        .unwrap_err();
+    assert!(message(err).contains("rxnorm"));
+    // A bundled system is checked against its index, not by shape.
+    let err = c
+        .check_shapes_json("icd10pcs", "0DTJ4ZZ\n", options("{}"))
+        .unwrap_err();
+    assert!(message(err).contains("bundled index"));
+}
