@@ -249,6 +249,7 @@ fn part(
             Checked::Index(r) => Some(r),
             _ => None,
         },
+        notice: report.index.notice.clone(),
         entries: mine.len(),
         errors: 0,
         warnings: 0,

@@ -294,6 +294,9 @@ pub struct SystemPart {
     pub checked: String,
     /// The index's release, when checked against one.
     pub release: Option<String>,
+    /// Credit that index's licence asks to show (HPO); absent when none.
+    #[serde(skip_serializing_if = "String::is_empty")]
+    pub notice: String,
     /// Rows holding a code or pattern.
     pub entries: usize,
     /// Error-level findings on these rows and in their list findings.

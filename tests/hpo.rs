@@ -385,3 +385,41 @@ fn a_term_reaches_everything_under_it_in_a_comparison() {
     assert_eq!((c.agreement.only_a, c.agreement.only_b), (1, 0));
     assert_eq!(c.differences[0].code, "HP:0001638");
 }
+
+/// HPO rows in an ICD-10-CM list with a system column are checked against
+/// the HPO release (as of it), the ICD-10-CM rows over the study period;
+/// the per-system part carries the HPO credit. E11.9 is billable in FY2024
+/// (icd10cm-codes-FY2024.txt); HP:0001425 is obsolete (the OBO file).
+#[test]
+fn hpo_rows_of_a_mixed_list_are_checked_against_the_release() {
+    use rollcall::mixed::{check_list, Primary};
+    let cm = common::index();
+    let h = hpo();
+    let text = "system\tcode\nICD-10-CM\tE11.9\nHPO\tHP:0001250\nhttp://purl.obolibrary.org/obo/hp.owl\tHP:0001425\n";
+    let opts = CheckOptions {
+        from: Date::parse("2023-10-01").unwrap(),
+        to: Date::parse("2024-09-30").unwrap(),
+        billable: true,
+    };
+    let r = check_list(Primary::Index(&cm), &[&h], text, &opts);
+    let status: Vec<(Option<&str>, Status)> = r.entries[1..]
+        .iter()
+        .map(|e| (e.system.as_deref(), e.status))
+        .collect();
+    assert_eq!(
+        status,
+        [
+            (Some("icd10cm"), Status::Valid),
+            (Some("hpo"), Status::Valid),
+            (Some("hpo"), Status::Retired)
+        ]
+    );
+    let part = r
+        .summary
+        .by_system
+        .iter()
+        .find(|p| p.system == "hpo")
+        .unwrap();
+    assert_eq!(part.release.as_deref(), Some("2025-01-16"));
+    assert!(part.notice.contains("Human Phenotype Ontology"));
+}

@@ -121,6 +121,9 @@ pub fn text(report: &Report) -> String {
                 if p.entries == 1 { "y" } else { "ies" },
                 counts(&part)
             );
+            if !p.notice.is_empty() && p.notice != report.index.notice {
+                let _ = writeln!(s, "  {:<24} {}", "", p.notice);
+            }
         }
     }
     let _ = writeln!(

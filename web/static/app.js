@@ -18,7 +18,7 @@ const STRIP_LIMIT = 150;
 const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
 // Systems with a bundled index (manifest-NAME.json beside the page); the
 // others in the "Code system" menu are checked by shape and check digit.
-const BUNDLED = new Set(["icd10cm", "icd10pcs", "icd9cm"]);
+const BUNDLED = new Set(["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
 
 // --------------------------------------------------------------- checker --
 
@@ -140,13 +140,19 @@ function showIndexReady(info) {
   p.hidden = false;
   p.innerHTML =
     `<span aria-hidden="true">✓</span> ${esc(info.title)} index, release <strong id="index-release">${esc(info.release)}</strong>, ` +
-    `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> ` +
+    (info.coverage_from === info.coverage_to
+      ? `one release only: terms are checked as of it, and study dates do not apply to them `
+      : `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> `) +
     `<span class="hint">(${formatBytes(info.byte_length)}, SHA-256 ${esc(info.sha256.slice(0, 12))}…, matches its manifest)</span>`;
   for (const id of ["opt-on", "opt-from", "opt-to"]) {
     $(id).min = info.coverage_from;
     $(id).max = info.coverage_to;
   }
   $("on-hint").textContent = `Empty means today (${new Date().toISOString().slice(0, 10)}, UTC), as on the command line. The index covers ${info.coverage_from} to ${info.coverage_to}.`;
+  // The credit the release's licence asks for (HPO), shown while its index is in use.
+  const notice = $("index-notice");
+  notice.textContent = info.notice || "";
+  notice.hidden = !info.notice;
   $("source-files").textContent = info.sources.length
     ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.`
     : "";
@@ -313,7 +319,9 @@ function renderSystems(r) {
     : [`${r.vocabulary}: shape and check digit only`];
   p.hidden = false;
   p.dataset.loaded = state.loaded.join(" ");
-  p.textContent = `By system: ${list.join(" · ")}. Indexes loaded: ${state.loaded.join(", ") || "none"}.`;
+  const notices = parts.map((x) => x.notice).filter((n) => n && n !== r.index.notice);
+  p.textContent = `By system: ${list.join(" · ")}. Indexes loaded: ${state.loaded.join(", ") || "none"}.` +
+    (notices.length ? ` ${[...new Set(notices)].join(" ")}` : "");
 }
 
 /** The system of a findings row: its entry's, or that of the first line of a list finding. */
