@@ -605,3 +605,26 @@ test("a PCS list naming ICD-10-CM rows fetches the ICD-10-CM index for them", as
   assert.deepEqual(page.errors, []);
   await page.close();
 });
+
+test("HPO picked in the menu: the demo phenotype list checks as the CLI's --system hpo, with the HPO credit", async () => {
+  // demo-data/hpo-phenotypes.tsv against hp-2025-01-16.obo: an obsolete term
+  // replaced_by another, an alt_id, a term under a listed parent.
+  const file = path.join(ROOT, "demo-data/hpo-phenotypes.tsv");
+  const want = cli(file, ["--system", "hpo"]);
+  const page = await openPage();
+  await waitReady(page);
+  assert.equal(requests.filter((u) => u.endsWith("hpo.rcx")).length, 0, "the HPO index is not fetched until it is picked");
+  await page.selectOption("#opt-system", "hpo");
+  await page.waitForFunction(() => document.body.dataset.state === "ready" && /HPO/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  assert.match(await page.textContent("#index-ready"), /one release only/);
+  const notice = await page.textContent("#index-notice");
+  assert.match(notice, /Human Phenotype Ontology \(HPO\), release 2025-01-16/);
+  assert.equal(await page.isVisible("#index-notice"), true);
+  await page.fill("#list", fs.readFileSync(file, "utf8"));
+  await checkNow(page);
+  assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
+  const { text } = await downloadText(page, "download-json");
+  assert.deepEqual(JSON.parse(text), want);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
