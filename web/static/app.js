@@ -148,7 +148,9 @@ function showIndexReady(info) {
     $(id).min = info.coverage_from;
     $(id).max = info.coverage_to;
   }
-  $("on-hint").textContent = `Empty means today (${new Date().toISOString().slice(0, 10)}, UTC), as on the command line. The index covers ${info.coverage_from} to ${info.coverage_to}.`;
+  $("on-hint").textContent = info.coverage_from === info.coverage_to
+    ? `${info.title} is one release (${info.release}): the day and period do not change its check.`
+    : `Empty means today (${new Date().toISOString().slice(0, 10)}, UTC), as on the command line. The index covers ${info.coverage_from} to ${info.coverage_to}.`;
   // The credit the release's licence asks for (HPO), shown while its index is in use.
   const notice = $("index-notice");
   notice.textContent = info.notice || "";
@@ -437,6 +439,11 @@ function exportStatus(text) {
 
 async function requestStrips(report) {
   const seq = state.seq;
+  // A one-release vocabulary (HPO) has no dates to draw.
+  if (report.options.single_release) {
+    $("strips").innerHTML = `<p class="hint">${esc(state.info.title)} is one release (${esc(state.info.release)}): its terms have no validity dates to draw. The bars below show the list's terms per category.</p>`;
+    return;
+  }
   const codes = [];
   const seen = new Set();
   for (const e of report.entries) {
@@ -475,7 +482,7 @@ async function requestStrips(report) {
 function renderCoverage() {
   const rows = state.coverage || [];
   $("coverage").innerHTML = rows.length
-    ? rows.map(coverageRow).join("")
+    ? rows.map((c) => coverageRow(c, state.info && state.info.coverage_from === state.info.coverage_to ? "terms in use" : "billable codes")).join("")
     : '<p class="hint">No categories yet.</p>';
 }
 

@@ -76,13 +76,13 @@ export function stripWords(spans) {
 }
 
 /** Markup of one category's coverage bar. */
-export function coverageRow(c) {
+export function coverageRow(c, unit = "billable codes") {
   const w = 220;
   const frac = c.total ? c.included / c.total : 0;
   const pct = Math.round(frac * 100);
   const words = c.total
-    ? `${c.included} of ${c.total} billable codes${c.included === c.total ? " (all)" : ` (${pct}%)`}`
-    : "no billable codes in the period";
+    ? `${c.included} of ${c.total} ${unit}${c.included === c.total ? " (all)" : ` (${pct}%)`}`
+    : `no ${unit} in the period`;
   return (
     `<div class="cov-row" role="group" aria-label="${esc(c.category)}: ${esc(words)}">` +
     `<span class="cov-cat"><code>${esc(c.category)}</code> ${esc(c.description)}</span>` +
