@@ -234,7 +234,12 @@ fn known_elsewhere(
                 .join(", ")
         );
         let mut sugg = Vec::new();
-        match other.mapping(&meta.vocabulary, own) {
+        // The mapping may live in either index (the GEMs of both directions
+        // are kept with ICD-9-CM).
+        let mapping = other
+            .mapping(&meta.vocabulary, own)
+            .or_else(|| view.mapping(&meta.vocabulary, own));
+        match mapping {
             Some(m) => {
                 let rows = m.lookup(&other.code(ord));
                 let words = crate::translate::flag_words(&rows);
@@ -261,7 +266,7 @@ fn known_elsewhere(
                 }
             }
             None => message.push_str(&format!(
-                "; the {} index carries no mapping into {}",
+                "; rollcall has no mapping from {} into {}",
                 meta.title,
                 view.meta().title
             )),

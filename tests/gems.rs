@@ -158,6 +158,22 @@ fn an_old_code_in_a_new_list_gets_its_gem_targets() {
     assert_ne!(r.entries[1].system.as_deref(), Some("icd9cm"));
 }
 
+/// The reverse: an ICD-10-CM code in an ICD-9-CM list, with the ICD-10-CM
+/// index at hand, gets its backward GEM targets, which live in the ICD-9-CM
+/// index (2015 backward GEMs: "E119","25000","10000", approximate).
+#[test]
+fn a_new_code_in_an_old_list_gets_its_backward_gem_targets() {
+    let (i9, cm) = (icd9_index(), index());
+    let r = check_among(&i9, &[cm.view()], "E11.9\n", &on("2014-12-01"));
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::OtherSystem);
+    assert_eq!(e.system.as_deref(), Some("icd10cm"));
+    let f = &e.findings[0];
+    assert!(f.message.contains("ICD-10-CM to ICD-9-CM"), "{}", f.message);
+    assert_eq!(f.suggestions[0].code, "250.00");
+    assert!(f.suggestions[0].reason.contains("approximate"));
+}
+
 /// compare names an old code in either list as check does (2015 GEMs:
 /// 25000 -> E119), and such a line reaches nothing in ICD-10-CM.
 #[test]

@@ -192,12 +192,16 @@ fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
 
 /// The bundled indexes a check of `text` needs beside its own vocabulary
 /// `own`: every one the list's system column names, and ICD-9-CM (with the
-/// GEMs) beside ICD-10-CM, so old codes in a new list are named with their
-/// targets.
+/// GEMs) beside ICD-10-CM and the reverse, so a code of the other system
+/// is named with its GEM targets.
 fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
     let mut want = systems_named(text);
-    if own == "icd10cm" {
-        want.push(System::Icd9cm);
+    // Each of the two with the GEMs beside the other (both directions are
+    // kept in the ICD-9-CM index).
+    match own {
+        "icd10cm" => want.push(System::Icd9cm),
+        "icd9cm" => want.push(System::Icd10cm),
+        _ => {}
     }
     want.sort();
     want.dedup();
@@ -229,11 +233,22 @@ fn check_text(
 /// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
 /// ICD-10-CM list, so old codes in a new list are named with their targets.
 fn companions<D: AsRef<[u8]>>(i: &Index<D>) -> Result<Vec<View<'static>>, String> {
-    Ok(if i.meta().vocabulary == "icd10cm" {
-        vec![icd9()?.view()]
-    } else {
-        Vec::new()
+    Ok(match i.meta().vocabulary.as_str() {
+        "icd10cm" => vec![icd9()?.view()],
+        // And the other way: an ICD-10-CM code in an ICD-9-CM list is named
+        // with its backward GEM targets.
+        "icd9cm" => vec![icd10cm()?.view()],
+        _ => Vec::new(),
     })
+}
+
+/// The bundled ICD-10-CM index, opened once.
+fn icd10cm() -> Result<&'static Index<&'static [u8]>, String> {
+    static ONCE: std::sync::OnceLock<Result<Index<&'static [u8]>, String>> =
+        std::sync::OnceLock::new();
+    ONCE.get_or_init(|| bundled(System::Icd10cm).expect("ICD-10-CM is bundled"))
+        .as_ref()
+        .map_err(|e| e.clone())
 }
 
 fn target(a: &Args) -> Result<Target, String> {
