@@ -200,3 +200,59 @@ pub fn read(
         map_to: n_map,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::read;
+    use rollcall::Date;
+
+    fn day() -> Date {
+        Date::parse("2024-08-06").unwrap()
+    }
+
+    const HEAD: &str = "\"LOINC_NUM\",\"COMPONENT\",\"STATUS\",\"LONG_COMMON_NAME\"\r\n\"9900001-0\",\"A\",\"ACTIVE\",\"A in B\"\r\n";
+
+    /// Each malformed row is refused with its line (line 3). 9900001-1 has
+    /// a wrong check digit (LOINC Users' Guide mod 10: it should be 0).
+    #[test]
+    fn every_bad_row_names_its_line() {
+        for (row, says) in [
+            ("\"9900001-1\",\"A\",\"ACTIVE\",\"x\"", "check digit"),
+            ("\"9900002\",\"A\",\"ACTIVE\",\"x\"", "LOINC"),
+            ("\"9900002-8\",\"A\",\"ACTIVE\"", "fields"),
+            ("\"9900002-8\",\"\",\"ACTIVE\",\"\"", "name"),
+            ("\"9900002-8\",\"A\",\"RETIRED\",\"x\"", "STATUS"),
+        ] {
+            let text = format!("{HEAD}{row}\r\n");
+            let e = read("Loinc.csv", &text, None, day()).err().expect(row);
+            assert_eq!(e.line, Some(3), "{row}: {e}");
+            assert!(e.message.contains(says), "{row}: {e}");
+        }
+        let e = read("Loinc.csv", "\"LOINC\",\"STATUS\"\n", None, day())
+            .err()
+            .unwrap();
+        assert!(e.message.contains("LOINC_NUM"), "{e}");
+    }
+
+    #[test]
+    fn bad_map_to_rows_name_their_line() {
+        for (row, says) in [
+            (
+                "\"9900002-8\",\"9900001-0\",\"\"",
+                "9900002-8 is not a term",
+            ),
+            (
+                "\"9900001-0\",\"9900002-8\",\"\"",
+                "9900002-8 is not a term",
+            ),
+            ("\"9900001-0\",\"x\",\"\"", "MAP_TO"),
+        ] {
+            let m = format!("\"LOINC\",\"MAP_TO\",\"COMMENT\"\n{row}\n");
+            let e = read("Loinc.csv", HEAD, Some(("MapTo.csv", &m)), day())
+                .err()
+                .expect(row);
+            assert_eq!((e.file.as_str(), e.line), ("MapTo.csv", Some(2)), "{e}");
+            assert!(e.message.contains(says), "{row}: {e}");
+        }
+    }
+}

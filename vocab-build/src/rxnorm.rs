@@ -212,3 +212,66 @@ pub fn read(
         unknown_targets,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::read;
+    use rollcall::Date;
+
+    fn day() -> Date {
+        Date::parse("2025-01-06").unwrap()
+    }
+
+    const GOOD: &str = "99000001|ENG||||||99100001||||RXNORM|IN|99000001|quellamine||N|4096|\n";
+
+    /// Each malformed line is refused with its line (line 2).
+    #[test]
+    fn every_bad_line_names_its_line() {
+        for (line, says) in [
+            (
+                "99000002|ENG||||||99100002||||RXNORM|SCD|99000002|x||N|",
+                "fields",
+            ),
+            (
+                "99000002|ENG||||||99100002||||RXNORM|SCD|99000002|x||N|4096|extra",
+                "fields",
+            ),
+            (
+                "RX2|ENG||||||99100002||||RXNORM|SCD|RX2|x||N|4096|",
+                "RXCUI",
+            ),
+            (
+                "99000002|ENG||||||99100002||||RXNORM|SCD|99000002|||N|4096|",
+                "STR",
+            ),
+        ] {
+            let text = format!("{GOOD}{line}\n");
+            let e = read(("RXNCONSO.RRF", &text), None, day())
+                .err()
+                .expect(line);
+            assert_eq!(e.line, Some(2), "{line}: {e}");
+            assert!(e.message.contains(says), "{line}: {e}");
+        }
+        for (line, says) in [("99000010|a|b|1|", "fields"), ("99000010|a|b|1|x|", "CUI2")] {
+            let text = format!("99000011|a|b|1|99000011|\n{line}\n");
+            let e = read(("RXNCONSO.RRF", GOOD), Some(("RXNCUI.RRF", &text)), day())
+                .err()
+                .expect(line);
+            assert_eq!((e.file.as_str(), e.line), ("RXNCUI.RRF", Some(2)), "{e}");
+            assert!(e.message.contains(says), "{line}: {e}");
+        }
+    }
+
+    /// A retired concept that RXNCONSO still lists stays in use and is
+    /// counted; a remap to no concept of the release is left out and counted.
+    #[test]
+    fn rows_not_used_are_counted() {
+        let cui = "99000001|a|b|1|99000001|\n99000009|a|b|1|99000123|\n";
+        let c = read(("RXNCONSO.RRF", GOOD), Some(("RXNCUI.RRF", cui)), day()).unwrap();
+        assert_eq!(
+            (c.still_current, c.unknown_targets, c.retired, c.remapped),
+            (1, 1, 1, 0)
+        );
+        assert_eq!(c.terms.len(), 2);
+    }
+}

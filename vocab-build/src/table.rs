@@ -289,3 +289,95 @@ fn on_cycle(terms: &[Term]) -> Option<&Term> {
     }
     None
 }
+
+#[cfg(test)]
+mod tests {
+    use super::read;
+    use rollcall::Date;
+
+    fn day() -> Date {
+        Date::parse("2025-06-30").unwrap()
+    }
+
+    const HEAD: &str =
+        "code\tdescription\tparent\tstatus\tvalid_from\tvalid_to\treplaced_by\n# comment\n\nA1\tRoot\t\t\t\t\t\n";
+
+    /// Each malformed row is refused with its line (line 5: after the
+    /// header, a comment, a blank line and a good row).
+    #[test]
+    fn every_bad_row_names_its_line() {
+        let bad = [
+            ("A2\tx\tA1\t\t\t\n", "fields"),
+            ("A.2\tx\tA1\t\t\t\t\n", "\".\""),
+            ("\tx\t\t\t\t\t\n", "is empty"),
+            ("A2345678901234567890123456789012X\tx\t\t\t\t\t\n", "32"),
+            ("A2\t\tA1\t\t\t\t\n", "no description"),
+            ("A2\tx\tA1\t\t2025-13-01\t\t\n", "valid_from"),
+            ("A2\tx\tA1\t\t20250101\t\t\n", "YYYY-MM-DD"),
+            ("A2\tx\tA1\t\t2025-02-01\t2025-01-01\t\n", "before"),
+            ("A2\tx\tA1\tretired\t2024-01-01\t\t\n", "no valid_to"),
+            ("A2\tx\tA1\t\t\t\tA1\n", "replaced_by"),
+            ("A2\tx\tA1\tnot/ok\t\t\t\n", "status"),
+            ("A2\tx\tA2\t\t\t\t\n", "own parent"),
+            ("A2\tx\tA9\t\t\t\t\n", "A9"),
+            ("A1\tagain\t\t\t\t\t\n", "twice"),
+            ("A2\tx\tA1\t\t2026-01-01\t\t\n", "open-ended"),
+        ];
+        for (row, says) in bad {
+            let text = format!("{HEAD}{row}");
+            let e = read("t.tsv", &text, day())
+                .and_then(|t| {
+                    crate::stated::build(
+                        crate::stated::About {
+                            id: "t".into(),
+                            title: "T".into(),
+                            release: "r".into(),
+                            day: day(),
+                            notice: String::new(),
+                            sources: Vec::new(),
+                        },
+                        t.terms,
+                    )
+                    .map(|_| ())
+                })
+                .expect_err(row);
+            assert_eq!(e.line, Some(5), "{row:?}: {e}");
+            assert!(e.message.contains(says), "{row:?}: {e}");
+        }
+    }
+
+    #[test]
+    fn a_loop_of_parents_is_refused() {
+        let text = "code\tdescription\tparent\nA\ta\tB\nB\tb\tC\nC\tc\tA\n";
+        let e = read("t.tsv", text, day()).err().unwrap();
+        assert!(e.message.contains("own ancestor"), "{e}");
+        assert!(e.line.is_some());
+    }
+
+    #[test]
+    fn header_problems_name_the_header_line() {
+        for (text, says) in [
+            ("# c\ncode\tname\n", "\"name\" is not a column"),
+            ("code\tcode\n", "twice"),
+            ("code\tparent\n", "no description"),
+        ] {
+            let e = read("t.tsv", text, day()).err().unwrap();
+            assert!(e.message.contains(says), "{text:?}: {e}");
+            assert!(e.line.is_some());
+        }
+    }
+
+    /// Without dates the table is one release: codes in use on the
+    /// release day, retired ones on none; other status words are kept.
+    #[test]
+    fn a_table_without_dates_is_one_release() {
+        let text =
+            "code\tdescription\tstatus\treplaced_by\nA\ta\t\t\nB\tb\tretired\tA\nc\tc\ttrial\t\n";
+        let t = read("t.tsv", text, day()).unwrap();
+        assert!(!t.dated);
+        assert_eq!(t.terms[0].billable.len(), 1);
+        assert!(t.terms[1].billable.is_empty());
+        assert_eq!(t.terms[2].code, "C");
+        assert_eq!(t.terms[2].status, "trial");
+    }
+}
