@@ -318,3 +318,36 @@ fn a_bad_table_row_names_its_line() {
     assert!(!out.exists());
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// The example table in the README builds as it is printed.
+#[test]
+fn the_readme_table_example_builds() {
+    let readme =
+        std::fs::read_to_string(Path::new(env!("CARGO_MANIFEST_DIR")).join("../README.md"))
+            .unwrap();
+    let start = readme
+        .find("```text\ncode\tdescription")
+        .expect("the README example")
+        + 8;
+    let end = start + readme[start..].find("```").unwrap();
+    let dir = std::env::temp_dir().join(format!("rollcall-import-readme-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let t = dir.join("example.tsv");
+    std::fs::write(&t, &readme[start..end]).unwrap();
+    let (idx, progress) = build(
+        "readme",
+        &[
+            "--table",
+            t.to_str().unwrap(),
+            "--id",
+            "lhm-findings",
+            "--title",
+            "Larkfield findings",
+            "--release-date",
+            "2025-06-30",
+        ],
+    );
+    assert!(progress.contains("6 codes (dated)"), "{progress}");
+    assert_eq!(idx.view().meta().vocabulary, "lhm-findings");
+    let _ = std::fs::remove_dir_all(&dir);
+}
