@@ -279,6 +279,10 @@ fn table_builds_a_dated_graph() {
     );
     // Not yet in use in 2023.
     assert_eq!(entry(&r, "LHM-24").status, Status::NotYetValid);
+    // Written in lower case, a hyphenated code is still that code, not a
+    // range.
+    let r = check(&idx, "lhm-24\n", &opts);
+    assert_eq!(entry(&r, "lhm-24").status, Status::NotYetValid, "{r:?}");
 }
 
 /// A malformed row stops the build with the file and line, and nothing is
