@@ -29,14 +29,14 @@ use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 const HELP: &str = "\
-vocab-build: write a rollcall index from official ICD-10-CM release files
+vocab-build: write a rollcall index from official release files
 
 usage:
   vocab-build                      build the bundled indexes (vocab-build/sources ->
                                    vocab/icd10cm.rcx, icd10pcs.rcx, icd9cm.rcx, hpo.rcx)
   vocab-build [--vocabulary icd10cm|icd10pcs|icd9cm] [FILES...] --out PATH
   vocab-build --hpo FILE.obo --out PATH
-  vocab-build --loinc Loinc.csv [--loinc-map-to MapTo.csv] --release TAG --release-date DAY --out PATH
+  vocab-build --loinc Loinc.csv [--loinc-map-to MapTo.csv] --release-date DAY [--release TAG] --out PATH
   vocab-build --rxnorm DIR --release-date DAY [--release TAG] --out PATH
   vocab-build --table FILE.tsv --id ID --title TITLE --release-date DAY [--release TAG] --out PATH
 
@@ -323,7 +323,10 @@ fn run(args: &[String]) -> Result<(), String> {
         .iter()
         .filter(|a| matches!(a, Arg::Loinc(_) | Arg::Rxnorm(_) | Arg::Table(_)))
         .count();
-    if imports > 0 || import.map_to.is_some() {
+    if imports == 0 && import.map_to.is_some() {
+        return Err("--loinc-map-to goes with --loinc".into());
+    }
+    if imports > 0 {
         let [a] = files.as_slice() else {
             return Err("--loinc, --rxnorm and --table each build an index of their own; give one of them without other files".into());
         };
@@ -556,7 +559,7 @@ fn build_import(a: &Arg, o: &Import, dest: &Path) -> Result<(), String> {
             };
             (about, t.terms)
         }
-        _ => return Err("not an import".into()),
+        _ => return Err("--loinc, --rxnorm or --table is needed for an import".into()),
     };
     let release = stated::build(about, terms).map_err(e)?;
     write_release(&release, dest, started)
