@@ -70,9 +70,9 @@ fn loinc() -> (Index<Vec<u8>>, String) {
 }
 
 /// Every invented LOINC number of the fixture carries the check digit of
-/// the mod 10 scheme in the LOINC Users' Guide (section "Check digit"),
-/// as rollcall computes it; 2345-7 is the Users' Guide's own example shape
-/// and its check digit (7) is the published one (from memory).
+/// the mod 10 scheme of the LOINC Users' Guide (its appendix on
+/// calculating check digits; from memory), as rollcall computes it; the
+/// check digit of 2345 is 7, as in the published code 2345-7 (from memory).
 #[test]
 fn loinc_fixture_numbers_have_their_check_digits() {
     assert_eq!(rollcall::systems::loinc_check_digit("2345"), Some(7));
