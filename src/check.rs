@@ -546,8 +546,13 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Comment => Item::Skip(Status::Comment),
         LineKind::Headings => Item::Skip(Status::ColumnHeadings),
         LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
-        // `2345-7` in a LOINC index is a code, not a range.
-        LineKind::Entry { code, .. } if view.is_graph() && view.ordinal(code.trim()).is_some() => {
+        // `2345-7` in a LOINC index is a code, not a range (`lhm-24` too,
+        // when the index has `LHM-24`).
+        LineKind::Entry { code, .. }
+            if view.is_graph()
+                && (view.ordinal(code.trim()).is_some()
+                    || view.ordinal(&code.trim().to_ascii_uppercase()).is_some()) =>
+        {
             code_item(view, code)
         }
         LineKind::Entry { code, .. } => match pattern::parse(code) {

@@ -7,12 +7,16 @@
 mod assemble;
 mod codefile;
 mod conversion;
+mod csv;
 mod error;
 mod gems;
 mod history;
+mod loinc;
 mod obo;
 mod order;
+mod rxnorm;
 mod stated;
+mod table;
 mod tabular;
 mod xml;
 
@@ -25,13 +29,16 @@ use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 const HELP: &str = "\
-vocab-build: write a rollcall index from official ICD-10-CM release files
+vocab-build: write a rollcall index from official release files
 
 usage:
   vocab-build                      build the bundled indexes (vocab-build/sources ->
                                    vocab/icd10cm.rcx, icd10pcs.rcx, icd9cm.rcx, hpo.rcx)
   vocab-build [--vocabulary icd10cm|icd10pcs|icd9cm] [FILES...] --out PATH
   vocab-build --hpo FILE.obo --out PATH
+  vocab-build --loinc Loinc.csv [--loinc-map-to MapTo.csv] --release-date DAY [--release TAG] --out PATH
+  vocab-build --rxnorm DIR --release-date DAY [--release TAG] --out PATH
+  vocab-build --table FILE.tsv --id ID --title TITLE --release-date DAY [--release TAG] --out PATH
 
 files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in force):
   --history FILE               release-history TSV (code, valid_from, valid_to, description)
@@ -43,6 +50,19 @@ files (plain or .gz; PERIOD is FROM..TO in YYYY-MM-DD, the days the file was in 
 
   --hpo FILE                   an HPO release in OBO format (hp.obo): terms, is_a parents,
                                obsolete terms with replaced_by and consider, alt_ids
+
+imports of releases a site is licensed for (each builds an index of its own):
+  --loinc FILE                 the LOINC table (Loinc.csv): LOINC_NUM, LONG_COMMON_NAME or
+                               COMPONENT, SHORTNAME, STATUS (TRIAL and DISCOURAGED warn,
+                               DEPRECATED is retired)
+  --loinc-map-to FILE          the LOINC map-to file (MapTo.csv): replacements of deprecated terms
+  --rxnorm DIR                 an RxNorm release's rrf/ folder: RXNCONSO.RRF (SAB=RXNORM names),
+                               RXNCUI.RRF when present (retired and remapped RXCUIs)
+  --table FILE                 the plain table format (see README: code, description, parent,
+                               status, valid_from, valid_to, replaced_by)
+  --release TAG                the release tag shown in reports (default: the release date)
+  --release-date DAY           the release's day, YYYY-MM-DD (required for imports)
+  --id ID, --title TITLE       vocabulary id and name of a --table import
 
 Without --history, billable dates come from the order and code files' periods.
 --vocabulary icd10pcs builds an ICD-10-PCS index: no dots, and the hierarchy by
@@ -140,6 +160,19 @@ enum Arg {
     Conversion(PathBuf),
     Gems(PathBuf),
     Hpo(PathBuf),
+    Loinc(PathBuf),
+    Rxnorm(PathBuf),
+    Table(PathBuf),
+}
+
+/// The options of an import.
+#[derive(Default)]
+struct Import {
+    map_to: Option<PathBuf>,
+    release: Option<String>,
+    day: Option<String>,
+    id: Option<String>,
+    title: Option<String>,
 }
 
 fn bundled(dir: &Path) -> Vec<Arg> {
@@ -207,12 +240,14 @@ type Parsed = (
     Option<PathBuf>,
     assemble::Vocabulary,
     Option<String>,
+    Import,
 );
 
 fn parse_args(args: &[String]) -> Result<Parsed, String> {
     let mut out = Vec::new();
     let mut dest = None;
     let mut vocabulary = assemble::ICD10CM;
+    let mut import = Import::default();
     let mut it = args.iter();
     while let Some(a) = it.next() {
         let mut val = || {
@@ -227,7 +262,9 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             Ok((PathBuf::from(f), period(p)?))
         };
         match a.as_str() {
-            "-h" | "--help" => return Ok((Vec::new(), None, vocabulary, Some(HELP.to_string()))),
+            "-h" | "--help" => {
+                return Ok((Vec::new(), None, vocabulary, Some(HELP.to_string()), import))
+            }
             "--vocabulary" => {
                 vocabulary = match val()?.as_str() {
                     "icd10cm" => assemble::ICD10CM,
@@ -244,6 +281,14 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             "--conversion" => out.push(Arg::Conversion(val()?.into())),
             "--gems" => out.push(Arg::Gems(val()?.into())),
             "--hpo" => out.push(Arg::Hpo(val()?.into())),
+            "--loinc" => out.push(Arg::Loinc(val()?.into())),
+            "--rxnorm" => out.push(Arg::Rxnorm(val()?.into())),
+            "--table" => out.push(Arg::Table(val()?.into())),
+            "--loinc-map-to" => import.map_to = Some(val()?.into()),
+            "--release" => import.release = Some(val()?),
+            "--release-date" => import.day = Some(val()?),
+            "--id" => import.id = Some(val()?),
+            "--title" => import.title = Some(val()?),
             "--tabular" => {
                 let (f, p) = dated(val()?)?;
                 out.push(Arg::Tabular(f, p))
@@ -264,15 +309,39 @@ fn parse_args(args: &[String]) -> Result<Parsed, String> {
             }
         }
     }
-    Ok((out, dest, vocabulary, None))
+    Ok((out, dest, vocabulary, None, import))
 }
 
 fn run(args: &[String]) -> Result<(), String> {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
-    let (files, dest, vocabulary, help) = parse_args(args)?;
+    let (files, dest, vocabulary, help, import) = parse_args(args)?;
     if let Some(h) = help {
         print!("{h}");
         return Ok(());
+    }
+    let imports = files
+        .iter()
+        .filter(|a| matches!(a, Arg::Loinc(_) | Arg::Rxnorm(_) | Arg::Table(_)))
+        .count();
+    if imports == 0 && import.map_to.is_some() {
+        return Err("--loinc-map-to goes with --loinc".into());
+    }
+    if imports > 0 {
+        let [a] = files.as_slice() else {
+            return Err("--loinc, --rxnorm and --table each build an index of their own; give one of them without other files".into());
+        };
+        let dest = dest.ok_or("an import needs --out PATH, the index file to write")?;
+        return build_import(a, &import, &dest);
+    }
+    if import.release.is_some()
+        || import.day.is_some()
+        || import.id.is_some()
+        || import.title.is_some()
+    {
+        return Err(
+            "--release, --release-date, --id and --title go with --loinc, --rxnorm or --table"
+                .into(),
+        );
     }
     if let [Arg::Hpo(f)] = files.as_slice() {
         let dest = dest.unwrap_or_else(|| root.join("..").join("vocab").join("hpo.rcx"));
@@ -360,6 +429,139 @@ fn build_hpo(file: &Path, dest: &Path, sums: Option<&str>) -> Result<(), String>
         sources: vec![l.source],
     };
     let release = stated::build(about, onto.terms).map_err(e)?;
+    write_release(&release, dest, started)
+}
+
+/// Builds an index from a release a site holds itself: LOINC, RxNorm or
+/// the plain table.
+fn build_import(a: &Arg, o: &Import, dest: &Path) -> Result<(), String> {
+    let started = std::time::Instant::now();
+    let e = |e: BuildError| e.to_string();
+    let day_text = o
+        .day
+        .as_deref()
+        .ok_or("an import needs --release-date YYYY-MM-DD, the day of the release")?;
+    let day = Date::parse(day_text)
+        .map_err(|_| format!("--release-date {day_text} is not a date; write YYYY-MM-DD"))?;
+    let release = o.release.clone().unwrap_or_else(|| day.to_string());
+    let (about, terms) = match a {
+        Arg::Loinc(f) => {
+            if o.id.is_some() || o.title.is_some() {
+                return Err(
+                    "--id and --title go with --table; a LOINC index is always loinc".into(),
+                );
+            }
+            let l = load(f, "terms, names and statuses", None).map_err(e)?;
+            let m = match &o.map_to {
+                Some(m) => Some(load(m, "replacements of deprecated terms", None).map_err(e)?),
+                None => None,
+            };
+            let t = loinc::read(
+                &l.name,
+                &l.text,
+                m.as_ref().map(|m| (m.name.as_str(), m.text.as_str())),
+                day,
+            )
+            .map_err(e)?;
+            eprintln!(
+                "read {}: {} terms, {} deprecated, {} trial or discouraged; {} map-to rows",
+                l.name,
+                t.terms.len(),
+                t.deprecated,
+                t.qualified,
+                t.map_to
+            );
+            let mut sources = vec![l.source];
+            sources.extend(m.map(|m| m.source));
+            let about = stated::About {
+                id: "loinc".into(),
+                title: "LOINC".into(),
+                release,
+                day,
+                notice: loinc::NOTICE.into(),
+                sources,
+            };
+            (about, t.terms)
+        }
+        Arg::Rxnorm(dir) => {
+            if o.id.is_some() || o.title.is_some() || o.map_to.is_some() {
+                return Err("--id, --title and --loinc-map-to do not go with --rxnorm".into());
+            }
+            let conso = load(
+                &dir.join("RXNCONSO.RRF"),
+                "concept names and term types",
+                None,
+            )
+            .map_err(e)?;
+            let cui_path = dir.join("RXNCUI.RRF");
+            let cui = if cui_path.exists() {
+                Some(load(&cui_path, "retired and remapped concepts", None).map_err(e)?)
+            } else {
+                eprintln!(
+                    "note: {} is not there; no retired concepts",
+                    cui_path.display()
+                );
+                None
+            };
+            let c = rxnorm::read(
+                (&conso.name, &conso.text),
+                cui.as_ref().map(|c| (c.name.as_str(), c.text.as_str())),
+                day,
+            )
+            .map_err(e)?;
+            eprintln!(
+                "read {}: {} RXNORM names, {} concepts in use ({} with every name suppressed)",
+                conso.name,
+                c.names,
+                c.terms.len() - c.retired,
+                c.suppressed
+            );
+            if cui.is_some() {
+                eprintln!(
+                    "read RXNCUI.RRF: {} retired concepts, {} remapped; {} rows name a concept still in RXNCONSO (kept in use); {} remap targets are no concept of the release (left out)",
+                    c.retired, c.remapped, c.still_current, c.unknown_targets
+                );
+            }
+            let mut sources = vec![conso.source];
+            sources.extend(cui.map(|c| c.source));
+            let about = stated::About {
+                id: "rxnorm".into(),
+                title: "RxNorm".into(),
+                release,
+                day,
+                notice: String::new(),
+                sources,
+            };
+            (about, c.terms)
+        }
+        Arg::Table(f) => {
+            if o.map_to.is_some() {
+                return Err("--loinc-map-to goes with --loinc".into());
+            }
+            let (Some(id), Some(title)) = (&o.id, &o.title) else {
+                return Err("a --table import needs --id (e.g. local-labs) and --title (the vocabulary's name)".into());
+            };
+            let l = load(f, "codes, parents, statuses and dates", None).map_err(e)?;
+            let t = table::read(&l.name, &l.text, day).map_err(e)?;
+            eprintln!(
+                "read {}: {} codes ({})",
+                l.name,
+                t.terms.len(),
+                if t.dated { "dated" } else { "one release" }
+            );
+            let about = stated::About {
+                id: id.clone(),
+                title: title.clone(),
+                release,
+                day,
+                notice: String::new(),
+                sources: vec![l.source],
+            };
+            (about, t.terms)
+        }
+        _ => return Err("--loinc, --rxnorm or --table is needed for an import".into()),
+    };
+    let release = stated::build(about, terms).map_err(e)?;
     write_release(&release, dest, started)
 }
 
@@ -460,7 +662,9 @@ fn build(
                 inp.mappings.push(m);
                 inp.sources.push(l.source);
             }
-            Arg::Hpo(_) => return Err("--hpo builds an index of its own".into()),
+            Arg::Hpo(_) | Arg::Loinc(_) | Arg::Rxnorm(_) | Arg::Table(_) => {
+                return Err("this import builds an index of its own".into())
+            }
             Arg::Conversion(f) => {
                 let l = load(f, "successors of retired codes", sums).map_err(e)?;
                 inp.conversion = conversion::parse(&l.name, &l.text).map_err(e)?;
