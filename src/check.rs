@@ -551,7 +551,8 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Entry { code, .. }
             if view.is_graph()
                 && (view.ordinal(code.trim()).is_some()
-                    || view.ordinal(&code.trim().to_ascii_uppercase()).is_some()) =>
+                    || view.ordinal(&code.trim().to_ascii_uppercase()).is_some()
+                    || shaped_as_own(view, code)) =>
         {
             code_item(view, code)
         }
@@ -575,6 +576,32 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
             None => code_item(view, code),
         },
     }
+}
+
+/// Where an index's successors come from, in words: the CMS conversion table
+/// for ICD-10-CM, the release's own replacement links otherwise.
+fn successor_source(view: &View<'_>) -> &'static str {
+    if view.is_graph() {
+        "the release's replacement"
+    } else {
+        "conversion table"
+    }
+}
+
+/// Whether a cell is written as a code of the index's own system rather than
+/// a pattern (`9900001-1` in a LOINC index is a code with a wrong check
+/// digit, not a range), for systems with a shape rule (see [`systems`]).
+fn shaped_as_own(view: &View<'_>, cell: &str) -> bool {
+    let t = cell.trim();
+    if t.ends_with(['*', '%']) {
+        return false;
+    }
+    System::parse(&view.meta().vocabulary).is_some_and(|s| {
+        s == System::Loinc
+            && t.split_once('-').is_some_and(|(a, b)| {
+                systems::all_digits(a) && b.len() == 1 && systems::all_digits(b)
+            })
+    })
 }
 
 fn code_item(view: &View<'_>, code: &str) -> Item {
@@ -1086,7 +1113,10 @@ fn judge_dates(
                         suggestion(
                             view,
                             s,
-                            format!("conversion table: its data from {d} is coded as this"),
+                            format!(
+                                "{}: its data from {d} is coded as this",
+                                successor_source(view)
+                            ),
                         )
                     })
                     .collect();
@@ -1154,7 +1184,11 @@ fn judge_dates(
                         suggestion(
                             view,
                             p,
-                            format!("conversion table: coded as this until {}", d.pred()),
+                            format!(
+                                "{}: coded as this until {}",
+                                successor_source(view),
+                                d.pred()
+                            ),
                         )
                     })
                     .collect();
@@ -1256,7 +1290,7 @@ fn judge_dates(
                 offer(
                     &mut sugg,
                     &cover,
-                    format!("conversion table: covers {} to {}", p.from, p.to),
+                    format!("{}: covers {} to {}", successor_source(view), p.from, p.to),
                 );
             }
         }

@@ -151,6 +151,18 @@ fn loinc_statuses_reach_the_check() {
     // DEPRECATED without MAP_TO: retired, nothing suggested.
     let g = entry(&r, "9900006-9");
     assert_eq!(g.status, Status::Retired);
+    // A wrong check digit (LOINC Users' Guide, mod 10: 9900001 -> 0) is
+    // named as such, not read as a range; an unknown number with a right
+    // check digit (9900011 -> 9, computed the same way) is unknown.
+    let r = check(
+        &idx,
+        "9900001-1\n9900011-9\n",
+        &CheckOptions::on(day("2025-01-01"), true),
+    );
+    let bad = &r.entries[0];
+    assert_eq!(bad.status, Status::Malformed, "{bad:?}");
+    assert!(bad.findings[0].message.contains("check digit"), "{bad:?}");
+    assert_eq!(r.entries[1].status, Status::Unknown, "{:?}", r.entries[1]);
 }
 
 fn rxnorm() -> (Index<Vec<u8>>, String) {
