@@ -46,7 +46,8 @@ fn bundled(system: System) -> Option<Result<Index<&'static [u8]>, String>> {
 }
 
 const HELP: &str = "\
-rollcall: check a clinical code list against dated ICD-10-CM releases
+rollcall: check a clinical code list against dated releases (ICD-10-CM by default; ICD-10-PCS,
+ICD-9-CM and HPO bundled; other systems by shape, or by an index a site builds)
 
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
