@@ -1017,6 +1017,26 @@ fn judge_dates(
     // The common case first: billable on every day of the period.
     if view.billable(ord).any(|p| p.covers(period)) {
         e.status = Status::Valid;
+        // A code in use that the release nonetheless points elsewhere from
+        // (LOINC MAP_TO on a term still in use, HPO consider).
+        let consider: Vec<u32> = view.consider(ord).collect();
+        if !consider.is_empty() {
+            e.findings.push(Finding::new(
+                Kind::ReleaseStatus,
+                Severity::Info,
+                format!(
+                    "{shown} is valid; {} {} suggests considering {} in its place",
+                    view.meta().title,
+                    view.meta().release,
+                    name_codes(view, &consider)
+                ),
+                consider
+                    .iter()
+                    .take(NAMED_LIMIT)
+                    .map(|&c| suggestion(view, c, "the release suggests considering it"))
+                    .collect(),
+            ));
+        }
         if let Some(word) = view.status(ord) {
             e.findings.push(Finding::new(
                 Kind::ReleaseStatus,

@@ -423,3 +423,25 @@ fn hpo_rows_of_a_mixed_list_are_checked_against_the_release() {
     assert_eq!(part.release.as_deref(), Some("2025-01-16"));
     assert!(part.notice.contains("Human Phenotype Ontology"));
 }
+
+/// A term in use with a `consider` line (HP:0041161 in the file, consider
+/// HP:0020110) gets a note suggesting it.
+#[test]
+fn a_term_in_use_with_a_term_to_consider_gets_a_note() {
+    let file = stanzas();
+    let s = &file["HP:0041161"];
+    assert!(!s.obsolete);
+    let r = check(&hpo(), "HP:0041161\n", &opts());
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::Valid);
+    let f = e
+        .findings
+        .iter()
+        .find(|f| f.kind == Kind::ReleaseStatus)
+        .unwrap();
+    let named: Vec<&str> = f.suggestions.iter().map(|x| x.code.as_str()).collect();
+    assert_eq!(
+        named,
+        s.consider.iter().map(String::as_str).collect::<Vec<_>>()
+    );
+}

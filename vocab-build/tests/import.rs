@@ -135,6 +135,17 @@ fn loinc_statuses_reach_the_check() {
         assert_eq!(e.status, Status::Valid, "{e:?}");
         assert!(kinds(e).contains(&Kind::ReleaseStatus), "{e:?}");
     }
+    // DISCOURAGED with a MAP_TO row (the fixture's MapTo.csv: 9900004-4 ->
+    // 9900001-0): the map-to code is suggested in a note.
+    let e = entry(&r, "9900004-4");
+    let to: Vec<&str> = e
+        .findings
+        .iter()
+        .filter(|f| f.kind == Kind::ReleaseStatus)
+        .flat_map(|f| &f.suggestions)
+        .map(|s| s.code.as_str())
+        .collect();
+    assert_eq!(to, ["9900001-0"], "{e:?}");
     // DEPRECATED with MAP_TO: retired, the map-to targets suggested.
     let d = entry(&r, "9900005-1");
     assert_eq!(d.status, Status::Retired);
