@@ -182,13 +182,21 @@ enum Target {
     Shapes(System),
 }
 
+type Opened = std::sync::OnceLock<Result<Index<&'static [u8]>, String>>;
+
+/// A bundled index, opened once into `cell`.
+fn opened(cell: &'static Opened, system: System) -> Result<&'static Index<&'static [u8]>, String> {
+    cell.get_or_init(|| {
+        bundled(system).unwrap_or_else(|| Err(format!("{} is not bundled", system.name())))
+    })
+    .as_ref()
+    .map_err(|e| e.clone())
+}
+
 /// The bundled ICD-9-CM index, opened once.
 fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
-    static ONCE: std::sync::OnceLock<Result<Index<&'static [u8]>, String>> =
-        std::sync::OnceLock::new();
-    ONCE.get_or_init(|| bundled(System::Icd9cm).expect("ICD-9-CM is bundled"))
-        .as_ref()
-        .map_err(|e| e.clone())
+    static ONCE: Opened = std::sync::OnceLock::new();
+    opened(&ONCE, System::Icd9cm)
 }
 
 /// The bundled indexes a check of `text` needs beside its own vocabulary
@@ -245,11 +253,8 @@ fn companions<D: AsRef<[u8]>>(i: &Index<D>) -> Result<Vec<View<'static>>, String
 
 /// The bundled ICD-10-CM index, opened once.
 fn icd10cm() -> Result<&'static Index<&'static [u8]>, String> {
-    static ONCE: std::sync::OnceLock<Result<Index<&'static [u8]>, String>> =
-        std::sync::OnceLock::new();
-    ONCE.get_or_init(|| bundled(System::Icd10cm).expect("ICD-10-CM is bundled"))
-        .as_ref()
-        .map_err(|e| e.clone())
+    static ONCE: Opened = std::sync::OnceLock::new();
+    opened(&ONCE, System::Icd10cm)
 }
 
 fn target(a: &Args) -> Result<Target, String> {
