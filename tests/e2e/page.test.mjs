@@ -626,5 +626,15 @@ test("HPO picked in the menu: the demo phenotype list checks as the CLI's --syst
   const { text } = await downloadText(page, "download-json");
   assert.deepEqual(JSON.parse(text), want);
   assert.deepEqual(page.errors, []);
+  // The permalink keeps the system: HPO is picked again and its index fetched.
+  await page.waitForFunction(() => /^#(z1|v1)=/.test(location.hash));
+  const url = page.url();
+  const summary = await page.textContent("#summary");
   await page.close();
+  const again = await context.newPage();
+  await again.goto(url);
+  await again.waitForFunction(() => document.body.dataset.state === "ready" && /HPO/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  await again.waitForFunction((s) => document.querySelector("#summary").textContent === s, summary, { timeout: 30_000 });
+  assert.equal(await again.inputValue("#opt-system"), "hpo");
+  await again.close();
 });

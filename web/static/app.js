@@ -173,6 +173,7 @@ function readOptions() {
     from: $("opt-from").value,
     to: $("opt-to").value,
     billable: $("opt-billable").checked,
+    system: $("opt-system").value,
   };
 }
 
@@ -189,6 +190,18 @@ function writeOptions(o) {
   $("opt-to").value = o.to || "";
   $("opt-billable").checked = !!o.billable;
   syncModeFields();
+  // A link made with another system picked: pick it again (checkPicked
+  // then fetches its index, once the page's first index is in).
+  const pick = $("opt-system");
+  if (o.system && [...pick.options].some((x) => x.value === o.system)) pick.value = o.system;
+}
+
+/** Check the list in the system the menu shows, switching to it first when needed. */
+function checkPicked() {
+  const want = $("opt-system").value;
+  const now = state.shapes || (state.info ? state.info.vocabulary : "icd10cm");
+  if (want !== now) switchSystem(want);
+  else runCheck();
 }
 
 function syncModeFields() {
@@ -640,7 +653,7 @@ function wire() {
     e.target.value = "";
   });
   window.addEventListener("hashchange", async () => {
-    if (await restoreLink()) runCheck();
+    if (await restoreLink()) checkPicked();
   });
 }
 
@@ -673,7 +686,7 @@ async function main() {
   showIndexReady(info);
   compareView.enable();
   await restored;
-  if ($("list").value.trim()) runCheck();
+  if ($("list").value.trim() || $("opt-system").value !== info.vocabulary) checkPicked();
 }
 
 main();

@@ -70,6 +70,8 @@ export async function decodeState(fragment) {
       to: typeof o.to === "string" ? o.to : "",
       billable: o.billable === true,
       mode: o.mode === "period" ? "period" : "on",
+      // A system name only (checked against the menu by the page).
+      system: typeof o.system === "string" && /^[a-z0-9]{2,12}$/.test(o.system) ? o.system : "",
     },
   };
 }
