@@ -661,9 +661,9 @@ fn in_list(have: usize, of: usize) -> String {
 
 /// Billable codes under a node on some day of `within`.
 pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<u32> {
-    let mut under = view.descendants(ord);
-    under.retain(|&o| view.billable_in(o, within));
-    under
+    view.descendants(ord)
+        .filter(|&o| view.billable_in(o, within))
+        .collect()
 }
 
 /// The code's status on each part of the period, in order.

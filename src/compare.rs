@@ -496,7 +496,7 @@ fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
 /// then one sharing a parent, then one of the same category.
 fn nearest_in_graph(view: &View<'_>, node: u32, other: &[u32]) -> Option<(u32, Relation)> {
     let has = |o: &u32| other.binary_search(o).is_ok();
-    if let Some(c) = view.descendants(node).into_iter().find(has) {
+    if let Some(c) = view.descendants(node).find(has) {
         return Some((c, Relation::Child));
     }
     for p in view.parents(node) {

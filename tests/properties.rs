@@ -253,7 +253,7 @@ proptest! {
         prop_assert!(v.is_graph());
         let n = v.len() as u32;
         for a in 0..n {
-            let below: BTreeSet<u32> = v.descendants(a).into_iter().collect();
+            let below: BTreeSet<u32> = v.descendants(a).collect();
             for b in 0..n {
                 let above: BTreeSet<u32> = v.ancestors(b).collect();
                 prop_assert_eq!(below.contains(&b), above.contains(&a), "{} {}", a, b);

@@ -477,6 +477,32 @@ fn read_tree(b: &[u8]) -> Option<Tree> {
     })
 }
 
+/// The nodes below a node, from [`View::descendants`].
+pub enum Descendants {
+    /// A prefix hierarchy's subtree: a range of ordinals.
+    Range(std::ops::Range<u32>),
+    /// A graph's, walked and sorted.
+    Walked(std::vec::IntoIter<u32>),
+}
+
+impl Iterator for Descendants {
+    type Item = u32;
+    fn next(&mut self) -> Option<u32> {
+        match self {
+            Descendants::Range(r) => r.next(),
+            Descendants::Walked(w) => w.next(),
+        }
+    }
+    fn size_hint(&self) -> (usize, Option<usize>) {
+        match self {
+            Descendants::Range(r) => r.size_hint(),
+            Descendants::Walked(w) => w.size_hint(),
+        }
+    }
+}
+
+impl ExactSizeIterator for Descendants {}
+
 /// Ancestors of a node, from [`View::ancestors`].
 pub struct Ancestors<'v, 'a> {
     view: &'v View<'a>,
@@ -740,10 +766,11 @@ impl<'a> View<'a> {
         chain[chain.len().saturating_sub(3).min(chain.len() - 1)]
     }
 
-    /// Every node below `ord`, each once, ascending.
-    pub fn descendants(&self, ord: u32) -> Vec<u32> {
+    /// Every node below `ord`, each once, ascending: a range of ordinals in
+    /// a prefix hierarchy (no allocation), a walk of the children in a graph.
+    pub fn descendants(&self, ord: u32) -> Descendants {
         let Some((_, children)) = &self.extra.graph else {
-            return (ord + 1..self.subtree_end(ord)).collect();
+            return Descendants::Range(ord + 1..self.subtree_end(ord));
         };
         let mut seen = std::collections::HashSet::new();
         let mut stack: Vec<u32> = children.of(ord).collect();
@@ -755,7 +782,7 @@ impl<'a> View<'a> {
             }
         }
         out.sort_unstable();
-        out
+        Descendants::Walked(out.into_iter())
     }
 
     /// Direct children, in code order.
