@@ -546,14 +546,11 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Comment => Item::Skip(Status::Comment),
         LineKind::Headings => Item::Skip(Status::ColumnHeadings),
         LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
-        // `2345-7` in a LOINC index is a code, not a range (`lhm-24` too,
-        // when the index has `LHM-24`).
-        LineKind::Entry { code, .. }
-            if view.is_graph()
-                && (view.ordinal(code.trim()).is_some()
-                    || view.ordinal(&code.trim().to_ascii_uppercase()).is_some()
-                    || shaped_as_own(view, code)) =>
-        {
+        // A range (`E08-E13`) runs in code order, which only a prefix
+        // hierarchy gives meaning to: in a stated one (LOINC `2345-7`, an
+        // imported `LHM-24`) a hyphen is part of a code, and only `*` and `%`
+        // make a pattern.
+        LineKind::Entry { code, .. } if view.is_graph() && !code.trim().ends_with(['*', '%']) => {
             code_item(view, code)
         }
         LineKind::Entry { code, .. } => match pattern::parse(code) {
@@ -586,22 +583,6 @@ fn successor_source(view: &View<'_>) -> &'static str {
     } else {
         "conversion table"
     }
-}
-
-/// Whether a cell is written as a code of the index's own system rather than
-/// a pattern (`9900001-1` in a LOINC index is a code with a wrong check
-/// digit, not a range), for systems with a shape rule (see [`systems`]).
-fn shaped_as_own(view: &View<'_>, cell: &str) -> bool {
-    let t = cell.trim();
-    if t.ends_with(['*', '%']) {
-        return false;
-    }
-    System::parse(&view.meta().vocabulary).is_some_and(|s| {
-        s == System::Loinc
-            && t.split_once('-').is_some_and(|(a, b)| {
-                systems::all_digits(a) && b.len() == 1 && systems::all_digits(b)
-            })
-    })
 }
 
 fn code_item(view: &View<'_>, code: &str) -> Item {
