@@ -373,6 +373,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
     fn runs(&mut self, side: Side, only: &[u32], other: &[u32]) -> Vec<Difference> {
         let view = self.view;
         let mut out = Vec::new();
+        let mut within_of: HashMap<u32, (usize, usize)> = HashMap::new();
         let mut i = 0;
         while i < only.len() {
             let mut node = only[i];
@@ -389,17 +390,15 @@ impl<'v, 'a> Grouper<'v, 'a> {
             let j = i + count_in(&only[i..], node, end);
             let parent = view.parent(node);
             let (within_total, within_only) = match parent {
-                Some(p) if view.is_graph() => {
-                    let under: Vec<u32> = std::iter::once(p)
+                // Siblings share a parent: its part of `only` is counted once.
+                Some(p) if view.is_graph() => *within_of.entry(p).or_insert_with(|| {
+                    let under = std::iter::once(p)
                         .chain(view.descendants(p))
-                        .filter(|&o| view.billable_in(o, self.period))
-                        .collect();
-                    let have = under
-                        .iter()
-                        .filter(|o| only.binary_search(o).is_ok())
-                        .count();
-                    (under.len(), have)
-                }
+                        .filter(|&o| view.billable_in(o, self.period));
+                    under.fold((0, 0), |(all, have), o| {
+                        (all + 1, have + usize::from(only.binary_search(&o).is_ok()))
+                    })
+                }),
                 Some(p) => (
                     self.billable_size(p),
                     count_in(only, p, view.subtree_end(p)),
