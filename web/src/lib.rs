@@ -73,8 +73,9 @@ export interface ListFinding {
 /** The check report: the same schema as the CLI's `--format json`. */
 export interface Report {
   vocabulary: string;
-  index: { release: string; coverage_from: string; coverage_to: string; sources: unknown[] };
-  options: { on: string | null; from: string; to: string; billable: boolean };
+  index: { release: string; coverage_from: string; coverage_to: string; sources: unknown[]; notice?: string };
+  /** `single_release` only for a one-release vocabulary (HPO): `on` is then its release day. */
+  options: { on: string | null; from: string; to: string; billable: boolean; single_release?: boolean };
   entries: Entry[];
   list_findings: ListFinding[];
   summary: {
@@ -91,6 +92,8 @@ export interface SystemPart {
   title: string;
   checked: "index" | "shape" | "not-loaded";
   release: string | null;
+  /** That index's licence credit, when it has one (HPO). */
+  notice?: string;
   entries: number;
   errors: number;
   warnings: number;

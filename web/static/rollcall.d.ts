@@ -77,8 +77,11 @@ export interface Report {
     coverage_from: string;
     coverage_to: string;
     sources: { file: string; sha256: string; role: string }[];
+    /** The release's licence credit, when it asks for one (HPO, LOINC). */
+    notice?: string;
   };
-  options: { on: string | null; from: string; to: string; billable: boolean };
+  /** `single_release` only for a one-release vocabulary (HPO): `on` is then its release day. */
+  options: { on: string | null; from: string; to: string; billable: boolean; single_release?: boolean };
   entries: Entry[];
   list_findings: ListFinding[];
   summary: {
@@ -99,6 +102,8 @@ export interface SystemPart {
   title: string;
   checked: "index" | "shape" | "not-loaded";
   release: string | null;
+  /** That index's licence credit, when it has one (HPO). */
+  notice?: string;
   entries: number;
   errors: number;
   warnings: number;
