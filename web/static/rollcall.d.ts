@@ -10,6 +10,8 @@ export interface IndexInfo {
   coverage_from: string;
   coverage_to: string;
   sources: { file: string; sha256: string; role: string }[];
+  /** Credit the release's licence asks to show (HPO); empty when none. */
+  notice: string;
   byte_length: number;
   sha256: string;
 }
