@@ -8,7 +8,7 @@ cd "$ROOT"
 bash scripts/setup.sh
 export PATH="$HOME/.cargo/bin:$ROOT/tests/e2e/node_modules/.bin:$PATH"
 echo "== native tests (core, CLI, vocab-build)"
-cargo test --release --workspace --exclude rollcall-web
+cargo test --profile fast --workspace --exclude rollcall-web
 echo "== Wasm binding tests in headless Chromium"
 (cd web && CHROMEDRIVER=/usr/bin/chromedriver cargo test --target wasm32-unknown-unknown)
 echo "== page end-to-end tests in headless Chromium"

@@ -6,7 +6,7 @@ import path from "node:path";
 export const HERE = path.dirname(new URL(import.meta.url).pathname);
 export const ROOT = path.resolve(HERE, "../..");
 export const DIST = process.env.DIST || path.join(ROOT, "web/dist");
-export const CLI = process.env.CLI || path.join(ROOT, "target/release/rollcall");
+export const CLI = process.env.CLI || path.join(ROOT, "target/fast/rollcall");
 export const DEMO = process.env.DEMO || path.join(ROOT, "demo-data/demo-list.tsv");
 export const CHROMIUM = process.env.CHROMIUM || "/usr/bin/chromium";
 export const HISTORY = path.join(ROOT, "vocab-build/sources/icd10cm-history-FY2016-FY2027.tsv.gz");

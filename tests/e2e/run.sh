@@ -7,7 +7,7 @@ E2E=$(cd "$(dirname "$0")" && pwd)
 ROOT=$(cd "$E2E/../.." && pwd)
 cd "$E2E"
 [ -d node_modules/playwright-core ] || npm ci --no-audit --no-fund
-(cd "$ROOT" && cargo build --release --quiet -p rollcall --bin rollcall)
+(cd "$ROOT" && cargo build --profile fast --quiet -p rollcall --bin rollcall)
 bash "$ROOT/web/build.sh"
 node "$ROOT/web/build-single.mjs"
 mkdir -p out
