@@ -966,7 +966,7 @@ fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
     if code.len() != 7 {
         return None;
     }
-    let base = &code[..6];
+    let base = code.get(..6)?;
     let stem = base.trim_end_matches('X');
     let ord = view.ordinal(base).or_else(|| view.ordinal(stem))?;
     let rule = view.seventh_rule(ord)?;
