@@ -103,6 +103,7 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
         .into_iter()
         .filter(|(_, l)| l.len() > 1)
         .map(|(code, l)| ListFinding {
+            coverage_to: None,
             kind: Kind::Duplicate,
             severity: Severity::Warning,
             message: format!(
