@@ -647,18 +647,18 @@ pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<
         .collect()
 }
 
-/// The code's status on each part of the period, in order.
 /// The part of `period` up to the index's last covered day (that day alone
 /// when the whole period lies past it); see the `beyond-coverage` finding.
 fn within_coverage(view: &View<'_>, period: &Period) -> Period {
     let last = view.meta().coverage_to;
-    if period.to <= last {
+    if period.to <= last || !view.meta().open_ended() {
         *period
     } else {
         Period::new(period.from.min(last), last)
     }
 }
 
+/// The code's status on each part of the period, in order.
 fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<SpanKind>)> {
     let mut spans: Vec<(Period, SpanKind)> = view
         .billable(ord)

@@ -20,11 +20,11 @@ pub(crate) fn run(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<Li
 
 /// Rule: the period runs past the last day the index covers. The index
 /// cannot tell what happened after it (a release not yet out), so entries
-/// are judged up to that day and this one finding says so. A one-release
-/// vocabulary (HPO) is judged as of its release whatever the period.
+/// are judged up to that day and this one finding says so. Not for a
+/// vocabulary that ends there ([`crate::model::Meta::open_ended`]).
 fn beyond_coverage(view: &View<'_>, period: &Period) -> Option<ListFinding> {
     let meta = view.meta();
-    if meta.snapshot() || period.to <= meta.coverage_to {
+    if !meta.open_ended() || period.to <= meta.coverage_to {
         return None;
     }
     Some(ListFinding {

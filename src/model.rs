@@ -215,6 +215,16 @@ impl Meta {
         self.coverage_from == self.coverage_to
     }
 
+    /// Whether the vocabulary may go on past the index's last covered day
+    /// (a release the index does not have yet): not for one release only,
+    /// nor for a vocabulary whose last release it holds ([`System::frozen`]).
+    ///
+    /// [`System::frozen`]: crate::systems::System::frozen
+    pub fn open_ended(&self) -> bool {
+        !self.snapshot()
+            && !crate::systems::System::parse(&self.vocabulary).is_some_and(|s| s.frozen())
+    }
+
     /// Where the dot goes in `code` (0: no dot).
     pub fn dot_for(&self, code: &str) -> usize {
         let first = code.chars().next();

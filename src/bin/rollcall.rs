@@ -602,28 +602,68 @@ fn write_out(s: &str) {
     let _ = out.write_all(s.as_bytes());
 }
 
-/// Lists come from spreadsheets as UTF-8 (maybe with a BOM) or UTF-16.
+/// Lists come from spreadsheets as UTF-8 (maybe with a BOM) or UTF-16 of
+/// either byte order (with its BOM). Text a list cannot hold is refused
+/// with the line it is on, never dropped or shown blank.
 fn decode(raw: &[u8]) -> Result<String, String> {
-    if let Some(rest) = raw.strip_prefix(&[0xFF, 0xFE]) {
-        let units: Vec<u16> = rest
-            .chunks_exact(2)
-            .map(|c| u16::from_le_bytes([c[0], c[1]]))
-            .collect();
-        return String::from_utf16(&units).map_err(|_| "is not valid UTF-16 text".into());
+    let utf16 = match raw {
+        [0xFF, 0xFE, rest @ ..] => Some((rest, u16::from_le_bytes as fn([u8; 2]) -> u16)),
+        [0xFE, 0xFF, rest @ ..] => Some((rest, u16::from_be_bytes as fn([u8; 2]) -> u16)),
+        _ => None,
+    };
+    let text = match utf16 {
+        Some((rest, unit)) => decode_utf16(rest, unit)?,
+        None => match std::str::from_utf8(raw) {
+            Ok(s) => s.to_string(),
+            Err(e) => {
+                let line = line_at(&raw[..e.valid_up_to()]);
+                return Err(format!(
+                    "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
+                ));
+            }
+        },
+    };
+    if let Some(at) = text.find('\0') {
+        let line = line_at(text[..at].as_bytes());
+        return Err(format!(
+            "line {line} holds a NUL character (byte 0), which no list has: the file may be UTF-16 \
+             without its byte order mark, or not text; save the list as UTF-8 (in a spreadsheet: \
+             CSV UTF-8) and try again"
+        ));
     }
-    match std::str::from_utf8(raw) {
-        Ok(s) => Ok(s.to_string()),
-        Err(e) => {
-            let line = raw[..e.valid_up_to()]
-                .iter()
-                .filter(|&&b| b == b'\n')
-                .count()
-                + 1;
-            Err(format!(
-                "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
-            ))
+    Ok(text)
+}
+
+/// The line (1-based) that the text before a position ends on.
+fn line_at(before: &[u8]) -> usize {
+    before.iter().filter(|&&b| b == b'\n').count() + 1
+}
+
+/// UTF-16 after its BOM, in the byte order `unit` reads.
+fn decode_utf16(rest: &[u8], unit: fn([u8; 2]) -> u16) -> Result<String, String> {
+    let pairs = rest.chunks_exact(2);
+    let odd = !pairs.remainder().is_empty();
+    let mut text = String::with_capacity(rest.len() / 2);
+    for c in char::decode_utf16(pairs.map(|c| unit([c[0], c[1]]))) {
+        match c {
+            Ok(c) => text.push(c),
+            Err(_) => {
+                let line = line_at(text.as_bytes());
+                return Err(format!(
+                    "line {line} is not valid UTF-16 text (half of a character pair); \
+                     save the list again as UTF-8 or UTF-16 and try again"
+                ));
+            }
         }
     }
+    if odd {
+        let line = line_at(text.as_bytes());
+        return Err(format!(
+            "the file is UTF-16 but ends with a lone byte on line {line} (an odd number of bytes): \
+             it may be cut short; save the list again and try again"
+        ));
+    }
+    Ok(text)
 }
 
 fn main() -> ExitCode {
