@@ -27,8 +27,8 @@ pub const BUNDLED: [(System, &[u8]); 4] = [
 /// The bundled index of `system`, opened once for the whole run (opening
 /// checks every fst's CRC: not the thing under test in the list targets).
 fn bundled(system: System) -> Option<&'static Index<&'static [u8]>> {
-    static OPENED: std::sync::OnceLock<Vec<(System, Index<&'static [u8]>)>> =
-        std::sync::OnceLock::new();
+    type Opened = Vec<(System, Index<&'static [u8]>)>;
+    static OPENED: std::sync::OnceLock<Opened> = std::sync::OnceLock::new();
     let all = OPENED.get_or_init(|| {
         BUNDLED
             .iter()

@@ -160,7 +160,7 @@ fn every_fst_section_is_checked_on_open() {
     let (off, _) = harness::section(harness::ICD9CM, b"MAPS").unwrap();
     let f = harness::ICD9CM;
     let mut pos = off;
-    let mut varint = |pos: &mut usize| {
+    let varint = |pos: &mut usize| {
         let (mut v, mut shift) = (0usize, 0);
         loop {
             let b = f[*pos];

@@ -624,7 +624,7 @@ fn decode(raw: &[u8]) -> Result<String, String> {
         },
     };
     if let Some(at) = text.find('\0') {
-        let line = line_at(text[..at].as_bytes());
+        let line = line_at(&text.as_bytes()[..at]);
         return Err(format!(
             "line {line} holds a NUL character (byte 0), which no list has: the file may be UTF-16 \
              without its byte order mark, or not text; save the list as UTF-8 (in a spreadsheet: \
