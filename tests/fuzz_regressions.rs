@@ -347,6 +347,19 @@ fn a_day_past_the_coverage_is_a_list_warning_and_no_code_is_called_retired() {
         assert_eq!(f["coverage_to"], "2027-03-31");
         assert!(rollcall::render::text(&r).contains("beyond-coverage"));
     }
+    // The word search on such a day: E11.9 in use, as on the last day.
+    let view = index.view();
+    let found = rollcall::search::find(
+        &view,
+        "type 2 diabetes mellitus without complications",
+        day("2028-01-01"),
+        1,
+        false,
+    );
+    assert_eq!(
+        (found[0].code.as_str(), found[0].status),
+        ("E11.9", "billable")
+    );
     // Inside the coverage: no such finding, and no `coverage_to` in JSON.
     let r = rollcall::check(&index, text, &on("2026-01-01"));
     assert!(r
