@@ -256,9 +256,9 @@ pub fn compare_among<D: AsRef<[u8]>>(
     let mut differences = grouper.runs(Side::A, &only_a, &touched_b);
     differences.extend(grouper.runs(Side::B, &only_b, &touched_a));
     differences.sort_by(|x, y| {
-        x.codes[0]
-            .code
-            .cmp(&y.codes[0].code)
+        let first = |d: &Difference| d.codes.first().map(|c| c.code.as_str());
+        first(x)
+            .cmp(&first(y))
             .then(x.side.name().cmp(y.side.name()))
     });
 
@@ -388,7 +388,13 @@ impl<'v, 'a> Grouper<'v, 'a> {
                 }
             }
             let end = view.subtree_end(node);
-            let j = i + count_in(&only[i..], node, end);
+            let mut j = i + count_in(&only[i..], node, end);
+            if j == i {
+                // Only a damaged index gives a subtree that misses the
+                // code it was climbed from: the code is its own run.
+                node = only[i];
+                j = i + 1;
+            }
             let parent = view.parent(node);
             let (within_total, within_only) = match parent {
                 // Siblings share a parent: its part of `only` is counted once.
