@@ -256,7 +256,9 @@ pub fn compare_among<D: AsRef<[u8]>>(
     let mut differences = grouper.runs(Side::A, &only_a, &touched_b);
     differences.extend(grouper.runs(Side::B, &only_b, &touched_a));
     differences.sort_by(|x, y| {
-        let first = |d: &Difference| d.codes.first().map(|c| c.code.as_str());
+        fn first(d: &Difference) -> Option<&str> {
+            d.codes.first().map(|c| c.code.as_str())
+        }
         first(x)
             .cmp(&first(y))
             .then(x.side.name().cmp(y.side.name()))
