@@ -162,6 +162,7 @@ pub struct SheetRead {
 #[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
 pub struct ReadFacts {
     /// The reading used (`lines`, `table`, `text`, `json`, `workbook`).
+    #[serde(rename = "as")]
     pub reading: Reading,
     /// What the text looked like: `plain lines`, `csv`, `tsv`, `markdown`,
     /// `prose`, `sql`, `r`, `code literals`, `fhir valueset`, `fhir

@@ -219,9 +219,39 @@ fn in_run(between: &str) -> bool {
         })
 }
 
+/// Words after a number that make it a measurement, not a code
+/// (`100.4 F`, `250.0 mg`). Common practice.
+const UNITS: &[&str] = &[
+    "f", "c", "°", "°f", "°c", "mg", "g", "kg", "mcg", "µg", "ug", "lb", "lbs", "ml", "l", "dl", "mmol",
+    "mmol/l", "mg/dl", "mmhg", "cm", "mm", "m", "units", "u", "iu", "bpm", "%", "ms", "s", "min", "h",
+    "hours", "days", "weeks", "months", "years", "patients", "people", "cases", "percent",
+];
+
+/// Whether a number (`428.0`) in a sentence of a draft that holds codes is
+/// one too: an ICD-9-CM shape with a dot and no unit after it.
+fn number_in_code_draft(line: &str, w: &Word) -> bool {
+    let text = &line[w.start..w.end];
+    let next = line[w.end..]
+        .split_whitespace()
+        .next()
+        .unwrap_or("")
+        .trim_matches(|c: char| matches!(c, ',' | ';' | ')' | '.'))
+        .to_ascii_lowercase();
+    text.contains('.')
+        && text.as_bytes()[0].is_ascii_digit()
+        && !UNITS.contains(&next.as_str())
+        && !next.starts_with('%')
+}
+
 /// The codes of a line: strong shapes anywhere, listed shapes where set
-/// apart, first in the item, or continuing a run of codes.
+/// apart, first in the item, or continuing a run of codes; with
+/// `code_draft` (the draft holds codes elsewhere), dotted ICD-9-CM numbers
+/// in sentences too.
 fn codes(line: &str, from: usize, all_listed: bool) -> Vec<Found> {
+    codes_in(line, from, all_listed, false)
+}
+
+fn codes_in(line: &str, from: usize, all_listed: bool, code_draft: bool) -> Vec<Found> {
     let ws = words(line, from);
     let mut out: Vec<Found> = Vec::new();
     for (k, w) in ws.iter().enumerate() {
@@ -234,6 +264,7 @@ fn codes(line: &str, from: usize, all_listed: bool) -> Vec<Found> {
                     || w.apart
                     || k == 0 && w.start == from
                     || out.last().is_some_and(|p| in_run(&line[p.end..w.start]))
+                    || code_draft && number_in_code_draft(line, w)
             }
             Strength::Prose => false,
         };
@@ -566,6 +597,7 @@ fn form_of(lines: &[&str]) -> &'static str {
 /// Reads a draft (see the module docs).
 pub fn read(text: &str, forced: bool) -> Draft {
     let lines: Vec<&str> = lines_of(text).collect();
+    let code_draft = lines.iter().any(|l| !codes(l, item_start(l), false).is_empty());
     let mut out: Vec<InputLine> = Vec::with_capacity(lines.len());
     let mut context: Option<crate::systems::System> = None;
     let mut i = 0;
@@ -581,7 +613,7 @@ pub fn read(text: &str, forced: bool) -> Draft {
             i = j;
             continue;
         }
-        read_line(line, i + 1, &mut context, &mut out);
+        read_line_in(line, i + 1, &mut context, code_draft, &mut out);
         i += 1;
     }
     let form = form_of(&lines);
@@ -618,6 +650,16 @@ pub(crate) fn read_line(
     context: &mut Option<crate::systems::System>,
     out: &mut Vec<InputLine>,
 ) {
+    read_line_in(line, number, context, false, out)
+}
+
+fn read_line_in(
+    line: &str,
+    number: usize,
+    context: &mut Option<crate::systems::System>,
+    code_draft: bool,
+    out: &mut Vec<InputLine>,
+) {
     let t = line.trim();
     if t.is_empty() {
         out.push(InputLine::new(number, line, LineKind::Blank));
@@ -629,7 +671,7 @@ pub(crate) fn read_line(
     }
     let heading = t.starts_with('#');
     let from = item_start(line);
-    let found = codes(line, from, false);
+    let found = codes_in(line, from, false, code_draft);
     if found.is_empty() {
         if let Some(s) = system_named(line) {
             *context = Some(s);
