@@ -264,8 +264,9 @@ pub fn detect(text: &str) -> Detected {
             r.iter().enumerate().any(|(i, c)| {
                 i != code
                     && Some(i) != system
-                    && super::tokens::strength(c.trim().trim_matches('"'))
+                    && (super::tokens::strength(c.trim().trim_matches('"'))
                         >= super::tokens::Strength::Listed
+                        || super::text::has_strong_code(c))
             })
         })
         .count();

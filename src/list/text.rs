@@ -222,9 +222,10 @@ fn in_run(between: &str) -> bool {
 /// Words after a number that make it a measurement, not a code
 /// (`100.4 F`, `250.0 mg`). Common practice.
 const UNITS: &[&str] = &[
-    "f", "c", "°", "°f", "°c", "mg", "g", "kg", "mcg", "µg", "ug", "lb", "lbs", "ml", "l", "dl", "mmol",
-    "mmol/l", "mg/dl", "mmhg", "cm", "mm", "m", "units", "u", "iu", "bpm", "%", "ms", "s", "min", "h",
-    "hours", "days", "weeks", "months", "years", "patients", "people", "cases", "percent",
+    "f", "c", "°", "°f", "°c", "mg", "g", "kg", "mcg", "µg", "ug", "lb", "lbs", "ml", "l", "dl",
+    "mmol", "mmol/l", "mg/dl", "mmhg", "cm", "mm", "m", "units", "u", "iu", "bpm", "%", "ms", "s",
+    "min", "h", "hours", "days", "weeks", "months", "years", "patients", "people", "cases",
+    "percent",
 ];
 
 /// Whether a number (`428.0`) in a sentence of a draft that holds codes is
@@ -241,6 +242,19 @@ fn number_in_code_draft(line: &str, w: &Word) -> bool {
         && text.as_bytes()[0].is_ascii_digit()
         && !UNITS.contains(&next.as_str())
         && !next.starts_with('%')
+}
+
+/// Whether a line that opens with a listed shape reads as a list line
+/// (`250.00 Diabetes mellitus`) rather than a sentence that wrapped onto it
+/// (`365 days, with two or more outpatient encounters between`): a bullet
+/// or a number before it, a dash, colon or tab after it, or a short line.
+fn list_line(line: &str, from: usize, w: &Word) -> bool {
+    let bullet = from > line.len() - line.trim_start().len();
+    let after = line[w.end..].trim_start_matches([' ', '*', '`', '\'', '"']);
+    let marked = line[w.end..].starts_with('\t')
+        || after.starts_with(['-', '–', '—', ':', '|', '(', ',', ';'])
+        || after.is_empty();
+    bullet || marked || line[w.end..].split_whitespace().count() <= 8
 }
 
 /// The codes of a line: strong shapes anywhere, listed shapes where set
@@ -262,7 +276,7 @@ fn codes_in(line: &str, from: usize, all_listed: bool, code_draft: bool) -> Vec<
             Strength::Listed => {
                 all_listed
                     || w.apart
-                    || k == 0 && w.start == from
+                    || k == 0 && w.start == from && list_line(line, from, w)
                     || out.last().is_some_and(|p| in_run(&line[p.end..w.start]))
                     || code_draft && number_in_code_draft(line, w)
             }
@@ -295,6 +309,8 @@ fn codes_in(line: &str, from: usize, all_listed: bool, code_draft: bool) -> Vec<
 }
 
 const FILLER: &[&str] = &[
+    "please include",
+    "please",
     "and",
     "or",
     "with",
@@ -389,12 +405,39 @@ fn clean_label(s: &str) -> Option<String> {
             break;
         }
     }
-    (t.chars().filter(|c| c.is_alphabetic()).count() >= 2).then(|| t.to_string())
+    let filler = FILLER.contains(&t.to_ascii_lowercase().as_str());
+    (!filler && t.chars().filter(|c| c.is_alphabetic()).count() >= 2).then(|| t.to_string())
 }
 
-/// The label of each code found on a line.
-fn labels(line: &str, from: usize, found: &[Found]) -> Vec<Option<String>> {
+/// Where a label written after a code ends: the end of its clause.
+fn clause_end(after: &str) -> usize {
+    let mut end = after.len();
+    for stop in [". ", "; ", "? ", "! "] {
+        if let Some(i) = after.find(stop) {
+            end = end.min(i);
+        }
+    }
+    end
+}
+
+/// Where a label written before a code starts: after the last clause break.
+fn clause_start(before: &str) -> usize {
+    before
+        .rfind([',', ';', '.', ':', '!', '?'])
+        .map_or(0, |i| i + 1)
+}
+
+/// Comment markers of code literals (`'E11.9',  -- type 2 diabetes`).
+const COMMENT_MARKS: &[&str] = &["--", "#", "//"];
+
+/// The label of each code found on a line: the words in parentheses right
+/// after it; the words before it when it stands in parentheses; the rest of
+/// the item when the code opens it, or after a dash or colon; a comment
+/// after a code literal; the words before a lone code ending in a colon or
+/// a dash (`Hypertension: I10`).
+fn labels(line: &str, from: usize, found: &[Found], prose: bool) -> Vec<Option<String>> {
     let n = found.len();
+    let marks: &[char] = &['*', '`', '\'', '"', ' ', '_'];
     (0..n)
         .map(|k| {
             let f = &found[k];
@@ -402,7 +445,7 @@ fn labels(line: &str, from: usize, found: &[Found]) -> Vec<Option<String>> {
             let prev = if k == 0 { from } else { found[k - 1].end };
             let after = &line[f.end..next];
             let before = &line[prev..f.start];
-            let after_t = after.trim_start_matches(['*', '`', '\'', '"', ' ']);
+            let after_t = after.trim_start_matches(marks);
             // `E11.9 (Type 2 diabetes)`
             if let Some(inner) = after_t.strip_prefix('(') {
                 if let Some(close) = inner.find(')') {
@@ -412,20 +455,38 @@ fn labels(line: &str, from: usize, found: &[Found]) -> Vec<Option<String>> {
                 }
             }
             // `Type 2 diabetes (E11.9)`
-            let inside_parens = before
-                .trim_end_matches(['*', '`', '\'', '"', ' '])
-                .ends_with('(');
-            if inside_parens {
-                let b = before.trim_end_matches(['*', '`', '\'', '"', ' ']);
-                return clean_label(&b[..b.len() - 1]);
+            let b = before.trim_end_matches(marks);
+            if b.ends_with('(') && after_t.starts_with(')') {
+                let b = &b[..b.len() - 1];
+                return clean_label(&b[clause_start(b)..]);
             }
-            // `E11.9 - Type 2 diabetes`, `E11.9: Type 2`, `'E11.9', -- note`
-            if let Some(l) = clean_label(after) {
-                return Some(l);
+            // `E11.9 - Type 2 diabetes`, `**E11.9**: Type 2`, or the code
+            // opening its item (`E11.9 Type 2 diabetes`).
+            // In prose a line may start anywhere in a sentence: only a
+            // bullet or a number makes an item.
+            let item = !prose || from > line.len() - line.trim_start().len();
+            let opens_item = item && k == 0 && line[from..f.start].trim_matches(marks).is_empty();
+            let dashed = after_t.starts_with(['-', '–', '—', ':', '|', '=']);
+            if opens_item || dashed {
+                if let Some(l) = clean_label(&after[..clause_end(after)]) {
+                    return Some(l);
+                }
+            }
+            // `'E11.9',  -- type 2 diabetes`: a comment after the literal.
+            if k + 1 == n {
+                let rest = after.trim_start_matches(|c: char| {
+                    matches!(c, '\'' | '"' | ',' | ')' | ']' | ' ' | ';')
+                });
+                if let Some(m) = COMMENT_MARKS.iter().find(|m| rest.starts_with(**m)) {
+                    return clean_label(&rest[m.len()..]);
+                }
             }
             // `Hypertension: I10`, the only code on the line.
             if n == 1 {
-                return clean_label(before);
+                let b = before.trim_end_matches(marks);
+                if b.ends_with([':', '-', '–', '—', '=']) {
+                    return clean_label(b);
+                }
             }
             None
         })
@@ -543,6 +604,13 @@ fn table_columns(lines: &[&str], head: usize, body: &[usize]) -> TableColumns {
     }
 }
 
+/// Whether a cell or phrase holds a code of a strong shape (`A00.0)`).
+pub(crate) fn has_strong_code(s: &str) -> bool {
+    words(s, 0)
+        .iter()
+        .any(|w| strength(&s[w.start..w.end]) == Strength::Strong)
+}
+
 /// Whether a whole text reads as a plain list, one code per line as
 /// rollcall has always read it: every line that is not blank or a comment
 /// starts with a code-like word (or with a mistyped one), and no line holds
@@ -573,10 +641,16 @@ fn form_of(lines: &[&str]) -> &'static str {
     let has = |f: &dyn Fn(&str) -> bool| lines.iter().any(|l| f(l));
     let lower: Vec<String> = lines.iter().map(|l| l.to_ascii_lowercase()).collect();
     let any_lower = |p: &str| lower.iter().any(|l| l.contains(p));
-    if any_lower(" in (") || any_lower(" like '") || any_lower("select ") || any_lower("where ") {
+    let sql = any_lower(" in ('")
+        || any_lower(" in (\"")
+        || any_lower(" like '")
+        || any_lower("select ") && any_lower(" from ");
+    if sql {
         "sql"
     } else if any_lower("c(\"") || any_lower("c('") || any_lower("<- c(") {
         "r"
+    } else if has(&|l| l.contains("['") || l.contains("[\"") || l.contains("= [")) {
+        "code literals"
     } else if has(&|l| {
         markdown_table_row(l)
             || item_start(l) > l.len() - l.trim_start().len()
@@ -585,10 +659,6 @@ fn form_of(lines: &[&str]) -> &'static str {
             || l.contains('`')
     }) {
         "markdown"
-    } else if has(&|l| {
-        (l.contains("['") || l.contains("[\"")) && (l.contains('\'') || l.contains('"'))
-    }) {
-        "code literals"
     } else {
         "prose"
     }
@@ -597,7 +667,11 @@ fn form_of(lines: &[&str]) -> &'static str {
 /// Reads a draft (see the module docs).
 pub fn read(text: &str, forced: bool) -> Draft {
     let lines: Vec<&str> = lines_of(text).collect();
-    let code_draft = lines.iter().any(|l| !codes(l, item_start(l), false).is_empty());
+    let code_draft = lines
+        .iter()
+        .any(|l| !codes(l, item_start(l), false).is_empty());
+    let form = form_of(&lines);
+    let prose = form == "prose";
     let mut out: Vec<InputLine> = Vec::with_capacity(lines.len());
     let mut context: Option<crate::systems::System> = None;
     let mut i = 0;
@@ -613,11 +687,19 @@ pub fn read(text: &str, forced: bool) -> Draft {
             i = j;
             continue;
         }
-        read_line_in(line, i + 1, &mut context, code_draft, &mut out);
+        read_line_in(line, i + 1, &mut context, code_draft, prose, &mut out);
         i += 1;
     }
-    let form = form_of(&lines);
     Draft::finish(out, Reading::Text, form, forced, lines.len())
+}
+
+/// The system a heading named, for a code whose shape fits it (a closing
+/// sentence about diagnoses under a procedures heading keeps its own).
+fn in_context(context: Option<crate::systems::System>, code: &str) -> Option<String> {
+    let s = context?;
+    crate::systems::shape(s, code)
+        .fits()
+        .then(|| s.title().to_string())
 }
 
 fn entry(
@@ -650,7 +732,7 @@ pub(crate) fn read_line(
     context: &mut Option<crate::systems::System>,
     out: &mut Vec<InputLine>,
 ) {
-    read_line_in(line, number, context, false, out)
+    read_line_in(line, number, context, false, false, out)
 }
 
 fn read_line_in(
@@ -658,6 +740,7 @@ fn read_line_in(
     number: usize,
     context: &mut Option<crate::systems::System>,
     code_draft: bool,
+    prose: bool,
     out: &mut Vec<InputLine>,
 ) {
     let t = line.trim();
@@ -681,9 +764,8 @@ fn read_line_in(
         out.push(InputLine::new(number, line, LineKind::Text));
         return;
     }
-    let system = context.map(|s| s.title().to_string());
-    for (f, label) in found.iter().zip(labels(line, from, &found)) {
-        out.push(entry(number, line, f, label, system.clone()));
+    for (f, label) in found.iter().zip(labels(line, from, &found, prose)) {
+        out.push(entry(number, line, f, label, in_context(*context, &f.code)));
     }
 }
 
@@ -701,7 +783,7 @@ fn read_table(
     let body: Vec<usize> = rows
         .iter()
         .copied()
-        .filter(|&r| !separator_row(lines[r]) && !(has_head && r == start))
+        .filter(|&r| !(separator_row(lines[r]) || has_head && r == start))
         .collect();
     let cols = has_head.then(|| table_columns(lines, start, &body));
     let mut ctx = context;
@@ -745,10 +827,10 @@ fn read_table(
         let sys = system
             .and_then(|c| cs.get(c))
             .map(|&(s, e)| line[s..e].trim().trim_matches(['*', '`']).to_string())
-            .filter(|s| !s.is_empty())
-            .or_else(|| ctx.map(|s| s.title().to_string()));
+            .filter(|s| !s.is_empty());
         for f in &found {
-            out.push(entry(number, line, f, label.clone(), sys.clone()));
+            let sys = sys.clone().or_else(|| in_context(ctx, &f.code));
+            out.push(entry(number, line, f, label.clone(), sys));
         }
     }
 }

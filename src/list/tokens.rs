@@ -106,7 +106,7 @@ fn icd9(w: &str) -> bool {
     head_ok
         && tail.len() <= 2
         && tail.bytes().all(|b| b.is_ascii_digit())
-        && (w.contains('.') == !tail.is_empty())
+        && (w.contains('.') != tail.is_empty())
 }
 
 /// LOINC: one to seven digits, a hyphen and a check digit (`2345-7`).

@@ -205,7 +205,11 @@ pub fn reading(f: &crate::list::ReadFacts) -> Option<String> {
                 if x.codes == 0 {
                     format!("\u{201c}{}\u{201d} (no codes)", x.name)
                 } else {
-                    format!("\u{201c}{}\u{201d} ({})", x.name, plural(x.codes, "code", "codes"))
+                    format!(
+                        "\u{201c}{}\u{201d} ({})",
+                        x.name,
+                        plural(x.codes, "code", "codes")
+                    )
                 }
             })
             .collect();
