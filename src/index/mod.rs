@@ -5,14 +5,15 @@
 mod bytes;
 mod extra;
 mod maps;
+mod notes;
 pub mod write;
 
 pub use maps::MapView;
 
 use crate::date::Date;
 use crate::model::{
-    Chapter, CodeEntry, Hierarchy, Mapping, Meta, Period, Release, Section, SeventhRule, Source,
-    Successor,
+    Chapter, CodeEntry, Hierarchy, Mapping, Meta, Note, NoteKind, NoteOwner, Period, Release,
+    Section, SeventhRule, Source, Successor,
 };
 use crate::sha256;
 use bytes::{u32_at, In};
@@ -137,6 +138,8 @@ pub struct Index<D> {
     maps: Option<(usize, usize)>,
     /// Where the optional sections of [`extra`] are.
     extras: Vec<([u8; 4], (usize, usize))>,
+    /// Where the tabular list's notes are, if the index has them.
+    notes: Option<(usize, usize)>,
 }
 
 impl<D: AsRef<[u8]>> Index<D> {
@@ -226,6 +229,10 @@ impl<D: AsRef<[u8]>> Index<D> {
             .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
             .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
+        let notes = find.get(&b"NOTE"[..]).copied();
+        if let Some((o, n)) = notes {
+            notes::Notes::read(&bytes[o..o + n]).ok_or(IndexError::Corrupt("tabular notes"))?;
+        }
         let rec_blocks = len.div_ceil(REC_BLOCK);
         let wide = pard.1 == len * 4 && len > 0;
         let col = if wide { 4 } else { 2 };
@@ -267,6 +274,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             tree,
             maps,
             extras,
+            notes,
         })
     }
 
@@ -327,6 +335,8 @@ impl<D: AsRef<[u8]>> Index<D> {
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
             extra: extra::read(|t| slice_of(b, &self.extras, t), l.len, false).unwrap_or_default(),
+            notes_at: self.notes.map(s),
+            notes: std::cell::OnceCell::new(),
         }
     }
 
@@ -379,6 +389,21 @@ impl<D: AsRef<[u8]>> Index<D> {
                 Hierarchy::Prefix
             },
             aliases: v.aliases(),
+            notes: {
+                let (t, data) = v.notes_table();
+                t.all(data)
+            }
+            .into_iter()
+            .map(|(tag, at, kind, text)| Note {
+                owner: match tag {
+                    notes::Notes::CODE => NoteOwner::Code(v.code(at)),
+                    notes::Notes::CHAPTER => NoteOwner::Chapter(at as u16),
+                    _ => NoteOwner::Section(at as u16),
+                },
+                kind,
+                text,
+            })
+            .collect(),
         }
     }
 }
@@ -568,6 +593,9 @@ pub struct View<'a> {
     known: std::cell::RefCell<std::collections::HashMap<u32, Box<str>>>,
     /// The optional sections (stated hierarchy, statuses, alternate ids).
     extra: extra::Extra<'a>,
+    /// The `NOTE` section's bytes, read into [`notes`](Self::notes) on first use.
+    notes_at: Option<&'a [u8]>,
+    notes: std::cell::OnceCell<notes::Notes>,
 }
 
 impl<'a> View<'a> {
@@ -983,6 +1011,37 @@ impl<'a> View<'a> {
         } else {
             d
         }
+    }
+
+    fn notes_table(&self) -> (&notes::Notes, &'a [u8]) {
+        let data = self.notes_at.unwrap_or_default();
+        let table = self
+            .notes
+            .get_or_init(|| notes::Notes::read(data).unwrap_or_default());
+        (table, data)
+    }
+
+    /// Whether the index carries the tabular list's notes.
+    pub fn has_notes(&self) -> bool {
+        self.notes_at.is_some()
+    }
+
+    /// The tabular list's notes stated at a code, in tabular order.
+    pub fn notes(&self, ord: u32) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_code(data, ord)
+    }
+
+    /// The notes stated at a chapter (index into [`chapters`](Self::chapters)).
+    pub fn chapter_notes(&self, i: usize) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_chapter(data, i as u16)
+    }
+
+    /// The notes stated at a section (index into [`sections`](Self::sections)).
+    pub fn section_notes(&self, i: usize) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_section(data, i as u16)
     }
 
     /// The mappings the index carries (the GEMs, in the ICD-9-CM index).
