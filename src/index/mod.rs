@@ -990,6 +990,15 @@ impl<'a> View<'a> {
             .and_then(|i| self.tree.seventh.get(i as usize))
     }
 
+    /// The 7th-character rule in force at this node and the node that
+    /// states it (itself or its nearest ancestor with a rule).
+    pub fn seventh_rule_at(&self, ord: u32) -> Option<(u32, &'a SeventhRule)> {
+        std::iter::once(ord)
+            .chain(self.ancestors(ord))
+            .find_map(|o| Some((o, self.own_seventh(o)?)))
+            .and_then(|(o, i)| Some((o, self.tree.seventh.get(i as usize)?)))
+    }
+
     /// The section whose category range holds this code, and its chapter.
     pub fn section_of(&self, code: &str) -> Option<(&'a Section, Option<&'a Chapter>)> {
         let cat = code.get(..3.min(code.len()))?;
