@@ -16,7 +16,7 @@
 //!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
-//!   matching).
+//!   matching); [`find`] puts a code or code start before the words.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -29,6 +29,7 @@ pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod find;
 pub mod index;
 pub mod input;
 pub mod label;

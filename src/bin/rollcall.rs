@@ -611,18 +611,33 @@ fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
     }
     let day = day.unwrap_or_else(today);
     let loaded = load_index(index.as_deref()).map_err(Usage)?;
-    let found = match &loaded {
-        Loaded::Bundled(i) => rollcall::search::find(&i.view(), &query, day, limit, true),
-        Loaded::File(i, _) => rollcall::search::find(&i.view(), &query, day, limit, true),
-    };
+    let finds = rollcall::find::find(&loaded.index().view(), &query, day, limit, true);
+    let found = &finds.results;
     let out = if format == "json" {
-        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        let v = serde_json::json!({
+            "query": query,
+            "date": day,
+            "within": finds.within,
+            "no_code": finds.no_code,
+            "results": found,
+        });
         serde_json::to_string_pretty(&v).map_err(|e| Usage(e.to_string()))? + "\n"
+    } else if let Some(start) = &finds.no_code {
+        format!("no code starts with {start}; check the code, or search by words\n")
     } else if found.is_empty() {
-        format!("no code fits \"{query}\"\n")
+        match &finds.within {
+            Some(w) => format!(
+                "no code under {w} fits \"{}\"\n",
+                query
+                    .trim()
+                    .split_once(char::is_whitespace)
+                    .map_or("", |x| x.1.trim())
+            ),
+            None => format!("no code fits \"{query}\"\n"),
+        }
     } else {
         let mut s = String::new();
-        for f in &found {
+        for f in found {
             let span = match (f.status, f.billable_from, f.billable_to) {
                 ("in-use", Some(a), Some(b)) if a == b => format!("in use in release {a}"),
                 ("in-use", Some(a), Some(b)) => format!("in use {a} to {b}"),

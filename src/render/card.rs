@@ -85,11 +85,7 @@ pub fn segment_words(t: &Segment) -> String {
         "obsolete" => format!("obsolete; replaced by {codes}"),
         other => other.to_string(),
     };
-    let state = match t.state {
-        "absent" => "absent",
-        s => s,
-    };
-    format!("{} to {}  {:<8}  {why}", t.from, t.to, state)
+    format!("{} to {}  {:<8}  {why}", t.from, t.to, t.state)
 }
 
 fn child_line(s: &mut String, c: &Child) {
