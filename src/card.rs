@@ -288,11 +288,7 @@ pub fn card_of(view: &View<'_>, others: &[View<'_>], ord: u32, period: &Period) 
     card.chapter = chapter;
     card.section = section;
     card.ancestors = ancestors_on(view, ord, day).into_iter().map(node).collect();
-    card.parents = if view.is_graph() {
-        view.parents(ord).map(node).collect()
-    } else {
-        card.ancestors.last().cloned().into_iter().collect()
-    };
+    card.parents = parents_on(view, ord, day).into_iter().map(node).collect();
     card.children = children_on(view, ord, day)
         .into_iter()
         .map(|c| child(view, c, day))
@@ -364,6 +360,19 @@ pub fn ancestors_on(view: &View<'_>, ord: u32, day: Date) -> Vec<u32> {
     };
     up.reverse();
     up
+}
+
+/// Every parent of `ord` on `day`: the release's parents in a stated
+/// hierarchy, else the nearest ancestor in force.
+pub fn parents_on(view: &View<'_>, ord: u32, day: Date) -> Vec<u32> {
+    if view.is_graph() {
+        view.parents(ord).collect()
+    } else {
+        view.ancestors(ord)
+            .find(|&a| in_force(view, a, day))
+            .into_iter()
+            .collect()
+    }
 }
 
 /// The direct children of `ord` on `day`: the nearest nodes in force below
