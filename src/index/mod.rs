@@ -229,10 +229,9 @@ impl<D: AsRef<[u8]>> Index<D> {
             .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
             .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
+        // The notes are read on first use (a damaged section reads as none),
+        // so opening stays a header check.
         let notes = find.get(&b"NOTE"[..]).copied();
-        if let Some((o, n)) = notes {
-            notes::Notes::read(&bytes[o..o + n]).ok_or(IndexError::Corrupt("tabular notes"))?;
-        }
         let rec_blocks = len.div_ceil(REC_BLOCK);
         let wide = pard.1 == len * 4 && len > 0;
         let col = if wide { 4 } else { 2 };
