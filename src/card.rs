@@ -786,6 +786,14 @@ fn unknown_card<D: AsRef<[u8]>>(
             message: f.message,
             suggestions: f.suggestions,
         },
+        None if written.is_empty() => Problem {
+            message: format!(
+                "the code is empty; give {} {} code",
+                crate::check::article(&view.meta().title),
+                view.meta().title
+            ),
+            suggestions: Vec::new(),
+        },
         None => Problem {
             message: format!("\"{written}\" is not a code of this index"),
             suggestions: Vec::new(),
