@@ -9,6 +9,7 @@ import { setupCompare } from "./compare.js";
 import { open, readManifest } from "./rollcall.js";
 import { embedded } from "./embedded.js";
 import { initSearch } from "./search.js";
+import { initCard } from "./card.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -711,10 +712,25 @@ function addFromSearch(code, description) {
   return applyEdits([{ op: "add", after, code, label: description }], `Added ${code}.`);
 }
 
+/** The code card adds the codes checked in it as new last lines. */
+function addCodes(codes) {
+  const text = $("list").value.replace(/\n$/, "");
+  const after = text === "" ? 0 : text.split("\n").length;
+  const edits = codes.map(({ code, label }) => ({ op: "add", after, code, label }));
+  return applyEdits(edits, `Added ${codes.map((c) => c.code).join(", ")}.`);
+}
+
 async function main() {
   document.body.dataset.state = "loading";
   wire();
   initSearch({ ask, addToList: addFromSearch });
+  initCard({
+    ask,
+    options: () => checkerOptions(readOptions()),
+    coverage: () => ({ from: state.info.coverage_from, to: state.info.coverage_to }),
+    addCodes,
+    replaceLine: (line, code) => applyEdits([{ op: "replace", line, code }], `Line ${line} is now ${code}.`),
+  });
   syncModeFields();
   const restored = restoreLink();
   let info;
