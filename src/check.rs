@@ -5,7 +5,7 @@
 use crate::code::{self, Resolved};
 use crate::date::Date;
 use crate::index::{Index, View};
-use crate::input::{parse_list, LineKind};
+use crate::list::{Draft, LineKind, Reading};
 use crate::listcheck;
 use crate::model::{Period, Span, SpanKind};
 use crate::pattern::{self, Pattern};
@@ -402,16 +402,47 @@ struct Extras {
     reach: Vec<Reach>,
 }
 
+/// [`check_among_with_coverage`] of a list already read (see
+/// [`crate::list::read`]): one entry per [`crate::list::InputLine`], in order.
+pub fn check_draft<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    draft: &Draft,
+    options: &CheckOptions,
+) -> (Report, Vec<CategoryCoverage>) {
+    let want = Want {
+        coverage: true,
+        others,
+        ..Want::default()
+    };
+    let (report, extras) = run_draft(index, draft, options, want);
+    (report, extras.coverage)
+}
+
 fn run<D: AsRef<[u8]>>(
     index: &Index<D>,
     text: &str,
     options: &CheckOptions,
     want: Want<'_, '_>,
 ) -> (Report, Extras) {
+    run_draft(
+        index,
+        &crate::list::read(text, Reading::Auto),
+        options,
+        want,
+    )
+}
+
+fn run_draft<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    draft: &Draft,
+    options: &CheckOptions,
+    want: Want<'_, '_>,
+) -> (Report, Extras) {
     let view = index.view();
     let meta = index.meta();
     let period = options.period_for(meta);
-    let (_, lines) = parse_list(text);
+    let lines = &draft.lines;
 
     // Pass 1: what each line is.
     let items: Vec<Item> = lines
@@ -477,20 +508,7 @@ fn run<D: AsRef<[u8]>>(
     let mut memo = Memo::default();
     let mut entries = Vec::with_capacity(lines.len());
     for (l, item) in lines.iter().zip(items) {
-        let label = match &l.kind {
-            LineKind::Entry { label, .. } => label.clone(),
-            _ => None,
-        };
-        let mut e = Entry {
-            line: l.number,
-            input: l.text.clone(),
-            code: None,
-            system: None,
-            label,
-            description: None,
-            status: Status::Malformed,
-            findings: Vec::new(),
-        };
+        let mut e = Entry::of(l);
         judge(
             &view,
             options,
@@ -519,9 +537,10 @@ fn run<D: AsRef<[u8]>>(
         extras.coverage = coverage_of(&view, &period, &ctx.reached);
     }
 
-    let summary = Summary::of(lines.len(), &entries, &list_findings);
+    let summary = Summary::of(draft.line_count(), &entries, &list_findings);
     let report = Report {
         vocabulary: meta.vocabulary.clone(),
+        reading: draft.facts.clone(),
         index: IndexInfo {
             release: meta.release.clone(),
             coverage_from: meta.coverage_from,
@@ -545,6 +564,7 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Blank => Item::Skip(Status::Blank),
         LineKind::Comment => Item::Skip(Status::Comment),
         LineKind::Headings => Item::Skip(Status::ColumnHeadings),
+        LineKind::Text => Item::Skip(Status::Text),
         LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
         // A range (`E08-E13`) runs in code order, which only a prefix
         // hierarchy gives meaning to: in a stated one (LOINC `2345-7`, an
@@ -600,6 +620,72 @@ fn code_item(view: &View<'_>, code: &str) -> Item {
             reason,
             written: code.trim().to_string(),
         },
+    }
+}
+
+/// The suggestions for a code that is no code: codes one or two edits
+/// away (see [`code::near`]), with the codes the label fits first.
+struct NearSuggestions {
+    suggestions: Vec<Suggestion>,
+    /// The first suggestion is there because the label fits it.
+    label_first: bool,
+    /// Some code is within two edits.
+    any_near: bool,
+}
+
+/// How many near codes a finding offers.
+const NEAR_LIMIT: usize = 12;
+
+fn near_suggestions(
+    view: &View<'_>,
+    c: &str,
+    label: Option<&str>,
+    period: &Period,
+    memo: &mut Memo,
+) -> NearSuggestions {
+    let mut sugg = Vec::new();
+    let near = code::rank_near(view, c, code::near(view, c), period, NEAR_LIMIT);
+    let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
+    let mut near_why: Vec<(u32, String)> = Vec::new();
+    for (o, d) in near {
+        let same = view.code(o).starts_with(c.get(..3).unwrap_or(c));
+        let live = view.billable_in(o, period);
+        let mut why = if code::is_swap(c, &view.code(o)) {
+            "two neighbouring characters swapped"
+        } else if d == 1 {
+            "one character different"
+        } else {
+            "two characters different"
+        }
+        .to_string();
+        if same {
+            why.push_str(", same category");
+        }
+        if !live {
+            why.push_str(", but not billable in the period");
+        }
+        near_why.push((o, why));
+    }
+    // Codes the label fits come first; a near code among them keeps both reasons.
+    for (o, why) in label_candidates(view, label, c, period, &near_ords, memo) {
+        match near_why.iter().position(|(n, _)| *n == o) {
+            Some(i) => {
+                let (_, near) = near_why.remove(i);
+                let why = why.replace(", same category", "");
+                sugg.push(suggestion(view, o, format!("{near}; {why}")));
+            }
+            None => sugg.push(suggestion(view, o, why)),
+        }
+    }
+    let label_first = !sugg.is_empty();
+    for (o, why) in near_why {
+        sugg.push(suggestion(view, o, why));
+    }
+    sugg.truncate(NEAR_LIMIT);
+    NearSuggestions {
+        suggestions: sugg,
+        label_first,
+        any_near: !near_ords.is_empty(),
     }
 }
 
@@ -782,13 +868,24 @@ fn judge(
                 e.findings.push(f.clone());
                 return;
             }
-            // The label may still name the code that was meant.
-            let sugg: Vec<Suggestion> =
+            // The label may still name the code that was meant; a code
+            // mistyped out of shape (`SR2.002B`, `436.810D`) gets the codes
+            // within two edits of it, as an unknown code does.
+            let other = other_systems(view, &written);
+            let typed = (3..=10).contains(&undotted.len())
+                && undotted.bytes().all(|b| b.is_ascii_alphanumeric())
+                && undotted.bytes().filter(u8::is_ascii_digit).count() >= 2
+                && !view.is_graph();
+            let sugg: Vec<Suggestion> = if other.is_none() && typed && *suggestions_left > 0 {
+                *suggestions_left -= 1;
+                near_suggestions(view, &undotted, e.label.as_deref(), period, memo).suggestions
+            } else {
                 label_candidates(view, e.label.as_deref(), &undotted, period, &[], memo)
                     .into_iter()
                     .map(|(o, why)| suggestion(view, o, why))
-                    .collect();
-            let f = match other_systems(view, &written) {
+                    .collect()
+            };
+            let f = match other {
                 Some((systems, message)) => {
                     e.status = Status::OtherSystem;
                     if let [one] = systems.as_slice() {
@@ -864,51 +961,14 @@ fn judge(
             }
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
-                let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
-                let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
-                let mut near_why: Vec<(u32, String)> = Vec::new();
-                for (o, d) in near {
-                    let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
-                    let live = view.billable_in(o, period);
-                    let mut why = if code::is_swap(&c, &view.code(o)) {
-                        "two neighbouring characters swapped"
-                    } else if d == 1 {
-                        "one character different"
-                    } else {
-                        "two characters different"
-                    }
-                    .to_string();
-                    if same {
-                        why.push_str(", same category");
-                    }
-                    if !live {
-                        why.push_str(", but not billable in the period");
-                    }
-                    near_why.push((o, why));
-                }
-                // Codes the label fits come first; a near code among them keeps both reasons.
-                for (o, why) in
-                    label_candidates(view, e.label.as_deref(), &c, period, &near_ords, memo)
-                {
-                    match near_why.iter().position(|(n, _)| *n == o) {
-                        Some(i) => {
-                            let (_, near) = near_why.remove(i);
-                            let why = why.replace(", same category", "");
-                            sugg.push(suggestion(view, o, format!("{near}; {why}")));
-                        }
-                        None => sugg.push(suggestion(view, o, why)),
-                    }
-                }
-                if !sugg.is_empty() {
+                let near = near_suggestions(view, &c, e.label.as_deref(), period, memo);
+                sugg = with_every_seventh(view, &c, near.suggestions);
+                if near.label_first {
                     msg.push_str(&format!("; its label fits {} best", sugg[0].code));
                 }
-                for (o, why) in near_why {
-                    sugg.push(suggestion(view, o, why));
-                }
-                if near_ords.is_empty() {
+                if !near.any_near {
                     msg.push_str("; no code is within two characters of it");
                 }
-                sugg.truncate(8);
             } else {
                 msg.push_str(&format!(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
@@ -973,6 +1033,56 @@ fn judge(
 }
 
 /// Why an unknown code with a 7th character does not exist, when a rule says so.
+/// Every code the tabular list allows at the node of a code whose 7th
+/// character it does not allow, in the order of its rule.
+fn seventh_codes(view: &View<'_>, code: &str) -> Vec<u32> {
+    if code.len() != 7 || seventh_note(view, code).is_none() {
+        return Vec::new();
+    }
+    let base = &code[..6];
+    let stem = base.trim_end_matches('X');
+    let Some(rule) = view
+        .ordinal(base)
+        .or_else(|| view.ordinal(stem))
+        .and_then(|o| view.seventh_rule(o))
+    else {
+        return Vec::new();
+    };
+    rule.extensions
+        .iter()
+        .filter_map(|(c, _)| view.ordinal(&format!("{base}{c}")))
+        .collect()
+}
+
+/// The near suggestions of a code with a 7th character its node does not
+/// allow, with every allowed one among them (those already offered keep
+/// their place and reasons).
+fn with_every_seventh(view: &View<'_>, code: &str, near: Vec<Suggestion>) -> Vec<Suggestion> {
+    let seventh = seventh_codes(view, code);
+    if seventh.is_empty() {
+        return near;
+    }
+    let shown: Vec<String> = seventh
+        .iter()
+        .map(|&o| view.display(&view.code(o)))
+        .collect();
+    let (mut out, rest): (Vec<Suggestion>, Vec<Suggestion>) =
+        near.into_iter().partition(|s| shown.contains(&s.code));
+    for (&o, c) in seventh.iter().zip(&shown) {
+        if !out.iter().any(|s| &s.code == c) {
+            out.push(suggestion(
+                view,
+                o,
+                "a 7th character the tabular list allows here",
+            ));
+        }
+    }
+    let room = NEAR_LIMIT.max(out.len());
+    out.extend(rest);
+    out.truncate(room);
+    out
+}
+
 fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
     if code.len() != 7 {
         return None;

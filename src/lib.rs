@@ -7,14 +7,18 @@
 //!   large tables stay in the caller's bytes) and [`View`] answers lookups:
 //!   code to ordinal through an `fst` map, then side tables by ordinal
 //!   (billable and header spans, parent and subtree, successors, descriptions).
-//! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
+//! - [`list::read`] reads any list or draft (plain lines, CSV/TSV, markdown,
+//!   prose, code literals, JSON and FHIR resources, workbooks) into entries,
+//!   keeping every line; several codes on one line are each an entry.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`card`] gathers what is known of one code (timeline, place in the
+//!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
-//!   matching).
+//!   matching); [`find`] puts a code or code start before the words.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -22,13 +26,15 @@
 
 #![deny(missing_docs)]
 
+pub mod card;
 pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod find;
 pub mod index;
-pub mod input;
 pub mod label;
+pub mod list;
 pub mod listcheck;
 pub mod mixed;
 pub mod model;
@@ -49,7 +55,7 @@ pub use check::{
 pub use compare::{compare, Comparison};
 pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
-pub use input::{parse_list, InputLine, LineKind};
+pub use list::{parse_list, read, Draft, InputLine, LineKind, Reading};
 pub use report::{
     Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary, SystemPart,
 };

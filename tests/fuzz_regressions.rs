@@ -57,17 +57,6 @@ fn kept_search_inputs_run_clean() {
     replay("search_words", harness::search_words);
 }
 
-/// Inputs the list reader (`src/input.rs`) panicked on, kept apart until
-/// its rewrite lands: run with `cargo test -- --ignored`.
-#[test]
-#[ignore = "the list reader's rewrite reads these; run with --ignored once it lands"]
-fn kept_list_reader_inputs_run_clean() {
-    replay("reader/check_text", harness::check_text);
-    replay("reader/mixed_list", harness::mixed_list);
-    replay("reader/compare_lists", harness::compare_lists);
-    replay("reader/search_words", harness::search_words);
-}
-
 fn day(s: &str) -> Date {
     Date::parse(s).unwrap()
 }
@@ -88,34 +77,49 @@ fn line(r: &rollcall::Report, n: usize) -> &rollcall::Entry {
 #[test]
 fn a_multibyte_character_in_the_first_three_bytes_of_a_code_with_a_label() {
     // `é` and `€` are two and three bytes in UTF-8: the third byte of the
-    // written code falls inside them.
-    let text = "E1é diabetes\nI1€0 hypertension\n";
-    harness::check_text(text.as_bytes());
-    let r = rollcall::check(&icd10cm(), text, &on("2024-01-01"));
-    for n in [1, 2] {
-        assert_eq!(line(&r, n).status, Status::Malformed, "line {n}");
+    // written code falls inside them. The label check says why it suggests
+    // a code, comparing the written code's first three bytes.
+    let index = icd10cm();
+    let view = index.view();
+    let e10 = view.ordinal("E10").unwrap();
+    let fit = rollcall::search::Fit {
+        label: 1.0,
+        description: 1.0,
+    };
+    for near in ["E1é", "I1€0", "é", "€", "E€"] {
+        let why = rollcall::label::reason(&view, &fit, near, e10);
+        assert!(!why.contains("same category"), "{near}: {why}");
     }
-    // The label still finds codes: the reason for each is given in words.
-    assert!(!line(&r, 1).findings[0].suggestions.is_empty());
+    assert!(rollcall::label::reason(&view, &fit, "E109", e10).contains("same category"));
+    // The lines as a list, in each form a list may take.
+    for text in [
+        "E1é diabetes\nI1€0 hypertension\n",
+        "code\tlabel\nE11.9\tdiabetes\nE1é\tdiabetes\nI1€0\thypertension\n",
+        "code,label\nE1é,diabetes\nE11.9,diabetes\n",
+    ] {
+        harness::check_text(text.as_bytes());
+    }
 }
 
 #[test]
 fn a_multibyte_character_in_a_five_byte_cell_read_for_other_systems_shapes() {
     // `123é` and `E1€` are five bytes: the CPT shape (five characters) is
     // tried on them when they are no code of the index.
-    for text in ["123é\n", "E1€\n"] {
+    use rollcall::systems::{shape, System, ALL};
+    for code in ["123é", "E1€", "1234é", "é1234", "€€"] {
+        for system in ALL {
+            let _ = shape(system, code);
+        }
+        assert!(!shape(System::Cpt, code).fits(), "{code}");
+    }
+    assert!(shape(System::Cpt, "99213").fits());
+    for text in ["123é\nE1€\n", "code\nE11.9\n123é\nE1€\n"] {
         harness::check_text(text.as_bytes());
-        for system in rollcall::systems::ALL {
-            let k = rollcall::systems::ALL
-                .iter()
-                .position(|s| *s == system)
-                .unwrap() as u8;
+        for k in 0..ALL.len() as u8 {
             let mut data = vec![k];
             data.extend_from_slice(text.as_bytes());
             harness::mixed_list(&data);
         }
-        let r = rollcall::check(&icd10cm(), text, &on("2024-01-01"));
-        assert_eq!(line(&r, 1).status, Status::Malformed);
     }
 }
 

@@ -4,7 +4,8 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
-use rollcall::mixed::{check_list, systems_named, Primary};
+use rollcall::list::{Draft, Reading};
+use rollcall::mixed::{check_listed_draft, systems_named_in, Primary};
 use rollcall::systems::System;
 use rollcall::{render, CheckOptions, Date, Index, View};
 use std::io::Read;
@@ -52,15 +53,23 @@ ICD-9-CM and HPO bundled; other systems by shape, or by an index a site builds)
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
+                        [--read lines|table|text|json|workbook]
   rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
   rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
                         [--format text|json|csv]
   rollcall info [--format text|json] [--index PATH]
-  rollcall find WORDS... [--date DATE] [--limit N] [--format text|json] [--index PATH]
+  rollcall find WORDS...|CODE [WORDS...] [--date DATE] [--limit N] [--format text|json]
+                        [--index PATH]
+  rollcall show CODE... [--on DATE | --from DATE --to DATE] [--system NAME | --index PATH]
+                        [--format text|json]
 
-  FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
-             - reads standard input
+  FILE       any list or draft: plain lines (code, then an optional label), CSV or TSV
+             with a code column, markdown, prose, SQL/R/Python literals, JSON or a FHIR
+             resource, a spreadsheet workbook (.xlsx, .xls, .ods); several codes on a
+             line are each checked; - reads standard input
+  --read     how to read the list when the guess is wrong: lines (one code per line),
+             table (CSV/TSV), text (a draft), json, workbook
   --on       a single reference date (default: today)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
@@ -78,7 +87,13 @@ usage:
              period; --format csv writes one row per code only one list reaches
   find       codes whose descriptions fit the words (misspellings and abbreviations
              such as DM, HTN, w/o allowed); --date: prefer codes in use that day
-             (default: today), --limit: how many (default 10)
+             (default: today), --limit: how many (default 10); a code or code start
+             first (E11.6) lists that node and what lies under it, and narrows the
+             words after it to that part of the tree (E11.6 foot)
+  show       a card per code, node or code start: status and timeline across the
+             releases, chapter, section and ancestors, children and siblings in force
+             on the day (the last day of a period), the tabular list's notes, successors,
+             predecessors and GEM mappings; an unknown code gets the check's suggestions
 
 exit status: 0 no errors found (compare: and both lists reach the same codes),
              1 error-level findings (compare: or the lists differ), 2 usage or input error.
@@ -109,15 +124,16 @@ struct Args {
     system: Option<String>,
     /// translate: the target system.
     into: Option<String>,
+    /// How to read the list.
+    reading: Reading,
 }
 
 fn parse(argv: &[String]) -> Result<Args, Usage> {
     let mut a = Args::default();
     let mut it = argv.iter();
-    a.command = it
-        .next()
-        .cloned()
-        .ok_or_else(|| Usage("a command is needed: check, compare or info".into()))?;
+    a.command = it.next().cloned().ok_or_else(|| {
+        Usage("a command is needed: check, compare, translate, info, find or show".into())
+    })?;
     while let Some(arg) = it.next() {
         let mut value = || {
             it.next()
@@ -134,6 +150,15 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--index" => a.index = Some(value()?),
             "--system" => a.system = Some(value()?),
             "--into" => a.into = Some(value()?),
+            "--read" => {
+                let v = value()?;
+                a.reading = Reading::parse(&v).ok_or_else(|| {
+                    Usage(format!(
+                        "--read {v} is not a reading; use one of {}",
+                        Reading::FORCED.map(|r| r.name()).join(", ")
+                    ))
+                })?;
+            }
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
             s => a.files.push(s.to_string()),
         }
@@ -203,8 +228,8 @@ fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
 /// `own`: every one the list's system column names, and ICD-9-CM (with the
 /// GEMs) beside ICD-10-CM and the reverse, so a code of the other system
 /// is named with its GEM targets.
-fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
-    let mut want = systems_named(text);
+fn at_hand(own: &str, draft: &Draft) -> Result<Vec<Index<&'static [u8]>>, String> {
+    let mut want = systems_named_in(draft);
     // Each of the two with the GEMs beside the other (both directions are
     // kept in the ICD-9-CM index).
     match own {
@@ -222,9 +247,9 @@ fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
 
 /// Checks a list: the rows with no system cell against the target, the
 /// others in the system their cell names.
-fn check_text(
+fn check_draft(
     target: &Target,
-    text: &str,
+    draft: &Draft,
     opts: &CheckOptions,
 ) -> Result<rollcall::Report, String> {
     let (primary, own) = match target {
@@ -234,9 +259,9 @@ fn check_text(
         ),
         Target::Shapes(s) => (Primary::Shapes(*s), s.name().to_string()),
     };
-    let others = at_hand(&own, text)?;
+    let others = at_hand(&own, draft)?;
     let refs: Vec<&Index<&'static [u8]>> = others.iter().collect();
-    Ok(check_list(primary, &refs, text, opts))
+    Ok(check_listed_draft(primary, &refs, draft, opts).0)
 }
 
 /// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
@@ -332,8 +357,8 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                     ))
                 }
             };
-            let text = read_list(file)?;
-            let report = check_text(&target(&a)?, &text, &opts)?;
+            let draft = read_draft(file, a.reading)?;
+            let report = check_draft(&target(&a)?, &draft, &opts)?;
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n",
                 "csv" => render::csv(&report),
@@ -349,7 +374,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             // would only cost time (about a tenth of a run on a large list).
             std::mem::forget(report);
             std::mem::forget(out);
-            std::mem::forget(text);
+            std::mem::forget(draft);
             Ok(status)
         }
         "compare" => {
@@ -502,14 +527,52 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             write_out(&out);
             Ok(ExitCode::SUCCESS)
         }
+        "show" => {
+            if !matches!(format.as_str(), "text" | "json") {
+                return Err(format!(
+                    "--format must be text or json for show, not {format}"
+                ));
+            }
+            if a.billable || a.into.is_some() {
+                return Err("show takes codes, --on or --from/--to, --system, --index and --format".into());
+            }
+            if a.files.is_empty() {
+                return Err("show needs one or more codes, e.g. rollcall show E11.6".into());
+            }
+            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let codes: Vec<&str> = a.files.iter().map(String::as_str).collect();
+            let cards = match target(&a)? {
+                Target::Index(l) => {
+                    let i = l.index();
+                    rollcall::card::cards(i, &companions(i)?, &codes, &opts)
+                }
+                Target::Shapes(s) => {
+                    return Err(format!(
+                        "show needs the content of the system; rollcall has no {} index (bundled: icd10cm, icd10pcs, icd9cm, hpo)",
+                        s.title()
+                    ))
+                }
+            };
+            let out = match format.as_str() {
+                "json" => serde_json::to_string_pretty(&cards).map_err(|e| e.to_string())? + "\n",
+                _ => render::cards_text(&cards),
+            };
+            write_out(&out);
+            let known = cards.cards.iter().all(|c| c.problem.is_none());
+            Ok(if known {
+                ExitCode::SUCCESS
+            } else {
+                ExitCode::from(1)
+            })
+        }
         other => Err(format!(
-            "unknown command \"{other}\"; the commands are check, compare and info (see rollcall --help)"
+            "unknown command \"{other}\"; the commands are check, compare, translate, info, find and show (see rollcall --help)"
         )),
     }
 }
 
 /// A list from a file, or from standard input for `-`, as text.
-fn read_list(file: &str) -> Result<String, String> {
+fn read_raw(file: &str) -> Result<Vec<u8>, String> {
     let mut raw = Vec::new();
     if file == "-" {
         std::io::stdin()
@@ -518,7 +581,24 @@ fn read_list(file: &str) -> Result<String, String> {
     } else {
         raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
     }
-    decode(&raw).map_err(|e| format!("{file}: {e}"))
+    Ok(raw)
+}
+
+/// A list's text (compare and translate read text lists).
+fn read_list(file: &str) -> Result<String, String> {
+    let raw = read_raw(file)?;
+    if rollcall::list::is_workbook(&raw) {
+        return Err(format!(
+            "{file} is a spreadsheet workbook; this command reads text lists, so save the sheet as CSV (CSV UTF-8), or check the workbook with rollcall check"
+        ));
+    }
+    rollcall::list::decode(&raw).map_err(|e| format!("{file}: {e}"))
+}
+
+/// A list read as `reading` says (a workbook, or text in any form).
+fn read_draft(file: &str, reading: Reading) -> Result<Draft, String> {
+    let raw = read_raw(file)?;
+    rollcall::list::read_bytes(&raw, reading).map_err(|e| format!("{file}: {e}"))
 }
 
 /// `rollcall find WORDS...`: codes for words, best first.
@@ -565,18 +645,33 @@ fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
     }
     let day = day.unwrap_or_else(today);
     let loaded = load_index(index.as_deref()).map_err(Usage)?;
-    let found = match &loaded {
-        Loaded::Bundled(i) => rollcall::search::find(&i.view(), &query, day, limit, true),
-        Loaded::File(i, _) => rollcall::search::find(&i.view(), &query, day, limit, true),
-    };
+    let finds = rollcall::find::find(&loaded.index().view(), &query, day, limit, true);
+    let found = &finds.results;
     let out = if format == "json" {
-        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        let v = serde_json::json!({
+            "query": query,
+            "date": day,
+            "within": finds.within,
+            "no_code": finds.no_code,
+            "results": found,
+        });
         serde_json::to_string_pretty(&v).map_err(|e| Usage(e.to_string()))? + "\n"
+    } else if let Some(start) = &finds.no_code {
+        format!("no code starts with {start}; check the code, or search by words\n")
     } else if found.is_empty() {
-        format!("no code fits \"{query}\"\n")
+        match &finds.within {
+            Some(w) => format!(
+                "no code under {w} fits \"{}\"\n",
+                query
+                    .trim()
+                    .split_once(char::is_whitespace)
+                    .map_or("", |x| x.1.trim())
+            ),
+            None => format!("no code fits \"{query}\"\n"),
+        }
     } else {
         let mut s = String::new();
-        for f in &found {
+        for f in found {
             let span = match (f.status, f.billable_from, f.billable_to) {
                 ("in-use", Some(a), Some(b)) if a == b => format!("in use in release {a}"),
                 ("in-use", Some(a), Some(b)) => format!("in use {a} to {b}"),
@@ -600,70 +695,6 @@ fn write_out(s: &str) {
     let mut out = std::io::stdout().lock();
     // A closed pipe (rollcall ... | head) is not an error worth a message.
     let _ = out.write_all(s.as_bytes());
-}
-
-/// Lists come from spreadsheets as UTF-8 (maybe with a BOM) or UTF-16 of
-/// either byte order (with its BOM). Text a list cannot hold is refused
-/// with the line it is on, never dropped or shown blank.
-fn decode(raw: &[u8]) -> Result<String, String> {
-    let utf16 = match raw {
-        [0xFF, 0xFE, rest @ ..] => Some((rest, u16::from_le_bytes as fn([u8; 2]) -> u16)),
-        [0xFE, 0xFF, rest @ ..] => Some((rest, u16::from_be_bytes as fn([u8; 2]) -> u16)),
-        _ => None,
-    };
-    let text = match utf16 {
-        Some((rest, unit)) => decode_utf16(rest, unit)?,
-        None => match std::str::from_utf8(raw) {
-            Ok(s) => s.to_string(),
-            Err(e) => {
-                let line = line_at(&raw[..e.valid_up_to()]);
-                return Err(format!(
-                    "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
-                ));
-            }
-        },
-    };
-    if let Some(at) = text.find('\0') {
-        let line = line_at(&text.as_bytes()[..at]);
-        return Err(format!(
-            "line {line} holds a NUL character (byte 0), which no list has: the file may be UTF-16 \
-             without its byte order mark, or not text; save the list as UTF-8 (in a spreadsheet: \
-             CSV UTF-8) and try again"
-        ));
-    }
-    Ok(text)
-}
-
-/// The line (1-based) that the text before a position ends on.
-fn line_at(before: &[u8]) -> usize {
-    before.iter().filter(|&&b| b == b'\n').count() + 1
-}
-
-/// UTF-16 after its BOM, in the byte order `unit` reads.
-fn decode_utf16(rest: &[u8], unit: fn([u8; 2]) -> u16) -> Result<String, String> {
-    let pairs = rest.chunks_exact(2);
-    let odd = !pairs.remainder().is_empty();
-    let mut text = String::with_capacity(rest.len() / 2);
-    for c in char::decode_utf16(pairs.map(|c| unit([c[0], c[1]]))) {
-        match c {
-            Ok(c) => text.push(c),
-            Err(_) => {
-                let line = line_at(text.as_bytes());
-                return Err(format!(
-                    "line {line} is not valid UTF-16 text (half of a character pair); \
-                     save the list again as UTF-8 or UTF-16 and try again"
-                ));
-            }
-        }
-    }
-    if odd {
-        let line = line_at(text.as_bytes());
-        return Err(format!(
-            "the file is UTF-16 but ends with a lone byte on line {line} (an odd number of bytes): \
-             it may be cut short; save the list again and try again"
-        ));
-    }
-    Ok(text)
 }
 
 fn main() -> ExitCode {
