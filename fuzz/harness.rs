@@ -130,6 +130,14 @@ pub fn check_text(data: &[u8]) {
     let opts = options((data.len() % 251) as u8);
     let report = check_as_cli(System::Icd10cm, &text, &opts);
     render_and_check_lines(&report, &text);
+    // The bytes as the reader takes a file (decoding, a workbook's zip).
+    let reading = [
+        rollcall::list::Reading::Auto,
+        rollcall::list::Reading::Lines,
+        rollcall::list::Reading::Table,
+        rollcall::list::Reading::Json,
+    ][data.len() % 4];
+    let _ = rollcall::list::read_bytes(data, reading);
     // The same list through the GEMs, as `rollcall translate` does.
     let (cm, nine) = (bundled(System::Icd10cm), bundled(System::Icd9cm));
     if let (Some(cm), Some(nine)) = (cm, nine) {
@@ -200,6 +208,10 @@ pub fn search_words(data: &[u8]) {
     let view = index.view();
     let found = rollcall::search::find(&view, &query, day("2024-01-01"), 10, typing);
     serde_json::to_string(&found).expect("results serialise");
+    // `rollcall find` and the page: a code first, then words under it.
+    let finds = rollcall::find::find(&view, &query, day("2024-01-01"), 10, typing);
+    serde_json::to_string(&finds).expect("results serialise");
+    let _ = rollcall::card::codes_named(&view, &query);
     let opts = rollcall::search::SearchOptions {
         limit: 5,
         prefix_last: typing,
@@ -560,4 +572,14 @@ fn read_everything(view: &rollcall::View<'_>, all_rows: bool) {
         }
     }
     let _ = rollcall::search::fit(view, "type 2 diabetes mellitus", n / 2);
+    let period = rollcall::Period::new(day("2019-01-01"), day("2024-01-01"));
+    for &o in probes.iter().take(7) {
+        let card = rollcall::card::card_of(view, &[], o, &period);
+        serde_json::to_string(&card).expect("a card serialises");
+        let _ = view.notes(o);
+    }
+    for i in [0, 1, usize::MAX] {
+        let _ = view.chapter_notes(i);
+        let _ = view.section_notes(i);
+    }
 }
