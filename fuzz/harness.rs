@@ -77,9 +77,10 @@ pub fn render_and_check_lines(report: &Report, text: &str) {
 }
 
 /// Every line number 1..=n of `text` appears among the entries (a line may
-/// hold more than one entry), and no entry names a line past the end.
+/// hold more than one entry), and no entry names a line past the end. Lines
+/// end as the list reader ends them (LF, CRLF or a lone CR).
 pub fn assert_lines_covered(report: &Report, text: &str) {
-    let n = text.lines().count();
+    let n = rollcall::list::lines_of(text).count();
     let mut seen = vec![false; n + 1];
     for e in &report.entries {
         assert!(
