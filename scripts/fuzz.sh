@@ -4,7 +4,9 @@
 # fails when any target writes a new crash, timeout or out-of-memory input
 # to fuzz/artifacts/. Installs cargo-fuzz if it is missing. A kept input
 # belongs in fuzz/regressions/<target>/ (tests/fuzz_regressions.rs replays
-# it on stable) once the fault is fixed.
+# it on stable) once the fault is fixed. New corpus inputs go to a scratch
+# directory, so the working tree stays clean; FUZZ_KEEP=1 adds them to
+# fuzz/corpus/ instead (then minimise with cargo fuzz cmin before committing).
 set -euo pipefail
 SECONDS_EACH=${1:-600}
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
@@ -19,11 +21,15 @@ fi
 export RUSTC_BOOTSTRAP=1
 TARGETS=(check_text index_bytes mixed_list compare_lists search_words)
 before=$(find fuzz/artifacts -type f 2>/dev/null | sort || true)
+scratch=$(mktemp -d)
+trap 'rm -rf "$scratch"' EXIT
 status=0
 for t in "${TARGETS[@]}"; do
     echo "== fuzzing $t for ${SECONDS_EACH}s"
-    mkdir -p "fuzz/corpus/$t"
-    if ! cargo fuzz run "$t" "fuzz/corpus/$t" -- \
+    mkdir -p "fuzz/corpus/$t" "$scratch/$t"
+    # libFuzzer writes new inputs to the first directory and reads them all.
+    if [ "${FUZZ_KEEP:-0}" = 1 ]; then dirs=("fuzz/corpus/$t"); else dirs=("$scratch/$t" "fuzz/corpus/$t"); fi
+    if ! cargo fuzz run "$t" "${dirs[@]}" -- \
         -max_total_time="$SECONDS_EACH" -jobs=1 -workers=1 \
         -dict=fuzz/rollcall.dict -timeout=60 -rss_limit_mb=4096 \
         -print_final_stats=1; then
