@@ -424,11 +424,20 @@ function suggestionEdits(row, sugg) {
     const after = Math.max(...row.lines);
     return { edits: [{ op: "add", after, code: sugg.code, label: sugg.description || null }], note: `Added ${sugg.code} after line ${after}.` };
   }
-  // A finding about several lines (a roll-up): one line in their place.
-  const [first, ...rest] = row.lines;
+  // A finding about several lines (a roll-up): one line in their place. In
+  // a draft several codes may share a line: only a line that holds nothing
+  // but one of them goes; the others stay for the reader to remove.
+  const lines = [...new Set(row.lines)];
+  const [first, ...rest] = lines;
+  const codesOn = (line) => state.report.entries.filter((e) => e.line === line && e.code).length;
+  const gone = rest.filter((line) => codesOn(line) === 1);
+  const firstEntry = state.report.entries.find((e) => e.line === first && e.code);
   return {
-    edits: [{ op: "replace", line: first, code: sugg.code }, ...rest.map((line) => ({ op: "remove", line }))],
-    note: `Lines ${row.lines.join(", ")}: now one line, ${sugg.code}.`,
+    edits: [
+      { op: "replace", line: first, code: sugg.code, column: firstEntry?.column ?? undefined },
+      ...gone.map((line) => ({ op: "remove", line })),
+    ],
+    note: `Lines ${lines.join(", ")}: now ${sugg.code}.`,
   };
 }
 
