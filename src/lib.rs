@@ -12,6 +12,8 @@
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`export`] writes a checked list on: the cleaned list, a FHIR ValueSet,
+//!   and every billable code it reaches (CSV, SQL, R, Python).
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
 //!   matching).
@@ -26,6 +28,7 @@ pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod export;
 pub mod index;
 pub mod input;
 pub mod label;
