@@ -41,12 +41,13 @@ export function diffLines(aText, bText) {
       ops.push({ op: "same", text: midA[i], a: start + i + 1, b: start + j + 1 });
       i++;
       j++;
-    } else if (j < m && (i === n || lcs[i][j + 1] >= lcs[i + 1][j])) {
-      ops.push({ op: "add", text: midB[j], b: start + j + 1 });
-      j++;
-    } else {
+    } else if (i < n && (j === m || lcs[i + 1][j] >= lcs[i][j + 1])) {
+      // A line taken out is shown before the line put in its place.
       ops.push({ op: "del", text: midA[i], a: start + i + 1 });
       i++;
+    } else {
+      ops.push({ op: "add", text: midB[j], b: start + j + 1 });
+      j++;
     }
   }
   return ops;
