@@ -397,18 +397,21 @@ pub struct ReachedCode {
 
 /// Every billable code the entries reach in `period` (a header or a pattern
 /// counts as the billable codes under it), in code order, leaving out the
-/// entries of `left_out` (error-level findings) and any line in `skip`
-/// (rows checked in another system).
+/// entries of `left_out` (error-level findings) and those in `skip` (rows
+/// checked in another system), each by line and code as the report writes it.
 pub fn reached_codes(
     view: &View<'_>,
     reach: &[Reach],
     period: &Period,
     left_out: &[LeftOut],
-    skip: &[usize],
+    skip: &[(usize, String)],
 ) -> Vec<ReachedCode> {
     let mut lines: BTreeMap<u32, Vec<usize>> = BTreeMap::new();
     for r in reach {
-        if left_out.iter().any(|l| l.line == r.line) || skip.contains(&r.line) {
+        // A line of a draft may hold several entries: each is named by line and code.
+        let named = |line: usize, code: &str| line == r.line && code == r.written;
+        if left_out.iter().any(|l| named(l.line, &l.code)) || skip.iter().any(|(l, c)| named(*l, c))
+        {
             continue;
         }
         for &o in &r.ords {
@@ -665,21 +668,14 @@ pub fn export(format: &str, src: &Source<'_, '_>) -> Result<Export, String> {
                 ));
             };
             let period = Period::new(report.options.from, report.options.to);
-            let skip: Vec<usize> = report
+            let others: Vec<&Entry> = report
                 .entries
                 .iter()
+                .filter(|e| !e.status.skipped())
                 .filter(|e| e.system.as_deref().is_some_and(|s| s != report.vocabulary))
-                .map(|e| e.line)
                 .collect();
-            let other_rows = skip
-                .iter()
-                .filter(|l| {
-                    report
-                        .entries
-                        .get(*l - 1)
-                        .is_some_and(|e| !e.status.skipped())
-                })
-                .count();
+            let skip: Vec<(usize, String)> = others.iter().map(|e| (e.line, written(e))).collect();
+            let other_rows = others.len();
             let codes = reached_codes(view, src.reach, &period, &c.left_out, &skip);
             let title = view.meta().title.clone();
             let ctx = CodesContext {

@@ -380,8 +380,8 @@ fn plain_code_range(line: &str, code: &str) -> Option<(usize, usize)> {
 }
 
 /// A new line holding `code` and `label` laid out like the rest of the list.
-fn new_line(layout: rollcall::input::Layout, code: &str, label: Option<&str>) -> String {
-    use rollcall::input::Layout;
+fn new_line(layout: rollcall::list::Layout, code: &str, label: Option<&str>) -> String {
+    use rollcall::list::Layout;
     let label = label.map(|l| l.replace(['\t', '\r', '\n'], " "));
     match layout {
         Layout::Plain => match label {
@@ -418,8 +418,8 @@ fn check_code(code: &str) -> Result<(), String> {
 /// Apply edits to a list, leaving every other character as it was (labels,
 /// other columns, line endings). All line numbers refer to `text` as given.
 pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
-    use rollcall::input::{Layout, LineKind};
-    let (layout, lines) = rollcall::input::parse_list(text);
+    use rollcall::list::{Layout, LineKind};
+    let (layout, lines) = rollcall::list::parse_list(text);
     let mut physical: Vec<Option<String>> = text.split('\n').map(|l| Some(l.to_string())).collect();
     let mut added: std::collections::BTreeMap<usize, Vec<String>> = Default::default();
     let count = lines.len();
