@@ -89,6 +89,16 @@ test("keyboard: choose a finding's second suggestion, the next finding gets the 
   await page.keyboard.press("ArrowRight");
   await page.keyboard.press("ArrowRight");
   assert.equal(await page.evaluate(() => document.activeElement.textContent), `Use ${second}`);
+  // Past the first three, a button shows the rest, and the arrows reach them too.
+  const all = await first.$$eval("button.suggestion code", (cs) => cs.map((c) => c.textContent));
+  assert.ok(all.length > 3, `${all.length} suggestions`);
+  await page.keyboard.press("ArrowRight");
+  await page.keyboard.press("ArrowRight");
+  assert.match(await page.evaluate(() => document.activeElement.textContent), /^\d+ more suggestions?$/);
+  await page.keyboard.press("Enter");
+  assert.equal(await page.evaluate(() => document.activeElement.textContent), `Use ${all[3]}`);
+  for (let k = 0; k < 2; k++) await page.keyboard.press("ArrowLeft");
+  assert.equal(await page.evaluate(() => document.activeElement.textContent), `Use ${second}`);
   await checked(page, () => page.keyboard.press("Enter"));
   assert.equal((await page.inputValue("#list")).split("\n")[0], `${second}\tType 2 diabetes mellitus with hyperglycemia`);
   // The next finding (e119, normalized) has the focus, wherever it now sorts.

@@ -2,8 +2,9 @@
 // readable in full: the line, the code as written, the severity in words
 // with a shape, the kind (a link to the glossary), the message and every
 // suggestion as a button. Keyboard: the table is one tab stop; arrow keys
-// move between findings, Right/Left between a finding's suggestions, Enter
-// on a finding applies its first suggestion, digits 1-9 the n-th.
+// move between findings, Right/Left between a finding's suggestions (and the
+// button that shows the rest), Enter on a finding applies its first
+// suggestion, digits 1-9 the n-th.
 
 import { esc } from "./pictures.js";
 import { explains, kindId, showKind } from "./glossary.js";
@@ -11,6 +12,9 @@ import { pageWords } from "./wording.js";
 
 const SEVERITY_ICON = { error: "✖", warning: "▲", info: "●" };
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
+// Suggestions shown at first; the rest behind a "more" button (a finding
+// with a dozen near codes would otherwise fill the screen).
+const FIRST_SUGGESTIONS = 3;
 
 /** The markup of the rows (every value escaped). */
 export function rowsHtml(rows, rowSystem) {
@@ -20,11 +24,16 @@ export function rowsHtml(rows, rowSystem) {
       const sugg = x.suggestions
         .map(
           (sg, j) =>
-            `<li><button type="button" class="suggestion" data-row="${i}" data-sugg="${j}" tabindex="-1" ` +
+            `<li${j >= FIRST_SUGGESTIONS ? ' class="later" hidden' : ""}><button type="button" class="suggestion" data-row="${i}" data-sugg="${j}" tabindex="-1" ` +
             `aria-describedby="sg-${i}-${j}">${verb} <code>${esc(sg.code)}</code></button>` +
             `<span class="sugg-desc" id="sg-${i}-${j}">${esc(sg.description)}${sg.reason ? ` — ${esc(sg.reason)}` : ""}</span></li>`,
         )
         .join("");
+      const later = x.suggestions.length - FIRST_SUGGESTIONS;
+      const more =
+        later > 0
+          ? `<button type="button" class="sugg-more secondary" tabindex="-1" aria-expanded="false">${later} more suggestion${later === 1 ? "" : "s"}</button>`
+          : "";
       const lines = x.lines.length > 1 ? x.lines.join(", ") : String(x.line);
       const kind = explains(x.kind)
         ? `<a class="kind-link" href="#${kindId(x.kind)}" data-kind="${esc(x.kind)}" tabindex="-1">${esc(x.kind)}<span class="visually-hidden"> (what this means)</span></a>`
@@ -37,7 +46,7 @@ export function rowsHtml(rows, rowSystem) {
         `<td class="system" data-label="System">${esc(sys)}</td>` +
         `<td class="sev-cell" data-label="Severity"><span class="sev sev-${esc(x.severity)}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
         `<td class="what" data-label="Finding"><span class="kind">${kind}</span> <span class="message">${esc(pageWords(x.message))}</span></td>` +
-        `<td class="suggs" data-label="Suggestions">${sugg ? `<ul class="sugg-list">${sugg}</ul>` : '<span class="hint">none</span>'}</td></tr>`
+        `<td class="suggs" data-label="Suggestions">${sugg ? `<ul class="sugg-list">${sugg}</ul>${more}` : '<span class="hint">none</span>'}</td></tr>`
       );
     })
     .join("");
@@ -52,7 +61,7 @@ function activate(body, tr) {
   for (const r of rowsOf(body)) {
     const on = r === tr;
     r.tabIndex = on ? 0 : -1;
-    for (const b of r.querySelectorAll("button.suggestion, a.kind-link")) b.tabIndex = on ? 0 : -1;
+    for (const b of r.querySelectorAll("button.suggestion, button.sugg-more, a.kind-link")) b.tabIndex = on ? 0 : -1;
   }
 }
 
@@ -85,6 +94,18 @@ export function wireFindings(body, apply) {
       showKind(link.dataset.kind);
       return;
     }
+    const toggle = e.target.closest("button.sugg-more");
+    if (toggle) {
+      const open = toggle.getAttribute("aria-expanded") !== "true";
+      toggle.setAttribute("aria-expanded", String(open));
+      for (const li of toggle.closest("td").querySelectorAll("li.later")) li.hidden = !open;
+      const n = toggle.closest("td").querySelectorAll("li.later").length;
+      toggle.textContent = open ? "fewer suggestions" : `${n} more suggestion${n === 1 ? "" : "s"}`;
+      // The first of the suggestions just shown takes the focus.
+      const shown = toggle.closest("td").querySelector("li.later button");
+      if (open && shown) shown.focus();
+      return;
+    }
     const b = e.target.closest("button.suggestion");
     if (b) apply(Number(b.dataset.row), Number(b.dataset.sugg));
   });
@@ -98,7 +119,8 @@ export function wireFindings(body, apply) {
     const rows = rowsOf(body);
     const i = rows.indexOf(tr);
     const onRow = e.target === tr;
-    const buttons = [...tr.querySelectorAll("button.suggestion")];
+    // The suggestions shown, and the button that shows the rest.
+    const buttons = [...tr.querySelectorAll("button.suggestion, button.sugg-more")].filter((b) => !b.closest("[hidden]"));
     const at = buttons.indexOf(e.target);
     let next = -1;
     switch (e.key) {
@@ -136,13 +158,13 @@ export function wireFindings(body, apply) {
         }
         return;
       case "Enter":
-        if (onRow && buttons.length) {
+        if (onRow && tr.querySelector("button.suggestion")) {
           e.preventDefault();
           apply(Number(tr.dataset.row), 0);
         }
         return;
       default:
-        if (onRow && /^[1-9]$/.test(e.key) && Number(e.key) <= buttons.length) {
+        if (onRow && /^[1-9]$/.test(e.key) && tr.querySelector(`button.suggestion[data-sugg="${Number(e.key) - 1}"]`)) {
           e.preventDefault();
           apply(Number(tr.dataset.row), Number(e.key) - 1);
         }
