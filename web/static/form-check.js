@@ -380,17 +380,17 @@ function guard(form) {
       Promise.all(lists.map((l) => (l.fresh() || l.problem ? null : l.ready.then(() => (l.fresh() ? null : l.check())))))
         .then(() => Promise.all(lists.map((l) => (l.problem ? false : l.applyReadings()))))
         .then(() => {
-        if (lists.map((l) => l.holds()).some(Boolean)) return;
-        // requestSubmit dispatches the submit event at once, or none when the
-        // form's own validation fails; either way the flag is over after it.
-        releasing = true;
-        try {
-          if (submitter) form.requestSubmit(submitter);
-          else form.requestSubmit();
-        } finally {
-          releasing = false;
-        }
-      });
+          if (lists.map((l) => l.holds()).some(Boolean)) return;
+          // requestSubmit dispatches the submit event at once, or none when the
+          // form's own validation fails; either way the flag is over after it.
+          releasing = true;
+          try {
+            if (submitter) form.requestSubmit(submitter);
+            else form.requestSubmit();
+          } finally {
+            releasing = false;
+          }
+        });
       return;
     }
     if (lists.map((l) => l.holds()).some(Boolean)) event.preventDefault();
