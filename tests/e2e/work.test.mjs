@@ -209,12 +209,15 @@ test("axe-core finds no violation on the page after a check, a search and a comp
   await done(page);
 });
 
-test("axe-core finds no violation on the example form and on the single-file page", async () => {
+test("axe-core finds no violation on the example form, the API example and the single-file page", async () => {
   const ctx = await browser.newContext({ viewport: { width: 1100, height: 900 } });
   const page = await ctx.newPage();
   await page.goto(`${origin}/form-example.html`);
   await page.waitForFunction(() => document.getElementById("codes").dataset.rollcallState === "checked", null, { timeout: 30_000 });
   assert.deepEqual(await axeViolations(page), [], "the example form with its panel");
+  await page.goto(`${origin}/api-example.html`);
+  await page.waitForFunction(() => /\d/.test(document.getElementById("api-status").textContent), null, { timeout: 30_000 });
+  assert.deepEqual(await axeViolations(page), [], "the API example with its report");
   await ctx.close();
 
   assert.ok(fs.existsSync(SINGLE), `no single-file page at ${SINGLE}`);
