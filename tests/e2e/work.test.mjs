@@ -327,6 +327,18 @@ test("compare follows changes to either list, and the link keeps list B", async 
   await done(again);
 });
 
+test("the glossary explains every kind of finding the report can hold", async () => {
+  // The kinds' stable names, as src/report.rs (Kind::name) writes them.
+  const source = fs.readFileSync(path.join(ROOT, "src/report.rs"), "utf8");
+  const body = source.slice(source.indexOf("pub fn name(self) -> &'static str {", source.indexOf("impl Kind")));
+  const kinds = [...body.slice(0, body.indexOf("\n    }\n")).matchAll(/Kind::\w+ => "([a-z-]+)"/g)].map((m) => m[1]);
+  assert.ok(kinds.length >= 18, `${kinds.length} kinds read from src/report.rs`);
+  const page = await openPage();
+  const ids = await page.$$eval("#glossary-list dt", (dts) => dts.map((d) => d.id.replace(/^kind-/, "")));
+  assert.deepEqual([...ids].sort(), [...kinds].sort());
+  await done(page);
+});
+
 test("no page asked for a file that is not there (favicon included)", () => {
   assert.deepEqual(failed, []);
 });
