@@ -16,9 +16,11 @@
 //! - [`compare`] checks two lists and compares the billable codes they reach.
 //! - [`export`] writes a checked list on: the cleaned list, a FHIR ValueSet,
 //!   and every billable code it reaches (CSV, SQL, R, Python).
+//! - [`card`] gathers what is known of one code (timeline, place in the
+//!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
-//!   matching).
+//!   matching); [`find`] puts a code or code start before the words.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -26,11 +28,13 @@
 
 #![deny(missing_docs)]
 
+pub mod card;
 pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
 pub mod export;
+pub mod find;
 pub mod index;
 pub mod label;
 pub mod list;

@@ -1,7 +1,7 @@
 // The page: loads the index into the worker, checks the list as you type,
 // shows findings, pictures and exports. Plain DOM, no framework.
 
-import { fileToLines } from "./inputs.js";
+import { fileText, isWorkbook } from "./inputs.js";
 import { cleanedRows, toJsonReport, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
@@ -14,6 +14,7 @@ import { renderGlossary } from "./glossary.js";
 import { EditHistory } from "./undo.js";
 import { renderChanges } from "./changes.js";
 import { pageWords, titleOf, creditOf } from "./wording.js";
+import { initCard } from "./card.js";
 
 const $ = (id) => document.getElementById(id);
 const ROW_PAGE = 500;
@@ -50,6 +51,7 @@ const state = {
   original: null, // the list as pasted (read from a file, a link, the demo), for the changes view
   pageText: null, // what the page last wrote into the list (its undo keys apply while the list still holds it)
   focusAfter: null, // after a fix: {index, key} of the finding to focus once the check is shown
+  workbook: null, // { name, bytes } while a dropped workbook is the list
 };
 const edits = new EditHistory();
 
@@ -275,7 +277,11 @@ async function runCheck() {
   document.body.dataset.checking = "true";
   $("check-status").textContent = "Checking…";
   try {
-    const result = await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
+    // A dropped workbook is checked from its bytes, as the command line
+    // reads it; the list area shows its rows until it is edited.
+    const result = state.workbook
+      ? await ask("checkBytes", { bytes: state.workbook.bytes.slice().buffer, options: checkerOptions(opts) })
+      : await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
     if (seq !== state.seq) return; // a newer check is on its way
     $("options-error").hidden = true;
     state.report = result.report;
@@ -692,11 +698,17 @@ async function takeFile(file) {
   const msg = $("file-message");
   try {
     if (file.size > 50 * 1024 * 1024) throw new Error(`“${file.name}” is larger than 50 MB`);
-    const { text, note } = fileToLines(file.name, await file.text());
+    const bytes = new Uint8Array(await file.arrayBuffer());
+    if (isWorkbook(file.name, bytes)) {
+      await takeWorkbook(file.name, bytes);
+      return;
+    }
+    const text = fileText(file.name, bytes);
     setList(text, `Read ${file.name}.`);
     state.original = text;
     msg.className = "file-message";
-    msg.textContent = note;
+    const lines = text === "" ? 0 : text.replace(/\r\n?/g, "\n").replace(/\n$/, "").split("\n").length;
+    msg.textContent = `Read ${lines} line${lines === 1 ? "" : "s"} from “${file.name}”; the checker finds the codes in it.`;
     runCheck();
   } catch (e) {
     msg.className = "file-message problem";
@@ -704,10 +716,40 @@ async function takeFile(file) {
   }
 }
 
+/** A dropped workbook: checked from its bytes; its rows shown in the list. */
+async function takeWorkbook(name, bytes) {
+  state.workbook = { name, bytes };
+  await runCheck();
+  const r = state.report;
+  if (!r || !state.workbook) return;
+  // The rows as read, sheet by sheet, for reading and for editing as text.
+  const out = [];
+  let sheet = null;
+  let last = 0;
+  for (const e of r.entries) {
+    if (e.line === last) continue;
+    last = e.line;
+    if (e.sheet && e.sheet !== sheet) {
+      sheet = e.sheet;
+      out.push(`# sheet ${sheet}`);
+    }
+    out.push(e.input);
+  }
+  $("list").value = out.join("\n");
+  const sheets = (r.reading && r.reading.sheets) || [];
+  const named = sheets.map((x) => `“${x.name}” (${x.codes ? `${x.codes} code${x.codes === 1 ? "" : "s"}` : "no codes"})`).join(", ");
+  const msg = $("file-message");
+  msg.className = "file-message";
+  msg.textContent = `Read the workbook “${name}” as the command line reads it: sheets ${named}. The list shows its rows; editing it goes on with the rows as text.`;
+}
+
 // ---------------------------------------------------------------- wiring --
 
 function wire() {
-  $("list").addEventListener("input", scheduleCheck);
+  $("list").addEventListener("input", () => {
+    state.workbook = null;
+    scheduleCheck();
+  });
   for (const id of ["opt-on", "opt-from", "opt-to", "opt-billable"]) $(id).addEventListener("change", scheduleCheck);
   for (const id of ["when-on", "when-period"])
     $(id).addEventListener("change", () => {
@@ -831,11 +873,26 @@ async function loadDemo() {
   }
 }
 
+/** The code card adds the codes checked in it as new last lines. */
+function addCodes(codes) {
+  const text = $("list").value.replace(/\n$/, "");
+  const after = text === "" ? 0 : text.split("\n").length;
+  const edits = codes.map(({ code, label }) => ({ op: "add", after, code, label }));
+  return applyEdits(edits, `Added ${codes.map((c) => c.code).join(", ")}.`);
+}
+
 async function main() {
   document.body.dataset.state = "loading";
   wire();
   initSearch({ ask, addToList: addFromSearch });
   renderGlossary($("glossary-list"));
+  initCard({
+    ask,
+    options: () => checkerOptions(readOptions()),
+    coverage: () => ({ from: state.info.coverage_from, to: state.info.coverage_to }),
+    addCodes,
+    replaceLine: (line, code) => applyEdits([{ op: "replace", line, code }], `Line ${line} is now ${code}.`),
+  });
   syncModeFields();
   syncUndo();
   const restored = restoreLink();

@@ -37,6 +37,29 @@ export interface CheckOptionsInput {
    * for the rows with no system cell, as the CLI's `--system NAME`.
    */
   system?: string;
+  /** How to read the list: "auto" (guess; default), "lines", "table", "text", "json", "workbook" (the CLI's `--read`). */
+  reading?: string;
+}
+
+/** How a list was read (the report's `reading`; absent for plain lines or a table read without being told to). */
+export interface ReadFacts {
+  as: "lines" | "table" | "text" | "json" | "workbook";
+  /** plain lines, csv, tsv, markdown, prose, sql, r, code literals, json, fhir valueset, fhir bundle, workbook... */
+  form: string;
+  forced: boolean;
+  codes: number;
+  lines_with_codes: number;
+  lines: number;
+  sheets?: { name: string; rows: number; codes: number }[];
+  notes?: string[];
+}
+
+/** A code the reader found in the text, with UTF-16 offsets (as a textarea's selection counts). */
+export interface DraftToken {
+  line: number;
+  start: number;
+  end: number;
+  code: string;
 }
 
 export type Severity = "error" | "warning" | "info";
@@ -62,6 +85,11 @@ export interface Entry {
   system: string | null;
   label: string | null;
   description: string | null;
+  /** 1-based column of the code, when it was found inside a longer line of a draft. */
+  column?: number;
+  /** Workbook sheet and row the entry was read from. */
+  sheet?: string;
+  row?: number;
   status: string;
   findings: Finding[];
 }
@@ -78,6 +106,8 @@ export interface ListFinding {
 /** The check report: the same schema as the CLI's `--format json`. */
 export interface Report {
   vocabulary: string;
+  /** How the list was read; absent for plain lines or a table read without being told to. */
+  reading?: ReadFacts;
   index: {
     release: string;
     coverage_from: string;
@@ -131,12 +161,74 @@ export interface CategoryCoverage {
 
 /** A change to the list; line numbers are those of the list as it is. */
 export type Edit =
-  | { op: "replace"; line: number; code: string }
+  | { op: "replace"; line: number; code: string; column?: number }
   | { op: "remove"; line: number }
   | { op: "add"; after: number; code: string; label?: string | null };
 
 /** Spans per code; `null` for a code the index does not know. */
 export type Timelines = Record<string, Span[] | null>;
+
+/** A code on a day, with its count of billable codes under it (HPO: terms in use). */
+export interface CardChild {
+  code: string;
+  description: string;
+  status: "billable" | "header" | "not-in-use" | "in-use" | "obsolete";
+  billable_under: number;
+}
+
+/** One span of a card's timeline, and what began it. */
+export interface CardSegment {
+  from: string;
+  to: string;
+  state: "billable" | "header" | "absent" | "in-use" | "obsolete";
+  reason: "first-release" | "in-release" | "not-yet-added" | "added" | "subdivided" | "merged" | "retired" | "obsolete";
+  /** The children that took over, or a retired code's successors. */
+  codes: string[];
+}
+
+/** A tabular-list note that holds for the code. */
+export interface CardNote {
+  kind: "includes" | "inclusion-term" | "excludes1" | "excludes2" | "code-first" | "use-additional-code" | "code-also" | "note" | "seventh-character";
+  text: string;
+  /** Codes of the index the note names (dotted; both ends of a range). */
+  codes: string[];
+  level: "code" | "section" | "chapter";
+  /** The code, section range or chapter number that states it. */
+  at: string;
+}
+
+/** Everything known about one code: a card of the CLI's `show --format json`. */
+export interface Card {
+  code: string;
+  system: string;
+  description: string;
+  status: string;
+  /** For text that is no code: what a check says, with its suggestions. */
+  problem?: { message: string; suggestions: Suggestion[] };
+  timeline: CardSegment[];
+  chapter: { code: string; title: string } | null;
+  section: { code: string; title: string } | null;
+  /** From the category down to the parent, in force on the day. */
+  ancestors: { code: string; description: string }[];
+  parents: { code: string; description: string }[];
+  children: CardChild[];
+  siblings: CardChild[];
+  notes: CardNote[];
+  seventh_character?: { at: string; extensions: [string, string][] };
+  successors: { code: string; description: string; effective: string | null }[];
+  predecessors: { code: string; description: string; effective: string | null }[];
+  consider?: { code: string; description: string }[];
+  alternate_ids?: string[];
+  mappings: {
+    mapping: string;
+    title: string;
+    role: "source" | "target";
+    code: string;
+    system: string;
+    description: string;
+    flags: { approximate: boolean; no_map: boolean; combination: boolean; scenario: number; choice_list: number };
+  }[];
+}
 
 /** One row of a list: a line as written, `{code, label}`, or `[code, label]`. */
 export type Row = string | { code: string; label?: string | null } | [string, (string | null)?];
@@ -175,9 +267,15 @@ export class Checker {
   /** Check a list; the report in the CLI's JSON schema. */
   check(list: List, options?: CheckOptionsInput): Promise<Report>;
   checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
-  /** The list with edits applied, every other character kept. */
-  edit(text: string, edits: Edit[]): Promise<string>;
+  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods) or text in any form. */
+  checkFile(file: Blob | ArrayBuffer | Uint8Array, options?: CheckOptionsInput): Promise<CheckResult>;
+  /** How the core reads the list, and where each code sits in the text. */
+  read(list: List, reading?: string): Promise<{ reading: ReadFacts; tokens: DraftToken[] }>;
+  /** The list with edits applied, every other character kept (a code in a draft is replaced where it stands). */
+  edit(text: string, edits: Edit[], reading?: string): Promise<string>;
   timelines(codes: Iterable<string>): Promise<Timelines>;
+  /** The card of a code, node or code start for the options' day or period. */
+  card(code: string, options?: CheckOptionsInput): Promise<Card>;
   /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
   digest(list: List): Promise<string>;
   /** A request by name to the worker (the protocol is described in worker.js). */
