@@ -1,11 +1,12 @@
 //! The label check: does the label written beside a code fit the code's
 //! official wording, and which codes does the label itself point to? Used
-//! for `label-mismatch` findings and for the label-driven suggestions of
-//! unknown and malformed codes. The thresholds are in the README.
+//! for `label-mismatch` and `label-unrecognised` findings and for the
+//! label-driven suggestions of unknown and malformed codes. A label is read
+//! through the synonym layer (`crate::synonyms`). The thresholds are in the README.
 
 use crate::index::View;
 use crate::model::Period;
-use crate::report::Suggestion;
+use crate::report::{Finding, Kind, Severity, Suggestion};
 use crate::search::{self, Fit, SearchOptions};
 
 /// A label with every word (this share, by rarity) in the code's wordings
@@ -77,18 +78,121 @@ pub fn reason(view: &View<'_>, f: &Fit, near: &str, o: u32) -> String {
     r
 }
 
-/// The label-mismatch message and suggestions, if the label does not fit
-/// the code at `ord`. A search for better codes takes one of `searches_left`.
-pub fn mismatch(
+/// What the label check found beside one code, as facts; [`Judgement::finding`]
+/// writes the sentence.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Judgement {
+    /// The label as written.
+    pub label: String,
+    /// The code, dotted.
+    pub code: String,
+    /// Its official description.
+    pub description: String,
+    /// How well the label fits the code (its best reading; 0 to 1).
+    pub fit: f32,
+    /// What rollcall concludes.
+    pub verdict: Verdict,
+    /// Codes the label fits well, best first.
+    pub suggestions: Vec<Suggestion>,
+}
+
+/// The conclusion of the label check on a label that does not plainly fit.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Verdict {
+    /// The label says one side of [`crate::synonyms::OPPOSITES`] and the
+    /// description the other (`label` as the label reads, `official` as the
+    /// description says).
+    Contradicts {
+        /// The label's word (`diastolic`).
+        label: &'static str,
+        /// The description's word (`systolic`).
+        official: &'static str,
+    },
+    /// Another code (dotted) fits the label clearly better.
+    FitsAnother(String),
+    /// No code fits the label well, or the label was not searched
+    /// (`searched` false): rollcall cannot say the label contradicts the code.
+    Unrecognised {
+        /// Whether codes for the label were searched.
+        searched: bool,
+    },
+}
+
+impl Judgement {
+    /// `label-mismatch` (a warning) when the label contradicts the code or
+    /// fits another clearly better; `label-unrecognised` (a note) when
+    /// rollcall does not understand the label.
+    pub fn kind(&self) -> Kind {
+        match self.verdict {
+            Verdict::Unrecognised { .. } => Kind::LabelUnrecognised,
+            _ => Kind::LabelMismatch,
+        }
+    }
+
+    /// The finding's severity (see [`kind`](Self::kind)).
+    pub fn severity(&self) -> Severity {
+        match self.verdict {
+            Verdict::Unrecognised { .. } => Severity::Info,
+            _ => Severity::Warning,
+        }
+    }
+
+    /// The sentence for people.
+    pub fn message(&self) -> String {
+        let (label, code, desc) = (&self.label, &self.code, &self.description);
+        let pct = (self.fit * 100.0).round();
+        match &self.verdict {
+            Verdict::Contradicts { label: l, official } => {
+                let mut m = format!(
+                    "the label \"{label}\" does not fit {code}, whose description is \"{desc}\": the label reads \"{l}\" where the description says \"{official}\""
+                );
+                if let Some(s) = self.suggestions.first() {
+                    m.push_str(&format!("; it fits {} better", s.code));
+                }
+                m
+            }
+            Verdict::FitsAnother(other) => format!(
+                "the label \"{label}\" does not fit {code}, whose description is \"{desc}\" ({pct}% of the label's words found in its wordings); it fits {other} better"
+            ),
+            Verdict::Unrecognised { searched: true } => format!(
+                "rollcall does not recognise the label \"{label}\" ({pct}% of its words found in the wordings of {code}, \"{desc}\", and no code fits it well), so it cannot say whether the label fits the code"
+            ),
+            Verdict::Unrecognised { searched: false } => format!(
+                "rollcall does not recognise the label \"{label}\" ({pct}% of its words found in the wordings of {code}, \"{desc}\"; codes for it were not searched, as only the first labels of a long list are), so it cannot say whether the label fits the code"
+            ),
+        }
+    }
+
+    /// The finding.
+    pub fn finding(self) -> Finding {
+        Finding::new(
+            self.kind(),
+            self.severity(),
+            self.message(),
+            self.suggestions,
+        )
+    }
+}
+
+/// The label check of `label` beside the code at `ord`: nothing when the
+/// label fits (one of its readings has every word in the code's wordings,
+/// or fits it as well as any other code), else what rollcall concludes. A
+/// search for better codes takes one of `searches_left`.
+pub fn judge(
     view: &View<'_>,
     label: &str,
     ord: u32,
     period: &Period,
     searches_left: &mut usize,
-) -> Option<(String, Vec<Suggestion>)> {
+) -> Option<Judgement> {
+    // No description (an ICD-10-PCS node above the body part): nothing to
+    // compare with.
+    let desc = view.description(ord);
+    if desc.trim().is_empty() {
+        return None;
+    }
     // The common cases first, without weighing words: the label is the
     // description, or every one of its words is in it.
-    let desc = view.description(ord);
     if label.trim().eq_ignore_ascii_case(desc.trim()) {
         return None;
     }
@@ -100,10 +204,11 @@ pub fn mismatch(
     if words.iter().all(|w| desc_words.contains(w)) {
         return None;
     }
-    let given = search::fit(view, label, ord);
+    let (given, reading) = search::best_fit(view, label, ord);
     if given.label >= FITS {
         return None;
     }
+    let contra = crate::synonyms::contradiction(&reading, &desc_words);
     let code = view.code(ord);
     let search = *searches_left > 0;
     *searches_left = searches_left.saturating_sub(1);
@@ -116,30 +221,24 @@ pub fn mismatch(
         Vec::new()
     };
     let best = better.first().map_or(0.0, |(_, f)| f.label);
-    if given.label >= POOR && best < given.label + BETTER_BY && best < FITS {
-        return None;
-    }
-    let shown = view.display(&code);
-    let mut msg = format!(
-        "the label \"{label}\" does not fit {shown}, whose description is \"{desc}\" ({}% of the label's words found in its wordings)",
-        (given.label * 100.0).round()
-    );
-    if better.is_empty() {
-        msg.push_str(if search {
-            "; no code fits the label well, so none is suggested"
-        } else {
-            "; codes for the label were not searched (only the first labels of a long list are)"
-        });
-    } else {
-        msg.push_str(&format!(
-            "; it fits {} better",
-            view.display(&view.code(better[0].0))
-        ));
-    }
-    let sugg = better
+    let clearly_better = !better.is_empty() && (best >= given.label + BETTER_BY || best >= FITS);
+    let verdict = match contra {
+        Some((l, official)) => Verdict::Contradicts { label: l, official },
+        None if clearly_better => Verdict::FitsAnother(view.display(&view.code(better[0].0))),
+        None if given.label < POOR => Verdict::Unrecognised { searched: search },
+        None => return None,
+    };
+    let suggestions = better
         .iter()
         .take(SUGGESTED)
         .map(|(o, f)| crate::check::suggestion(view, *o, reason(view, f, &code, *o)))
         .collect();
-    Some((msg, sugg))
+    Some(Judgement {
+        label: label.to_string(),
+        code: view.display(&code),
+        description: desc,
+        fit: given.label,
+        verdict,
+        suggestions,
+    })
 }

@@ -7,7 +7,7 @@
 use crate::date::Date;
 use crate::index::View;
 use crate::model::Period;
-use crate::words;
+use crate::{synonyms, words};
 use fst::automaton::Str;
 use fst::{Automaton, IntoStreamer, Streamer};
 use serde::Serialize;
@@ -194,7 +194,33 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
 /// assert_eq!(view.code(hits[0].ord), "E1165");
 /// ```
 pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
-    let mut q = words::words(query);
+    let readings = synonyms::readings(&words::words(query));
+    let mut hits: Vec<Hit> = Vec::new();
+    let mut at: std::collections::HashMap<u32, usize> = std::collections::HashMap::new();
+    for q in readings.iter().take(SEARCHED_READINGS) {
+        for h in search_words(view, q, opts) {
+            match at.get(&h.ord) {
+                Some(&i) if hits[i].score >= h.score => {}
+                Some(&i) => hits[i] = h,
+                None => {
+                    at.insert(h.ord, hits.len());
+                    hits.push(h);
+                }
+            }
+        }
+    }
+    hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
+    hits.truncate(opts.limit.max(1));
+    hits
+}
+
+/// Readings of a query searched (its own words and the three with most
+/// replaced): each costs a search.
+const SEARCHED_READINGS: usize = 4;
+
+/// The codes that best fit the normalised words `q` (one reading).
+fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit> {
+    let mut q = q.to_vec();
     let mut seen = std::collections::HashSet::new();
     q.retain(|w| seen.insert(w.clone()));
     if q.is_empty() || view.is_empty() {
@@ -267,7 +293,22 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
             .total_cmp(&score[*a as usize])
             .then(a.cmp(b))
     });
-    any.truncate(RERANK);
+    // A short query also re-ranks the codes of few words beyond the
+    // strongest: the category's general code for it ("Pneumonia,
+    // unspecified organism") is among them, however many rare codes
+    // ("Gonococcal pneumonia") are shorter still.
+    if q.len() <= SHORT_QUERY && any.len() > RERANK {
+        let few: Vec<u32> = any[RERANK..]
+            .iter()
+            .copied()
+            .filter(|&o| view.word_count(o) as usize <= q.len() + 3)
+            .take(RERANK)
+            .collect();
+        any.truncate(RERANK);
+        any.extend(few);
+    } else {
+        any.truncate(RERANK);
+    }
     let total: f32 = weights.iter().sum();
     let mut idf_cache = std::collections::HashMap::new();
     let mut hits: Vec<Hit> = any
@@ -288,6 +329,9 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
                 .max(((cover[o as usize] + common_found) / total).min(1.0));
             let mut s = score[o as usize] / total.max(1e-6);
             s += 0.6 * f.label + 0.5 * f.description + 0.2 * phrase(&q, &desc);
+            if f.label >= 0.99 && general(&q, &desc) {
+                s += GENERAL_BONUS;
+            }
             if let Some(p) = &opts.period {
                 if view.billable_in(o, p) {
                     s += 0.1;
@@ -306,6 +350,34 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
     hits.truncate(opts.limit.max(1));
     hits
+}
+
+/// Words that leave a description as general as the query it fits
+/// ("Pneumonia, unspecified organism" for `pneumonia`; "Type 2 diabetes
+/// mellitus without complications" for `type 2 diabetes mellitus`): the
+/// ICD-10-CM wording of a category's residual code (common practice).
+const GENERAL_WORDS: &[&str] = &[
+    "complication",
+    "nos",
+    "organism",
+    "site",
+    "uncomplicated",
+    "unspecified",
+    "without",
+];
+
+/// Queries of at most this many words prefer the general code.
+const SHORT_QUERY: usize = 2;
+
+/// Score added to a code whose description is the query's words and
+/// [`GENERAL_WORDS`] alone: a short query ranks the common code above the
+/// rare specific ones, unless its other words point to them.
+const GENERAL_BONUS: f32 = 0.3;
+
+/// Whether every word of `desc` is a query word or one of [`GENERAL_WORDS`].
+fn general(q: &[String], desc: &[String]) -> bool {
+    desc.iter()
+        .all(|d| GENERAL_WORDS.contains(&d.as_str()) || q.iter().any(|w| same_word(w, d) > 0.0))
 }
 
 /// Characters two codes share at the start.
@@ -382,9 +454,28 @@ fn in_posting(view: &View<'_>, w: &str, ord: u32) -> bool {
 
 /// How well `label` fits the code at `ord`: its words against the official
 /// description and, for the label's share, the code's other official
-/// wordings too (inclusion terms, older descriptions).
+/// wordings too (inclusion terms, older descriptions); the best of the
+/// label's readings ([`synonyms::readings`]).
 pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
-    let mut q = words::words(label);
+    best_fit(view, label, ord).0
+}
+
+/// [`fit`], with the reading that fits best (the label's own words when
+/// none fits better).
+pub fn best_fit(view: &View<'_>, label: &str, ord: u32) -> (Fit, Vec<String>) {
+    let desc = words::words(&view.description(ord));
+    let mut best: Option<(Fit, Vec<String>)> = None;
+    for r in synonyms::readings(&words::words(label)) {
+        let f = fit_reading(view, &r, &desc, ord);
+        if best.as_ref().is_none_or(|(b, _)| f.label > b.label) {
+            best = Some((f, r));
+        }
+    }
+    best.unwrap_or_default()
+}
+
+fn fit_reading(view: &View<'_>, reading: &[String], desc: &[String], ord: u32) -> Fit {
+    let mut q = reading.to_vec();
     let mut seen = std::collections::HashSet::new();
     q.retain(|w| seen.insert(w.clone()));
     let n = view.len() as u32;
@@ -392,16 +483,7 @@ pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
         .iter()
         .map(|w| idf(n, view.word_codes(w).max(1)))
         .collect();
-    let desc = words::words(&view.description(ord));
-    fit_words(
-        view,
-        &q,
-        &weights,
-        &desc,
-        ord,
-        true,
-        &mut Default::default(),
-    )
+    fit_words(view, &q, &weights, desc, ord, true, &mut Default::default())
 }
 
 /// A code found by [`find`], ready to show (its JSON form is part of the
