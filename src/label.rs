@@ -65,6 +65,14 @@ pub fn candidates(
     c.into_iter().map(|(o, f, _)| (o, f)).collect()
 }
 
+/// Whether the code at `o` is for "other" forms and the label does not
+/// say so: a label naming a condition plainly does not name its "Other ..."
+/// code (those are the specified forms classified nowhere else).
+fn names_other(view: &View<'_>, o: u32, reading: &[String]) -> bool {
+    let other = "other".to_string();
+    !reading.contains(&other) && crate::words::words(&view.description(o)).contains(&other)
+}
+
 /// Why a code is suggested for a label, in words.
 pub fn reason(view: &View<'_>, f: &Fit, near: &str, o: u32) -> String {
     let mut r = format!(
@@ -208,6 +216,21 @@ pub fn judge(
     if given.label >= FITS {
         return None;
     }
+    // A header's wordings speak for the codes under it (the tabular list
+    // gives an inclusion term such as "Hyperthyroidism NOS" at E05.9, whose
+    // codes E05.90 and E05.91 tell a crisis apart): a label that fits an
+    // ancestor fits the code.
+    // The label's words the code's own description has (a 7th character's
+    // "initial encounter") need not be in the ancestor's.
+    let rest: Vec<&str> = words
+        .iter()
+        .filter(|w| !desc_words.contains(w))
+        .map(String::as_str)
+        .collect();
+    let rest = rest.join(" ");
+    let via_ancestor = view
+        .ancestors(ord)
+        .any(|a| search::fit(view, &rest, a).label >= FITS);
     let contra = crate::synonyms::contradiction(&reading, &desc_words);
     let code = view.code(ord);
     let search = *searches_left > 0;
@@ -215,16 +238,35 @@ pub fn judge(
     let better: Vec<(u32, Fit)> = if search {
         candidates(view, label, &code, period, &[])
             .into_iter()
-            .filter(|(o, f)| *o != ord && f.label > given.label)
+            .filter(|(o, f)| {
+                *o != ord && f.label > given.label && !view.ancestors(ord).any(|a| a == *o)
+            })
             .collect()
     } else {
         Vec::new()
     };
+    let better: Vec<(u32, Fit)> = if via_ancestor {
+        // The label fits through an ancestor: only a code the label names
+        // outright (every word, and most of its description) is better.
+        better
+            .into_iter()
+            .filter(|(o, f)| {
+                f.label >= FITS
+                    && f.description >= CONFIDENT
+                    && f.description > given.description
+                    && !names_other(view, *o, &reading)
+            })
+            .collect()
+    } else {
+        better
+    };
     let best = better.first().map_or(0.0, |(_, f)| f.label);
-    let clearly_better = !better.is_empty() && (best >= given.label + BETTER_BY || best >= FITS);
+    let clearly_better =
+        !better.is_empty() && (via_ancestor || best >= given.label + BETTER_BY || best >= FITS);
     let verdict = match contra {
         Some((l, official)) => Verdict::Contradicts { label: l, official },
         None if clearly_better => Verdict::FitsAnother(view.display(&view.code(better[0].0))),
+        None if via_ancestor => return None,
         None if given.label < POOR => Verdict::Unrecognised { searched: search },
         None => return None,
     };

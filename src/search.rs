@@ -197,7 +197,14 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
     let readings = synonyms::readings(&words::words(query));
     let mut hits: Vec<Hit> = Vec::new();
     let mut at: std::collections::HashMap<u32, usize> = std::collections::HashMap::new();
-    for q in readings.iter().take(SEARCHED_READINGS) {
+    // A long query is mostly official words already: its own reading alone
+    // keeps its search within the time of one.
+    let searched = if readings[0].len() > LONG_QUERY {
+        1
+    } else {
+        SEARCHED_READINGS
+    };
+    for q in readings.iter().take(searched) {
         for h in search_words(view, q, opts) {
             match at.get(&h.ord) {
                 Some(&i) if hits[i].score >= h.score => {}
@@ -217,6 +224,9 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
 /// Readings of a query searched (its own words and the three with most
 /// replaced): each costs a search.
 const SEARCHED_READINGS: usize = 4;
+
+/// A query of more words than this is searched in its own words only.
+const LONG_QUERY: usize = 8;
 
 /// The codes that best fit the normalised words `q` (one reading).
 fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit> {
@@ -332,6 +342,9 @@ fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit>
             if f.label >= 0.99 && general(&q, &desc) {
                 s += GENERAL_BONUS;
             }
+            if first_encounter(&q, &desc) {
+                s += INITIAL_BONUS;
+            }
             if let Some(p) = &opts.period {
                 if view.billable_in(o, p) {
                     s += 0.1;
@@ -357,9 +370,13 @@ fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit>
 /// mellitus without complications" for `type 2 diabetes mellitus`): the
 /// ICD-10-CM wording of a category's residual code (common practice).
 const GENERAL_WORDS: &[&str] = &[
+    "achieved",
     "complication",
+    "having",
     "nos",
+    "not",
     "organism",
+    "remission",
     "site",
     "uncomplicated",
     "unspecified",
@@ -378,6 +395,23 @@ const GENERAL_BONUS: f32 = 0.3;
 fn general(q: &[String], desc: &[String]) -> bool {
     desc.iter()
         .all(|d| GENERAL_WORDS.contains(&d.as_str()) || q.iter().any(|w| same_word(w, d) > 0.0))
+}
+
+/// Score added to an injury code for the initial encounter when the query
+/// names no encounter: of the 7th characters A, D and S the initial encounter
+/// is the one a search for the injury means first (common practice).
+const INITIAL_BONUS: f32 = 0.1;
+
+/// Whether `desc` is an initial encounter and `q` names no encounter.
+fn first_encounter(q: &[String], desc: &[String]) -> bool {
+    desc.windows(2)
+        .any(|w| w[0] == "initial" && w[1] == "encounter")
+        && !q.iter().any(|w| {
+            matches!(
+                w.as_str(),
+                "initial" | "subsequent" | "sequela" | "encounter"
+            )
+        })
 }
 
 /// Characters two codes share at the start.
