@@ -136,6 +136,17 @@ pub fn readings(words: &[String]) -> Vec<Vec<String>> {
     }
     let mut cur = Vec::new();
     walk(t, words, 0, &mut cur, &mut out);
+    // A reading that says both sides of a pair the text does not (the
+    // default "type 2" of `diabetes` beside a written "type 1") is no
+    // reading of it.
+    let both = |w: &[String]| {
+        OPPOSITES
+            .iter()
+            .filter(|(a, b)| has(w, a) && has(w, b))
+            .count()
+    };
+    let own = both(words);
+    out.retain(|r| both(r) <= own);
     out
 }
 
