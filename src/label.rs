@@ -26,7 +26,9 @@ pub const SUGGESTED: usize = 5;
 
 /// Codes the label fits well, best first: by fit (in steps of a tenth),
 /// then nearness to `near` in the hierarchy (characters shared at the
-/// start), then search rank. `extra` are codes to consider besides the
+/// start), then fewest words the label does not mean
+/// ([`crate::synonyms::unsaid`]), then the share of the description the
+/// label has (in tenths), then search rank. `extra` are codes to consider besides the
 /// search's (the near codes of a mistyped one).
 pub fn candidates(
     view: &View<'_>,
@@ -53,16 +55,27 @@ pub fn candidates(
             c.push((o, f, rank));
         }
     }
-    let key = |(o, f, rank): &(u32, Fit, usize)| {
+    // A code that adds what a plain label does not mean (secondary, open,
+    // subsequent encounter) comes after those that do not: "lung cancer"
+    // is the primary malignant neoplasm first.
+    let said = crate::words::words(label);
+    let unsaid =
+        |o: u32| crate::synonyms::unsaid(&said, &crate::words::words(&view.description(o)));
+    let mut c: Vec<(u32, Fit, usize, usize)> = c
+        .into_iter()
+        .map(|(o, f, r)| (o, f, r, unsaid(o)))
+        .collect();
+    let key = |(o, f, rank, extra): &(u32, Fit, usize, usize)| {
         (
             std::cmp::Reverse((f.label * 10.0 + 1e-3).floor() as i32),
             std::cmp::Reverse(search::shared_start(near, &view.code(*o)).min(4)),
+            *extra,
             std::cmp::Reverse((f.description * 10.0 + 1e-3).floor() as i32),
             *rank,
         )
     };
     c.sort_by_key(key);
-    c.into_iter().map(|(o, f, _)| (o, f)).collect()
+    c.into_iter().map(|(o, f, _, _)| (o, f)).collect()
 }
 
 /// Whether the code at `o` is for "other" forms and the label does not

@@ -52,6 +52,33 @@ pub const OPPOSITES: &[(&str, &str)] = &[
     ("with", "without"),
 ];
 
+/// The side of a pair of [`OPPOSITES`] a text that says neither means, where
+/// the classification has such a default (first the default, then the
+/// other): a malignant neoplasm not stated as secondary is primary, a
+/// fracture not stated as open is closed and one not stated as displaced or
+/// not is displaced, diabetes of no stated type is type 2, an encounter not
+/// stated is the initial one, a depressive episode not stated as recurrent
+/// is single (ICD-10-CM conventions and Official Guidelines, from memory).
+pub const DEFAULTS: &[(&str, &str)] = &[
+    ("closed", "open"),
+    ("displaced", "nondisplaced"),
+    ("initial", "sequela"),
+    ("initial", "subsequent"),
+    ("primary", "secondary"),
+    ("single", "recurrent"),
+    ("type 2", "type 1"),
+];
+
+/// The words of `desc` that are the non-default side of a pair of
+/// [`DEFAULTS`] of which `label` says neither side: what a code adds that a
+/// plain label does not mean.
+pub fn unsaid(label: &[String], desc: &[String]) -> usize {
+    DEFAULTS
+        .iter()
+        .filter(|(d, other)| !has(label, d) && !has(label, other) && has(desc, other))
+        .count()
+}
+
 /// One row of a table: a phrase as written, the official words it is read
 /// as (both normalised), and where the pair comes from.
 #[derive(Clone, Debug, PartialEq, Eq)]
