@@ -6,7 +6,8 @@
 //! `EXACT`, both have at most four normalised words, the name's words stand
 //! side by side in at least one ICD-10-CM description, the synonym's do not
 //! (ICD-10-CM already reads those), and both have the same words of
-//! `synonyms::OPPOSITES` (left, chronic, malignant...). Sorted, one pair a line: synonym,
+//! `synonyms::OPPOSITES` (left, chronic, malignant...), but for an
+//! abbreviation in capitals, which stands for all of its name's words. Sorted, one pair a line: synonym,
 //! name, then the term's id as its source. The table is small enough to be
 //! compiled into the core (`src/synonyms.rs`); `tests/synonyms.rs` rebuilds it
 //! from the same files and compares. Run from the repository root:
@@ -48,8 +49,13 @@ pub fn derive(obo: &str, icd10cm: &View<'_>) -> String {
                 continue;
             }
             // A synonym that adds or drops a word such as left, chronic or
-            // malignant says something else than the name.
-            if synonyms::opposite_words(&sw) != synonyms::opposite_words(&nw) {
+            // malignant says something else than the name; an abbreviation
+            // (one word in capitals: ARDS) stands for all of its name's words.
+            let abbreviation = sw.len() == 1
+                && s.chars()
+                    .all(|c| c.is_ascii_uppercase() || c.is_ascii_digit())
+                && synonyms::opposite_words(&sw).is_empty();
+            if !abbreviation && synonyms::opposite_words(&sw) != synonyms::opposite_words(&nw) {
                 continue;
             }
             let clean = |t: &str| t.replace(['\t', '\n'], " ");
