@@ -232,9 +232,8 @@ pub fn judge(
     // A header's wordings speak for the codes under it (the tabular list
     // gives an inclusion term such as "Hyperthyroidism NOS" at E05.9, whose
     // codes E05.90 and E05.91 tell a crisis apart): a label that fits an
-    // ancestor fits the code.
-    // The label's words the code's own description has (a 7th character's
-    // "initial encounter") need not be in the ancestor's.
+    // ancestor fits the code. The label's words the code's own description
+    // has (a 7th character's "initial encounter") need not be in the ancestor's.
     let rest: Vec<&str> = words
         .iter()
         .filter(|w| !desc_words.contains(w))
