@@ -167,3 +167,30 @@ fn a_single_word_finds_the_general_code_first() {
     assert_eq!(first("gonococcal pneumonia").as_deref(), Some("A54.84"));
     assert_eq!(first("asthma").as_deref(), Some("J45")); // the category, then J45.909
 }
+
+/// Source: the CMS ICD-10-PCS code file FY2024 (vocab-build/sources):
+/// 0DTJ4ZZ "Resection of Appendix, Percutaneous Endoscopic Approach",
+/// 0DTJ0ZZ "Resection of Appendix, Open Approach". A clinical procedure name
+/// is read through the root operation and approach (appendectomy as
+/// Resection of Appendix, laparoscopic as Percutaneous Endoscopic); a node
+/// with no description (0DT, above the body part) gets no label check.
+#[test]
+fn procedure_names_are_read_through_root_operation_and_approach() {
+    let bytes = std::fs::read(root().join("vocab/icd10pcs.rcx")).expect("vocab/icd10pcs.rcx");
+    let pcs = rollcall::Index::open(bytes).expect("the ICD-10-PCS index opens");
+    let list = "0DTJ4ZZ\tlaparoscopic appendectomy\n0DTJ0ZZ\tlaparoscopic appendectomy\n0DT\tappendectomy\n";
+    let r = check(&pcs, list, &on("2025-01-01"));
+    let labels = |i: usize| -> Vec<&rollcall::Finding> {
+        r.entries[i]
+            .findings
+            .iter()
+            .filter(|f| matches!(f.kind, Kind::LabelMismatch | Kind::LabelUnrecognised))
+            .collect()
+    };
+    assert!(labels(0).is_empty(), "{:?}", labels(0));
+    let f = labels(1);
+    assert_eq!(f.len(), 1);
+    assert_eq!(f[0].kind, Kind::LabelMismatch);
+    assert_eq!(f[0].suggestions[0].code, "0DTJ4ZZ");
+    assert!(labels(2).is_empty(), "{:?}", labels(2));
+}
