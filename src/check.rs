@@ -5,7 +5,7 @@
 use crate::code::{self, Resolved};
 use crate::date::Date;
 use crate::index::{Index, View};
-use crate::input::{parse_list, LineKind};
+use crate::list::{Draft, LineKind, Reading};
 use crate::listcheck;
 use crate::model::{Period, Span, SpanKind};
 use crate::pattern::{self, Pattern};
@@ -402,16 +402,47 @@ struct Extras {
     reach: Vec<Reach>,
 }
 
+/// [`check_among_with_coverage`] of a list already read (see
+/// [`crate::list::read`]): one entry per [`crate::list::InputLine`], in order.
+pub fn check_draft<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    draft: &Draft,
+    options: &CheckOptions,
+) -> (Report, Vec<CategoryCoverage>) {
+    let want = Want {
+        coverage: true,
+        others,
+        ..Want::default()
+    };
+    let (report, extras) = run_draft(index, draft, options, want);
+    (report, extras.coverage)
+}
+
 fn run<D: AsRef<[u8]>>(
     index: &Index<D>,
     text: &str,
     options: &CheckOptions,
     want: Want<'_, '_>,
 ) -> (Report, Extras) {
+    run_draft(
+        index,
+        &crate::list::read(text, Reading::Auto),
+        options,
+        want,
+    )
+}
+
+fn run_draft<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    draft: &Draft,
+    options: &CheckOptions,
+    want: Want<'_, '_>,
+) -> (Report, Extras) {
     let view = index.view();
     let meta = index.meta();
     let period = options.period_for(meta);
-    let (_, lines) = parse_list(text);
+    let lines = &draft.lines;
 
     // Pass 1: what each line is.
     let items: Vec<Item> = lines
@@ -477,20 +508,7 @@ fn run<D: AsRef<[u8]>>(
     let mut memo = Memo::default();
     let mut entries = Vec::with_capacity(lines.len());
     for (l, item) in lines.iter().zip(items) {
-        let label = match &l.kind {
-            LineKind::Entry { label, .. } => label.clone(),
-            _ => None,
-        };
-        let mut e = Entry {
-            line: l.number,
-            input: l.text.clone(),
-            code: None,
-            system: None,
-            label,
-            description: None,
-            status: Status::Malformed,
-            findings: Vec::new(),
-        };
+        let mut e = Entry::of(l);
         judge(
             &view,
             options,
@@ -519,9 +537,10 @@ fn run<D: AsRef<[u8]>>(
         extras.coverage = coverage_of(&view, &period, &ctx.reached);
     }
 
-    let summary = Summary::of(lines.len(), &entries, &list_findings);
+    let summary = Summary::of(draft.line_count(), &entries, &list_findings);
     let report = Report {
         vocabulary: meta.vocabulary.clone(),
+        reading: draft.facts.clone(),
         index: IndexInfo {
             release: meta.release.clone(),
             coverage_from: meta.coverage_from,
@@ -545,6 +564,7 @@ fn resolve_line(view: &View<'_>, kind: &LineKind, period: &Period) -> Item {
         LineKind::Blank => Item::Skip(Status::Blank),
         LineKind::Comment => Item::Skip(Status::Comment),
         LineKind::Headings => Item::Skip(Status::ColumnHeadings),
+        LineKind::Text => Item::Skip(Status::Text),
         LineKind::Unreadable(m) => Item::Unreadable(m.clone()),
         // A range (`E08-E13`) runs in code order, which only a prefix
         // hierarchy gives meaning to: in a stated one (LOINC `2345-7`, an

@@ -7,7 +7,9 @@
 //!   large tables stay in the caller's bytes) and [`View`] answers lookups:
 //!   code to ordinal through an `fst` map, then side tables by ordinal
 //!   (billable and header spans, parent and subtree, successors, descriptions).
-//! - [`parse_list`] reads plain lines, CSV or TSV into entries, keeping every line.
+//! - [`list::read`] reads any list or draft (plain lines, CSV/TSV, markdown,
+//!   prose, code literals, JSON and FHIR resources, workbooks) into entries,
+//!   keeping every line; several codes on one line are each an entry.
 //! - [`check`] runs the per-entry and whole-list checks for a study period.
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
@@ -29,8 +31,8 @@ pub mod code;
 pub mod compare;
 pub mod date;
 pub mod index;
-pub mod input;
 pub mod label;
+pub mod list;
 pub mod listcheck;
 pub mod mixed;
 pub mod model;
@@ -52,7 +54,7 @@ pub use check::{
 pub use compare::{compare, Comparison};
 pub use date::{Date, DateError};
 pub use index::{Index, IndexError, View};
-pub use input::{parse_list, InputLine, LineKind};
+pub use list::{parse_list, read, Draft, InputLine, LineKind, Reading};
 pub use report::{
     Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary, SystemPart,
 };

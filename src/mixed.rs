@@ -3,14 +3,16 @@
 //! index, by shape when rollcall ships no content for it), the rows with an
 //! empty cell as before, and the reports are merged line by line.
 //!
-//! Each sub-check sees the whole text with the other rows blanked, so line
-//! numbers, the column layout and the column headings stay those of the list.
+//! The list is read once; each sub-check sees the whole list with the other
+//! rows blanked, so line numbers and column headings stay those of the list.
+//! A system can be named by a column, by a JSON coding's `system`, by a
+//! draft's heading, or by a code's shape in a draft (see [`crate::list`]).
 
-use crate::check::{check_among, check_among_with_coverage, CategoryCoverage, CheckOptions};
+use crate::check::{check_draft, CategoryCoverage, CheckOptions};
 use crate::index::{Index, View};
-use crate::input::{parse_list, InputLine, LineKind};
+use crate::list::{Draft, InputLine, LineKind};
 use crate::report::*;
-use crate::shapecheck::check_shapes;
+use crate::shapecheck::check_shapes_draft;
 use crate::systems::System;
 
 /// What the rows with no system cell are checked against.
@@ -33,8 +35,13 @@ impl<D: AsRef<[u8]>> Primary<'_, D> {
 /// The systems the list's system column names (valid names only, in the
 /// order of [`crate::systems::ALL`]): which indexes a caller should load.
 pub fn systems_named(text: &str) -> Vec<System> {
-    let (_, lines) = parse_list(text);
-    let mut out: Vec<System> = lines
+    systems_named_in(&crate::list::read(text, crate::list::Reading::Auto))
+}
+
+/// [`systems_named`] of a list already read.
+pub fn systems_named_in(draft: &Draft) -> Vec<System> {
+    let mut out: Vec<System> = draft
+        .lines
         .iter()
         .filter_map(|l| match &l.kind {
             LineKind::Entry {
@@ -73,7 +80,23 @@ pub fn check_listed<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<CategoryCoverage>) {
-    let (_, lines) = parse_list(text);
+    check_listed_draft(
+        primary,
+        others,
+        &crate::list::read(text, crate::list::Reading::Auto),
+        options,
+    )
+}
+
+/// [`check_listed`] of a list already read (a workbook, or text read once
+/// by a caller that also needs its readings).
+pub fn check_listed_draft<D: AsRef<[u8]>>(
+    primary: Primary<'_, D>,
+    others: &[&Index<D>],
+    draft: &Draft,
+    options: &CheckOptions,
+) -> (Report, Vec<CategoryCoverage>) {
+    let lines = &draft.lines;
     let own = primary.system();
     let mut explicit = false;
     let groups: Vec<Group> = lines
@@ -110,17 +133,18 @@ pub fn check_listed<D: AsRef<[u8]>>(
     };
 
     // A list with no system cell is checked as it is.
-    let primary_text: std::borrow::Cow<'_, str> = if explicit {
-        keep(&lines, &groups, Group::Primary).into()
+    let keep = |group: Group| draft.only(|i| groups[i] == group);
+    let primary_draft: std::borrow::Cow<'_, Draft> = if explicit {
+        std::borrow::Cow::Owned(keep(Group::Primary))
     } else {
-        text.into()
+        std::borrow::Cow::Borrowed(draft)
     };
     let (mut report, coverage) = match &primary {
         Primary::Index(i) => {
             let at_hand = views(Some(&i.meta().vocabulary));
-            check_among_with_coverage(*i, &at_hand, &primary_text, options)
+            check_draft(*i, &at_hand, &primary_draft, options)
         }
-        Primary::Shapes(s) => (check_shapes(*s, &primary_text, options), Vec::new()),
+        Primary::Shapes(s) => (check_shapes_draft(*s, &primary_draft, options), Vec::new()),
     };
     if !explicit {
         return (report, coverage);
@@ -147,27 +171,26 @@ pub fn check_listed<D: AsRef<[u8]>>(
     named.sort();
     named.dedup();
     for s in named {
-        let sub_text = keep(&lines, &groups, Group::Named(s));
+        let sub_draft = keep(Group::Named(s));
         let index = others.iter().find(|i| i.meta().vocabulary == s.name());
         let (sub, how) = match index {
             Some(i) => (
-                check_among(*i, &views(Some(s.name())), &sub_text, options),
+                check_draft(*i, &views(Some(s.name())), &sub_draft, options).0,
                 Checked::Index(i.meta().release.clone()),
             ),
-            None if s.bundled() => (not_loaded(s, &sub_text, options), Checked::NotLoaded),
-            None => (check_shapes(s, &sub_text, options), Checked::Shapes),
+            None if s.bundled() => (not_loaded(s, &sub_draft, options), Checked::NotLoaded),
+            None => (check_shapes_draft(s, &sub_draft, options), Checked::Shapes),
         };
         parts.push(part(Some(s), s.name(), how, &sub, &groups, Group::Named(s)));
-        for (e, g) in sub.entries.into_iter().zip(&groups) {
+        for (at, (e, g)) in sub.entries.into_iter().zip(&groups).enumerate() {
             if *g == Group::Named(s) {
-                let at = e.line - 1;
                 report.entries[at] = e;
             }
         }
         report.list_findings.extend(sub.list_findings);
     }
-    for (l, g) in lines.iter().zip(&groups) {
-        let e = &mut report.entries[l.number - 1];
+    for (at, (l, g)) in lines.iter().zip(&groups).enumerate() {
+        let e = &mut report.entries[at];
         match g {
             Group::Refused => *e = refused(l),
             Group::Named(s) => {
@@ -189,7 +212,7 @@ pub fn check_listed<D: AsRef<[u8]>>(
             }
         }
     }
-    report.summary = Summary::of(lines.len(), &report.entries, &report.list_findings);
+    report.summary = Summary::of(draft.line_count(), &report.entries, &report.list_findings);
     report.summary.by_system = parts;
     (report, coverage)
 }
@@ -202,18 +225,6 @@ pub fn check_list<D: AsRef<[u8]>>(
     options: &CheckOptions,
 ) -> Report {
     check_listed(primary, others, text, options).0
-}
-
-/// The text with every line outside `group` blanked, except the column headings.
-fn keep(lines: &[InputLine], groups: &[Group], group: Group) -> String {
-    let mut out = String::new();
-    for (l, g) in lines.iter().zip(groups) {
-        if *g == group || matches!(l.kind, LineKind::Headings) {
-            out.push_str(&l.text);
-        }
-        out.push('\n');
-    }
-    out
 }
 
 enum Checked {
@@ -234,7 +245,9 @@ fn part(
     let mine: Vec<&Entry> = report
         .entries
         .iter()
-        .filter(|e| groups.get(e.line - 1) == Some(&group) && !e.status.skipped())
+        .zip(groups)
+        .filter(|(e, g)| **g == group && !e.status.skipped())
+        .map(|(e, _)| e)
         .collect();
     let mut p = SystemPart {
         system: name.to_string(),
@@ -271,8 +284,8 @@ fn part(
 
 /// Rows of a bundled system whose index is not loaded: their shape only,
 /// with a warning saying how to check them fully.
-fn not_loaded(system: System, text: &str, options: &CheckOptions) -> Report {
-    let mut r = check_shapes(system, text, options);
+fn not_loaded(system: System, draft: &Draft, options: &CheckOptions) -> Report {
+    let mut r = check_shapes_draft(system, draft, options);
     let title = system.title();
     for e in &mut r.entries {
         for f in &mut e.findings {
@@ -306,18 +319,14 @@ fn refused(l: &InputLine) -> Entry {
     };
     let why = System::from_cell(&cell).err().unwrap_or_default();
     Entry {
-        line: l.number,
-        input: l.text.clone(),
         code: Some(code),
-        system: None,
         label,
-        description: None,
-        status: Status::Malformed,
         findings: vec![Finding::new(
             Kind::Malformed,
             Severity::Error,
             format!("line {}: {why}", l.number),
             vec![],
         )],
+        ..Entry::of(l)
     }
 }

@@ -135,6 +135,8 @@ pub enum Status {
     Comment,
     /// The column headings of a CSV or TSV (skipped).
     ColumnHeadings,
+    /// A line of a draft with no code on it: prose, a heading (skipped).
+    Text,
 }
 
 impl Status {
@@ -155,6 +157,7 @@ impl Status {
             Status::Blank => "blank",
             Status::Comment => "comment",
             Status::ColumnHeadings => "column-headings",
+            Status::Text => "text",
         }
     }
 
@@ -162,7 +165,7 @@ impl Status {
     pub fn skipped(self) -> bool {
         matches!(
             self,
-            Status::Blank | Status::Comment | Status::ColumnHeadings
+            Status::Blank | Status::Comment | Status::ColumnHeadings | Status::Text
         )
     }
 }
@@ -212,6 +215,39 @@ pub struct Entry {
     pub status: Status,
     /// Findings, most severe first.
     pub findings: Vec<Finding>,
+    /// The 1-based column (in characters) where the code starts, when it
+    /// was found inside a longer line of a draft.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub column: Option<usize>,
+    /// The workbook sheet the entry was read from.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sheet: Option<String>,
+    /// Its row in that sheet (1-based).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub row: Option<usize>,
+}
+
+impl Entry {
+    /// The entry of one input line (or one code of it), before it is judged:
+    /// `malformed` until a check says what it is.
+    pub fn of(l: &crate::list::InputLine) -> Entry {
+        Entry {
+            line: l.number,
+            input: l.text.clone(),
+            code: None,
+            system: None,
+            label: match &l.kind {
+                crate::list::LineKind::Entry { label, .. } => label.clone(),
+                _ => None,
+            },
+            description: None,
+            status: Status::Malformed,
+            findings: Vec::new(),
+            column: l.column(),
+            sheet: l.place.sheet.clone(),
+            row: l.place.row,
+        }
+    }
 }
 
 /// A finding about several lines together.
@@ -316,6 +352,10 @@ pub struct SystemPart {
 pub struct Report {
     /// Vocabulary id (`icd10cm`).
     pub vocabulary: String,
+    /// How the list was read; absent for a list read as plain lines or a
+    /// table without being told to.
+    #[serde(skip_serializing_if = "crate::list::ReadFacts::as_before")]
+    pub reading: crate::list::ReadFacts,
     /// The index used.
     pub index: IndexInfo,
     /// The options used.

@@ -4,33 +4,37 @@
 //! valid in the period, and every finding says so.
 
 use crate::check::CheckOptions;
-use crate::input::{parse_list, LineKind};
+use crate::list::{Draft, LineKind};
 use crate::report::*;
 use crate::systems::{shape, Shape, System};
 use std::collections::BTreeMap;
 
 /// Checks every entry of `text` as a code of `system` by shape.
 pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Report {
+    check_shapes_draft(
+        system,
+        &crate::list::read(text, crate::list::Reading::Auto),
+        options,
+    )
+}
+
+/// [`check_shapes`] of a list already read.
+pub fn check_shapes_draft(system: System, draft: &Draft, options: &CheckOptions) -> Report {
     let period = options.period();
-    let (_, lines) = parse_list(text);
+    let lines = &draft.lines;
     let title = system.title();
     let mut entries = Vec::with_capacity(lines.len());
     let mut seen: BTreeMap<String, Vec<usize>> = BTreeMap::new();
-    for l in &lines {
+    for l in lines {
         let mut e = Entry {
-            line: l.number,
-            input: l.text.clone(),
-            code: None,
-            system: None,
             label: None,
-            description: None,
-            status: Status::Malformed,
-            findings: Vec::new(),
+            ..Entry::of(l)
         };
         match &l.kind {
             LineKind::Blank => e.status = Status::Blank,
             LineKind::Comment => e.status = Status::Comment,
             LineKind::Headings => e.status = Status::ColumnHeadings,
+            LineKind::Text => e.status = Status::Text,
             LineKind::Unreadable(m) => e.findings.push(Finding::new(
                 Kind::Malformed,
                 Severity::Error,
@@ -117,9 +121,10 @@ pub fn check_shapes(system: System, text: &str, options: &CheckOptions) -> Repor
             suggestions: vec![],
         })
         .collect();
-    let summary = Summary::of(lines.len(), &entries, &list_findings);
+    let summary = Summary::of(draft.line_count(), &entries, &list_findings);
     Report {
         vocabulary: system.name().to_string(),
+        reading: draft.facts.clone(),
         index: IndexInfo {
             release: "none: shape and check-digit rules only".into(),
             coverage_from: period.from,

@@ -7,7 +7,7 @@
 use crate::check::{check, CheckOptions};
 use crate::code::{self, Resolved};
 use crate::index::{Index, MapView};
-use crate::input::{parse_list, LineKind};
+use crate::list::LineKind;
 use crate::model::{MapFlags, MapRow};
 use crate::report::{OptionsInfo, Status};
 use serde::Serialize;
@@ -215,7 +215,7 @@ pub fn translate<A: AsRef<[u8]>, B: AsRef<[u8]>>(
             tv.meta().title
         )
     })?;
-    let (_, lines) = parse_list(text);
+    let lines = crate::list::read(text, crate::list::Reading::Auto).lines;
     let mut entries = Vec::with_capacity(lines.len());
     let mut wanted: BTreeSet<String> = BTreeSet::new();
     for l in &lines {

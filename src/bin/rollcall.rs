@@ -4,7 +4,8 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
-use rollcall::mixed::{check_list, systems_named, Primary};
+use rollcall::list::{Draft, Reading};
+use rollcall::mixed::{check_listed_draft, systems_named_in, Primary};
 use rollcall::systems::System;
 use rollcall::{render, CheckOptions, Date, Index, View};
 use std::io::Read;
@@ -52,6 +53,7 @@ ICD-9-CM and HPO bundled; other systems by shape, or by an index a site builds)
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
+                        [--read lines|table|text|json|workbook]
   rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
   rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
@@ -59,8 +61,12 @@ usage:
   rollcall info [--format text|json] [--index PATH]
   rollcall find WORDS... [--date DATE] [--limit N] [--format text|json] [--index PATH]
 
-  FILE       plain lines (code, then an optional label), CSV or TSV with a code column;
-             - reads standard input
+  FILE       any list or draft: plain lines (code, then an optional label), CSV or TSV
+             with a code column, markdown, prose, SQL/R/Python literals, JSON or a FHIR
+             resource, a spreadsheet workbook (.xlsx, .xls, .ods); several codes on a
+             line are each checked; - reads standard input
+  --read     how to read the list when the guess is wrong: lines (one code per line),
+             table (CSV/TSV), text (a draft), json, workbook
   --on       a single reference date (default: today)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
@@ -109,6 +115,8 @@ struct Args {
     system: Option<String>,
     /// translate: the target system.
     into: Option<String>,
+    /// How to read the list.
+    reading: Reading,
 }
 
 fn parse(argv: &[String]) -> Result<Args, Usage> {
@@ -134,6 +142,15 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--index" => a.index = Some(value()?),
             "--system" => a.system = Some(value()?),
             "--into" => a.into = Some(value()?),
+            "--read" => {
+                let v = value()?;
+                a.reading = Reading::parse(&v).ok_or_else(|| {
+                    Usage(format!(
+                        "--read {v} is not a reading; use one of {}",
+                        Reading::FORCED.map(|r| r.name()).join(", ")
+                    ))
+                })?;
+            }
             s if s.starts_with("--") => return Err(Usage(format!("unknown option {s}"))),
             s => a.files.push(s.to_string()),
         }
@@ -203,8 +220,8 @@ fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
 /// `own`: every one the list's system column names, and ICD-9-CM (with the
 /// GEMs) beside ICD-10-CM and the reverse, so a code of the other system
 /// is named with its GEM targets.
-fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
-    let mut want = systems_named(text);
+fn at_hand(own: &str, draft: &Draft) -> Result<Vec<Index<&'static [u8]>>, String> {
+    let mut want = systems_named_in(draft);
     // Each of the two with the GEMs beside the other (both directions are
     // kept in the ICD-9-CM index).
     match own {
@@ -222,9 +239,9 @@ fn at_hand(own: &str, text: &str) -> Result<Vec<Index<&'static [u8]>>, String> {
 
 /// Checks a list: the rows with no system cell against the target, the
 /// others in the system their cell names.
-fn check_text(
+fn check_draft(
     target: &Target,
-    text: &str,
+    draft: &Draft,
     opts: &CheckOptions,
 ) -> Result<rollcall::Report, String> {
     let (primary, own) = match target {
@@ -234,9 +251,9 @@ fn check_text(
         ),
         Target::Shapes(s) => (Primary::Shapes(*s), s.name().to_string()),
     };
-    let others = at_hand(&own, text)?;
+    let others = at_hand(&own, draft)?;
     let refs: Vec<&Index<&'static [u8]>> = others.iter().collect();
-    Ok(check_list(primary, &refs, text, opts))
+    Ok(check_listed_draft(primary, &refs, draft, opts).0)
 }
 
 /// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
@@ -332,8 +349,8 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                     ))
                 }
             };
-            let text = read_list(file)?;
-            let report = check_text(&target(&a)?, &text, &opts)?;
+            let draft = read_draft(file, a.reading)?;
+            let report = check_draft(&target(&a)?, &draft, &opts)?;
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n",
                 "csv" => render::csv(&report),
@@ -349,7 +366,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             // would only cost time (about a tenth of a run on a large list).
             std::mem::forget(report);
             std::mem::forget(out);
-            std::mem::forget(text);
+            std::mem::forget(draft);
             Ok(status)
         }
         "compare" => {
@@ -509,7 +526,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
 }
 
 /// A list from a file, or from standard input for `-`, as text.
-fn read_list(file: &str) -> Result<String, String> {
+fn read_raw(file: &str) -> Result<Vec<u8>, String> {
     let mut raw = Vec::new();
     if file == "-" {
         std::io::stdin()
@@ -518,7 +535,24 @@ fn read_list(file: &str) -> Result<String, String> {
     } else {
         raw = std::fs::read(file).map_err(|e| format!("cannot read {file}: {e}"))?;
     }
-    decode(&raw).map_err(|e| format!("{file}: {e}"))
+    Ok(raw)
+}
+
+/// A list's text (compare and translate read text lists).
+fn read_list(file: &str) -> Result<String, String> {
+    let raw = read_raw(file)?;
+    if rollcall::list::is_workbook(&raw) {
+        return Err(format!(
+            "{file} is a spreadsheet workbook; this command reads text lists, so save the sheet as CSV (CSV UTF-8), or check the workbook with rollcall check"
+        ));
+    }
+    rollcall::list::decode(&raw).map_err(|e| format!("{file}: {e}"))
+}
+
+/// A list read as `reading` says (a workbook, or text in any form).
+fn read_draft(file: &str, reading: Reading) -> Result<Draft, String> {
+    let raw = read_raw(file)?;
+    rollcall::list::read_bytes(&raw, reading).map_err(|e| format!("{file}: {e}"))
 }
 
 /// `rollcall find WORDS...`: codes for words, best first.
@@ -600,30 +634,6 @@ fn write_out(s: &str) {
     let mut out = std::io::stdout().lock();
     // A closed pipe (rollcall ... | head) is not an error worth a message.
     let _ = out.write_all(s.as_bytes());
-}
-
-/// Lists come from spreadsheets as UTF-8 (maybe with a BOM) or UTF-16.
-fn decode(raw: &[u8]) -> Result<String, String> {
-    if let Some(rest) = raw.strip_prefix(&[0xFF, 0xFE]) {
-        let units: Vec<u16> = rest
-            .chunks_exact(2)
-            .map(|c| u16::from_le_bytes([c[0], c[1]]))
-            .collect();
-        return String::from_utf16(&units).map_err(|_| "is not valid UTF-16 text".into());
-    }
-    match std::str::from_utf8(raw) {
-        Ok(s) => Ok(s.to_string()),
-        Err(e) => {
-            let line = raw[..e.valid_up_to()]
-                .iter()
-                .filter(|&&b| b == b'\n')
-                .count()
-                + 1;
-            Err(format!(
-                "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
-            ))
-        }
-    }
 }
 
 fn main() -> ExitCode {

@@ -94,6 +94,9 @@ pub fn text(report: &Report) -> String {
         );
     }
     let _ = writeln!(s, "{}", when(o));
+    if let Some(r) = reading(&report.reading) {
+        let _ = writeln!(s, "{r}");
+    }
     if !report.index.notice.is_empty() {
         let _ = writeln!(s, "{}", report.index.notice);
     }
@@ -171,6 +174,53 @@ pub(crate) fn counts(m: &crate::report::Summary) -> String {
 }
 
 /// The findings of a report grouped by severity, each line after `indent`.
+fn plural(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
+/// How a list was read, as the report's heading says it; none for a list
+/// read as plain lines or a table without being told to.
+pub fn reading(f: &crate::list::ReadFacts) -> Option<String> {
+    if f.as_before() {
+        return None;
+    }
+    let unit = if f.reading == crate::list::Reading::Workbook {
+        ("row", "rows")
+    } else {
+        ("line", "lines")
+    };
+    let mut s = format!(
+        "read as {}{}: {} on {} of {}",
+        f.form,
+        if f.forced { " (as asked)" } else { "" },
+        plural(f.codes, "code", "codes"),
+        f.lines_with_codes,
+        plural(f.lines, unit.0, unit.1)
+    );
+    if !f.sheets.is_empty() {
+        let sheets: Vec<String> = f
+            .sheets
+            .iter()
+            .map(|x| {
+                if x.codes == 0 {
+                    format!("\u{201c}{}\u{201d} (no codes)", x.name)
+                } else {
+                    format!(
+                        "\u{201c}{}\u{201d} ({})",
+                        x.name,
+                        plural(x.codes, "code", "codes")
+                    )
+                }
+            })
+            .collect();
+        s.push_str(&format!("; sheets {}", sheets.join(", ")));
+    }
+    for n in &f.notes {
+        s.push_str(&format!("\n  note: {n}"));
+    }
+    Some(s)
+}
+
 pub(crate) fn write_findings(s: &mut String, report: &Report, indent: &str) {
     let rows = rows(report);
     for sev in [Severity::Error, Severity::Warning, Severity::Info] {

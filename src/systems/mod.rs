@@ -9,7 +9,7 @@ mod drugs;
 mod icd;
 mod names;
 mod procedures;
-mod terms;
+pub(crate) mod terms;
 
 pub use digits::{luhn_check_digit, verhoeff_check_digit, verhoeff_valid};
 pub use drugs::{ndc, NdcForm, NdcReading};

@@ -1,41 +1,8 @@
-//! Reading a pasted or uploaded list into lines: plain lines (`code label`),
-//! CSV or TSV with a code column and optional label and system columns.
-//! Every input line comes back, so the report can account for each one.
+//! Lists laid out as lists: plain lines (`code label`), and CSV or TSV with
+//! a code column and optional label and system columns. Every input line
+//! comes back, so the report can account for each one.
 
-/// What a line of the input is.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub enum LineKind {
-    /// Empty or whitespace only.
-    Blank,
-    /// Starts with `#` or `//`.
-    Comment,
-    /// The row of column names of a CSV or TSV.
-    Headings,
-    /// A code (or pattern) to check, with the label written beside it.
-    Entry {
-        /// The code cell as written, trimmed.
-        code: String,
-        /// The label cell, if any and not empty.
-        label: Option<String>,
-        /// The system column's cell as written, trimmed, if the list has a
-        /// system column and the cell is not empty (read it with
-        /// [`crate::systems::System::from_cell`]).
-        system: Option<String>,
-    },
-    /// A row that cannot be read; the message says why and what to do.
-    Unreadable(String),
-}
-
-/// One physical line of the input.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct InputLine {
-    /// 1-based line number.
-    pub number: usize,
-    /// The line as written, without its line ending.
-    pub text: String,
-    /// What the line is.
-    pub kind: LineKind,
-}
+use super::{lines_of, InputLine, LineKind};
 
 /// How the list was laid out.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -76,7 +43,7 @@ const HEADING_WORDS: &[&str] = &[
 /// Headings of a system column (compared without case, spaces, `_` and `-`).
 /// Never taken for the code column, even though a system's name such as
 /// `ICD-10-CM` looks like a code.
-const SYSTEM_WORDS: &[&str] = &[
+pub(crate) const SYSTEM_WORDS: &[&str] = &[
     "system",
     "codesystem",
     "codingsystem",
@@ -86,7 +53,7 @@ const SYSTEM_WORDS: &[&str] = &[
     "systemuri",
     "systemurl",
 ];
-const LABEL_WORDS: &[&str] = &[
+pub(crate) const LABEL_WORDS: &[&str] = &[
     "description",
     "desc",
     "label",
@@ -97,7 +64,7 @@ const LABEL_WORDS: &[&str] = &[
     "text",
 ];
 
-fn is_skip(line: &str) -> Option<LineKind> {
+pub(crate) fn is_skip(line: &str) -> Option<LineKind> {
     let t = line.trim();
     if t.is_empty() {
         Some(LineKind::Blank)
@@ -124,7 +91,7 @@ pub fn code_like(cell: &str) -> bool {
             <= 2
 }
 
-fn heading_word(cell: &str) -> Option<String> {
+pub(crate) fn heading_word(cell: &str) -> Option<String> {
     let w = cell.trim().trim_matches('"').to_ascii_lowercase();
     let w = w.replace([' ', '_', '-'], "");
     if SYSTEM_WORDS.contains(&w.as_str()) {
@@ -206,8 +173,7 @@ fn split(layout: Layout, line: &str) -> Result<Vec<String>, String> {
 
 /// Decides the layout from the first lines that hold data.
 pub fn detect(text: &str) -> Detected {
-    let sample: Vec<&str> = text
-        .lines()
+    let sample: Vec<&str> = lines_of(text)
         .filter(|l| is_skip(l).is_none())
         .take(200)
         .collect();
@@ -238,8 +204,12 @@ pub fn detect(text: &str) -> Detected {
             sample.iter().filter_map(|l| split_csv(l).ok()).collect(),
         )
     };
+    // Rows that cannot be split (an unclosed quote) are not evidence of
+    // a table: they are reported on their own lines.
+    let Some(first) = rows.first() else {
+        return plain;
+    };
     let width = rows.iter().map(Vec::len).max().unwrap_or(1);
-    let first = &rows[0];
     let has_headings = first.iter().any(|c| heading_word(c).is_some())
         && !first
             .iter()
@@ -286,6 +256,23 @@ pub fn detect(text: &str) -> Detected {
     if score(code) * 2 < body.len() {
         return plain;
     }
+    // Codes in other cells of most rows (`E11.9, E11.65, I10`): a run of
+    // codes, not a code beside its label.
+    let more_codes = body
+        .iter()
+        .filter(|r| {
+            r.iter().enumerate().any(|(i, c)| {
+                i != code
+                    && Some(i) != system
+                    && (super::tokens::strength(c.trim().trim_matches('"'))
+                        >= super::tokens::Strength::Listed
+                        || super::text::has_strong_code(c))
+            })
+        })
+        .count();
+    if more_codes * 2 > body.len() {
+        return plain;
+    }
     let label = if has_headings {
         (0..width).find(|&i| {
             i != code
@@ -322,22 +309,37 @@ pub fn detect(text: &str) -> Detected {
     }
 }
 
-/// Reads a whole list. Every line of `text` is returned, in order.
-pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
+/// The table layout of `text`, even where [`detect`] would read plain
+/// lines (a table forced by the user): tab-separated when any line has a
+/// tab, else comma-separated, the code first and its label second.
+pub fn detect_table(text: &str) -> Detected {
+    let d = detect(text);
+    if d.layout != Layout::Plain {
+        return d;
+    }
+    let tsv = lines_of(text).any(|l| l.contains('\t'));
+    Detected {
+        layout: if tsv {
+            Layout::Tsv(0, Some(1))
+        } else {
+            Layout::Csv(0, Some(1))
+        },
+        headings: false,
+        system: None,
+    }
+}
+
+/// Reads a whole list laid out as `detected` says. Every line of `text`
+/// is returned, in order.
+pub fn read_laid_out(text: &str, detected: Detected) -> Vec<InputLine> {
     let Detected {
         layout,
         headings,
         system: system_column,
-    } = detect(text);
+    } = detected;
     let mut out = Vec::new();
     let mut seen_data = false;
-    for (i, raw) in text.lines().enumerate() {
-        let line = raw.strip_suffix('\r').unwrap_or(raw);
-        let line = if i == 0 {
-            line.trim_start_matches('\u{feff}')
-        } else {
-            line
-        };
+    for (i, line) in lines_of(text).enumerate() {
         let kind = if let Some(k) = is_skip(line) {
             k
         } else {
@@ -378,19 +380,15 @@ pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
                 },
             }
         };
-        out.push(InputLine {
-            number: i + 1,
-            text: line.to_string(),
-            kind,
-        });
+        out.push(InputLine::new(i + 1, line, kind));
     }
-    (layout, out)
+    out
 }
 
 /// A plain line: the code is the first word (words are joined when the code
 /// was written with spaces, as in `E11 .9`, `E 11.9` or a range `E08 - E13`),
 /// the rest is the label.
-fn plain_entry(line: &str) -> LineKind {
+pub(crate) fn plain_entry(line: &str) -> LineKind {
     let words: Vec<&str> = line.split_whitespace().collect();
     let mut n = 1;
     let joins = |a: &str, b: &str| {
@@ -431,6 +429,7 @@ fn plain_entry(line: &str) -> LineKind {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::list::parse_list;
 
     fn entries(text: &str) -> Vec<(String, Option<String>)> {
         parse_list(text)

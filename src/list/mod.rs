@@ -1,0 +1,506 @@
+//! The one reader of lists and drafts. It finds the codes in any text a
+//! person brings (a plain list, CSV or TSV, markdown, prose, SQL or R or
+//! Python literals, JSON and FHIR resources, a spreadsheet workbook) and
+//! keeps, for each code, its line (and column, or sheet and row), the text
+//! that serves as its label, and a system when the text names one.
+//!
+//! Nothing is lost and nothing invented: every input line comes back, a line
+//! may hold several codes (one [`InputLine`] each, sharing the number), and
+//! a line with no code is [`LineKind::Text`], never an error.
+//!
+//! - [`table`]: plain lines and CSV/TSV, read exactly as rollcall always has;
+//! - [`text`]: markdown, prose and code literals, a line at a time;
+//! - [`json`]: any JSON, with its own small parser that keeps line numbers;
+//! - [`tokens`]: which words have a code's shape;
+//! - `workbook` (behind the `workbook` feature): sheets of `.xlsx`, `.xls`,
+//!   `.ods`, read as tables.
+
+pub mod json;
+pub mod table;
+pub mod text;
+pub mod tokens;
+#[cfg(feature = "workbook")]
+pub mod workbook;
+
+pub use table::{code_like, detect, split_csv, Detected, Layout};
+
+use serde::Serialize;
+
+/// What a line of the input is.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum LineKind {
+    /// Empty or whitespace only.
+    Blank,
+    /// Starts with `#` or `//` (in a plain list or a table).
+    Comment,
+    /// The row of column names of a CSV, TSV or markdown table.
+    Headings,
+    /// A line of a draft with no code on it: prose, a heading, a note.
+    Text,
+    /// A code (or pattern) to check, with the label written beside it.
+    Entry {
+        /// The code as written, trimmed.
+        code: String,
+        /// The label, if any and not empty.
+        label: Option<String>,
+        /// The system as written (a system column's cell, a JSON coding's
+        /// `system`, a heading naming one) or the system the code's shape
+        /// makes clear in a draft; read it with
+        /// [`crate::systems::System::from_cell`].
+        system: Option<String>,
+    },
+    /// A row that cannot be read; the message says why and what to do.
+    Unreadable(String),
+}
+
+/// Where a code sits, beyond its line.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct Place {
+    /// Byte range of the code as written in the line's text, when the code
+    /// was found inside a longer line (drafts): an edit replaces exactly this.
+    pub span: Option<(usize, usize)>,
+    /// The workbook sheet.
+    pub sheet: Option<String>,
+    /// The row within the sheet (1-based).
+    pub row: Option<usize>,
+}
+
+/// One code, or one line without a code, of the input.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct InputLine {
+    /// 1-based line number (several entries may share one).
+    pub number: usize,
+    /// The line as written, without its line ending.
+    pub text: String,
+    /// What the line (or this code of it) is.
+    pub kind: LineKind,
+    /// Where the code sits in the line, or in a workbook.
+    pub place: Place,
+}
+
+impl InputLine {
+    /// A line read whole.
+    pub fn new(number: usize, text: &str, kind: LineKind) -> Self {
+        InputLine {
+            number,
+            text: text.to_string(),
+            kind,
+            place: Place::default(),
+        }
+    }
+
+    /// The 1-based column (in characters) where the code starts, when it was
+    /// found inside a longer line.
+    pub fn column(&self) -> Option<usize> {
+        let (start, _) = self.place.span?;
+        Some(self.text.get(..start)?.chars().count() + 1)
+    }
+}
+
+/// How to read a list: guessed, or forced when the guess is wrong.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Reading {
+    /// Guess from the text.
+    #[default]
+    Auto,
+    /// One code per line, then its label (the first word is the code).
+    Lines,
+    /// CSV or TSV with a code column.
+    Table,
+    /// A draft: markdown, prose, code literals; several codes per line.
+    Text,
+    /// JSON of any shape (FHIR resources included).
+    Json,
+    /// A spreadsheet workbook.
+    Workbook,
+}
+
+impl Reading {
+    /// Every reading a user can force, in the order help texts list them.
+    pub const FORCED: [Reading; 5] = [
+        Reading::Lines,
+        Reading::Table,
+        Reading::Text,
+        Reading::Json,
+        Reading::Workbook,
+    ];
+
+    /// The name used in options and outputs (`lines`, `table`...).
+    pub fn name(self) -> &'static str {
+        match self {
+            Reading::Auto => "auto",
+            Reading::Lines => "lines",
+            Reading::Table => "table",
+            Reading::Text => "text",
+            Reading::Json => "json",
+            Reading::Workbook => "workbook",
+        }
+    }
+
+    /// The reading a name names.
+    pub fn parse(name: &str) -> Option<Reading> {
+        [Reading::Auto]
+            .into_iter()
+            .chain(Reading::FORCED)
+            .find(|r| r.name() == name.trim().to_ascii_lowercase())
+    }
+}
+
+/// A sheet of a workbook, as read.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct SheetRead {
+    /// The sheet's name.
+    pub name: String,
+    /// Rows holding anything.
+    pub rows: usize,
+    /// Codes read from it.
+    pub codes: usize,
+}
+
+/// How a list was read: the facts the report's heading is written from.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct ReadFacts {
+    /// The reading used (`lines`, `table`, `text`, `json`, `workbook`).
+    #[serde(rename = "as")]
+    pub reading: Reading,
+    /// What the text looked like: `plain lines`, `csv`, `tsv`, `markdown`,
+    /// `prose`, `sql`, `r`, `code literals`, `fhir valueset`, `fhir
+    /// bundle`, `json`, `workbook`.
+    pub form: String,
+    /// Whether the reading was forced rather than guessed.
+    pub forced: bool,
+    /// Codes (and patterns) read.
+    pub codes: usize,
+    /// Lines holding at least one code.
+    pub lines_with_codes: usize,
+    /// Lines of the input (rows of all sheets for a workbook).
+    pub lines: usize,
+    /// The sheets of a workbook, in order; those with no code included.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub sheets: Vec<SheetRead>,
+    /// Things the reader saw and did not take (a FHIR `compose.exclude`,
+    /// JSON that could not be parsed and was read as text).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub notes: Vec<String>,
+}
+
+impl ReadFacts {
+    /// Whether the list was read as rollcall read lists before drafts
+    /// (plain lines or a table), so reports need not say how.
+    pub fn as_before(&self) -> bool {
+        matches!(self.reading, Reading::Lines | Reading::Table) && !self.forced
+    }
+}
+
+/// A list as read: its lines (one per code, or per line without one) and
+/// how it was read.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct Draft {
+    /// In input order; several may share a line number.
+    pub lines: Vec<InputLine>,
+    /// How it was read.
+    pub facts: ReadFacts,
+}
+
+impl Draft {
+    fn finish(
+        lines: Vec<InputLine>,
+        reading: Reading,
+        form: &str,
+        forced: bool,
+        count: usize,
+    ) -> Draft {
+        let codes = lines
+            .iter()
+            .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
+            .count();
+        let mut with: Vec<usize> = lines
+            .iter()
+            .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
+            .map(|l| l.number)
+            .collect();
+        with.dedup();
+        Draft {
+            facts: ReadFacts {
+                reading,
+                form: form.to_string(),
+                forced,
+                codes,
+                lines_with_codes: with.len(),
+                lines: count,
+                sheets: Vec::new(),
+                notes: Vec::new(),
+            },
+            lines,
+        }
+    }
+
+    /// The number of input lines (rows of every sheet for a workbook).
+    pub fn line_count(&self) -> usize {
+        self.facts.lines
+    }
+
+    /// A draft with every line outside `keep` blanked (column headings
+    /// kept), for checking one part of a list on its own with the line
+    /// numbers, layout and headings of the whole.
+    pub fn only(&self, keep: impl Fn(usize) -> bool) -> Draft {
+        Draft {
+            lines: self
+                .lines
+                .iter()
+                .enumerate()
+                .map(|(i, l)| {
+                    if keep(i) || l.kind == LineKind::Headings {
+                        l.clone()
+                    } else {
+                        InputLine {
+                            kind: LineKind::Blank,
+                            ..l.clone()
+                        }
+                    }
+                })
+                .collect(),
+            facts: self.facts.clone(),
+        }
+    }
+}
+
+/// The lines of `text`, split at `\n`, `\r\n` or a lone `\r` (old Mac
+/// files), without a leading byte-order mark. A final line ending adds no
+/// empty line.
+pub fn lines_of(text: &str) -> impl Iterator<Item = &str> {
+    let mut rest = text.strip_prefix('\u{feff}').unwrap_or(text);
+    std::iter::from_fn(move || {
+        if rest.is_empty() {
+            return None;
+        }
+        match rest.find(['\n', '\r']) {
+            None => Some(std::mem::take(&mut rest)),
+            Some(i) => {
+                let line = &rest[..i];
+                let skip = if rest[i..].starts_with("\r\n") { 2 } else { 1 };
+                rest = &rest[i + skip..];
+                Some(line)
+            }
+        }
+    })
+}
+
+/// Reads a list (see the module docs): `reading` forces a reading, or
+/// [`Reading::Auto`] guesses it. [`Reading::Workbook`] needs the file's
+/// bytes ([`read_bytes`]); given text, it reads the text as a table.
+pub fn read(text: &str, reading: Reading) -> Draft {
+    let count = lines_of(text).count();
+    match reading {
+        Reading::Lines => {
+            let detected = Detected {
+                layout: Layout::Plain,
+                headings: false,
+                system: None,
+            };
+            Draft::finish(
+                table::read_laid_out(text, detected),
+                Reading::Lines,
+                "plain lines",
+                true,
+                count,
+            )
+        }
+        Reading::Table | Reading::Workbook => {
+            let detected = table::detect_table(text);
+            let form = form_of_layout(detected.layout);
+            Draft::finish(
+                table::read_laid_out(text, detected),
+                Reading::Table,
+                form,
+                true,
+                count,
+            )
+        }
+        Reading::Text => text::read(text, true),
+        Reading::Json => json::read(text, true),
+        Reading::Auto => {
+            let t = text.trim_start_matches('\u{feff}').trim_start();
+            if t.starts_with(['{', '[']) {
+                if let Some(d) = json::try_read(text) {
+                    return d;
+                }
+            }
+            let detected = detect(text);
+            if detected.layout != Layout::Plain {
+                let form = form_of_layout(detected.layout);
+                return Draft::finish(
+                    table::read_laid_out(text, detected),
+                    Reading::Table,
+                    form,
+                    false,
+                    count,
+                );
+            }
+            if text::reads_as_lines(text) {
+                return Draft::finish(
+                    table::read_laid_out(text, detected),
+                    Reading::Lines,
+                    "plain lines",
+                    false,
+                    count,
+                );
+            }
+            let mut d = text::read(text, false);
+            if t.starts_with(['{', '[']) {
+                d.facts.notes.push(
+                    "the text starts like JSON but is not valid JSON, so it was read as text"
+                        .into(),
+                );
+            }
+            d
+        }
+    }
+}
+
+fn form_of_layout(layout: Layout) -> &'static str {
+    match layout {
+        Layout::Plain => "plain lines",
+        Layout::Csv(..) => "csv",
+        Layout::Tsv(..) => "tsv",
+    }
+}
+
+/// Why a file could not be read at all.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ReadError {
+    /// What went wrong and what to do, as a sentence.
+    pub message: String,
+}
+
+impl std::fmt::Display for ReadError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.message)
+    }
+}
+
+impl std::error::Error for ReadError {}
+
+/// Whether the bytes are a spreadsheet workbook (a zip container, as
+/// `.xlsx` and `.ods` are, or an OLE2 file, as `.xls` is).
+pub fn is_workbook(bytes: &[u8]) -> bool {
+    bytes.starts_with(b"PK\x03\x04")
+        || bytes.starts_with(&[0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1])
+}
+
+/// Reads a list from a file's bytes: a workbook (when built with the
+/// `workbook` feature), or text in UTF-8 (with or without a byte-order
+/// mark) or UTF-16 (with its mark).
+pub fn read_bytes(bytes: &[u8], reading: Reading) -> Result<Draft, ReadError> {
+    if reading == Reading::Workbook || (reading == Reading::Auto && is_workbook(bytes)) {
+        #[cfg(feature = "workbook")]
+        return workbook::read_workbook(bytes);
+        #[cfg(not(feature = "workbook"))]
+        return Err(ReadError {
+            message: "this is a spreadsheet workbook, and this build of rollcall reads no workbooks; save the sheet as CSV (CSV UTF-8) and try again".into(),
+        });
+    }
+    let text = decode(bytes)?;
+    Ok(read(&text, reading))
+}
+
+/// Text from bytes: UTF-8, or UTF-16 in either byte order with its mark.
+pub fn decode(bytes: &[u8]) -> Result<String, ReadError> {
+    let utf16 = |le: bool| -> Result<String, ReadError> {
+        let body = &bytes[2..];
+        let units: Vec<u16> = body
+            .chunks_exact(2)
+            .map(|c| {
+                if le {
+                    u16::from_le_bytes([c[0], c[1]])
+                } else {
+                    u16::from_be_bytes([c[0], c[1]])
+                }
+            })
+            .collect();
+        if body.len() % 2 == 1 {
+            return Err(ReadError {
+                message: "the file is UTF-16 text with an odd number of bytes, so its last character is cut; save it again (in a spreadsheet: CSV UTF-8) and try again".into(),
+            });
+        }
+        String::from_utf16(&units).map_err(|_| ReadError {
+            message: "the file says it is UTF-16 text but holds bytes that are not; save it again as UTF-8 and try again".into(),
+        })
+    };
+    if bytes.starts_with(&[0xFF, 0xFE]) {
+        return utf16(true);
+    }
+    if bytes.starts_with(&[0xFE, 0xFF]) {
+        return utf16(false);
+    }
+    match std::str::from_utf8(bytes) {
+        Ok(t) => Ok(t.to_string()),
+        Err(e) => {
+            let at = e.valid_up_to();
+            let line = bytes[..at].iter().filter(|&&b| b == b'\n').count() + 1;
+            Err(ReadError {
+                message: format!(
+                    "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
+                ),
+            })
+        }
+    }
+}
+
+/// Reads a list with the guessed reading (see [`read`]) and says how it was
+/// laid out when it was read as plain lines or a table. Kept for callers of
+/// the table reader; new code uses [`read`].
+pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
+    let detected = detect(text);
+    let d = read(text, Reading::Auto);
+    let layout = if d.facts.reading == Reading::Table {
+        detected.layout
+    } else {
+        Layout::Plain
+    };
+    (layout, d.lines)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn lone_carriage_returns_end_lines() {
+        let got: Vec<&str> = lines_of("\u{feff}E11.9 a\rI10 b\r\nE78.5\r").collect();
+        assert_eq!(got, ["E11.9 a", "I10 b", "E78.5"]);
+        let d = read(
+            "E11.9 Type 2 diabetes\rI10 Essential hypertension\rE78.5\r",
+            Reading::Auto,
+        );
+        assert_eq!(d.lines.len(), 3);
+    }
+
+    #[test]
+    fn readings_have_names() {
+        for r in Reading::FORCED {
+            assert_eq!(Reading::parse(r.name()), Some(r));
+        }
+        assert_eq!(Reading::parse("JSON"), Some(Reading::Json));
+        assert_eq!(Reading::parse("xml"), None);
+    }
+
+    #[test]
+    fn utf16_in_both_orders() {
+        let le: Vec<u8> = [0xFF, 0xFE]
+            .into_iter()
+            .chain("E11.9\n".encode_utf16().flat_map(u16::to_le_bytes))
+            .collect();
+        let be: Vec<u8> = [0xFE, 0xFF]
+            .into_iter()
+            .chain("E11.9\n".encode_utf16().flat_map(u16::to_be_bytes))
+            .collect();
+        assert_eq!(decode(&le).unwrap(), "E11.9\n");
+        assert_eq!(decode(&be).unwrap(), "E11.9\n");
+        assert!(decode(&le[..le.len() - 1])
+            .unwrap_err()
+            .message
+            .contains("odd number"));
+    }
+}
