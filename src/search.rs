@@ -2,7 +2,10 @@
 //! the last word matched as a prefix while typing, misspelt words matched
 //! through a Levenshtein automaton on the word map, then the best candidates
 //! re-ranked by how well their official description fits the query (whole
-//! phrases, few words left over). [`fit`] scores one label against one code.
+//! phrases, few words left over; a category's general code first for a
+//! short query). A query and a label are taken in each of their readings
+//! ([`crate::synonyms`]: clinicians' words as the official wording), the
+//! best one counting. [`fit`] scores one label against one code.
 
 use crate::date::Date;
 use crate::index::View;
@@ -184,7 +187,8 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
     out
 }
 
-/// The codes that best fit `query`, best first.
+/// The codes that best fit `query`, best first: each code scored by the
+/// best of the query's readings searched.
 ///
 /// ```no_run
 /// let index = rollcall::Index::open(std::fs::read("vocab/icd10cm.rcx").unwrap()).unwrap();
