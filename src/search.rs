@@ -349,6 +349,7 @@ fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit>
             if first_encounter(&q, &desc) {
                 s += INITIAL_BONUS;
             }
+            s -= UNSAID_PENALTY * synonyms::unsaid(&q, &desc) as f32;
             if let Some(p) = &opts.period {
                 if view.billable_in(o, p) {
                     s += 0.1;
@@ -405,6 +406,11 @@ fn general(q: &[String], desc: &[String]) -> bool {
 /// names no encounter: of the 7th characters A, D and S the initial encounter
 /// is the one a search for the injury means first (common practice).
 const INITIAL_BONUS: f32 = 0.1;
+
+/// Score taken from a code per word it adds that a query saying neither
+/// side does not mean ([`synonyms::unsaid`]: "lung cancer" is the primary
+/// malignant neoplasm before the secondary one).
+const UNSAID_PENALTY: f32 = 0.15;
 
 /// Whether `desc` is an initial encounter and `q` names no encounter.
 fn first_encounter(q: &[String], desc: &[String]) -> bool {

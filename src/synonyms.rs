@@ -60,7 +60,7 @@ pub const OPPOSITES: &[(&str, &str)] = &[
 /// stated is the initial one, a depressive episode not stated as recurrent
 /// is single (ICD-10-CM conventions and Official Guidelines, from memory).
 pub const DEFAULTS: &[(&str, &str)] = &[
-    ("closed", "open"),
+    ("closed fracture", "open fracture"),
     ("displaced", "nondisplaced"),
     ("initial", "sequela"),
     ("initial", "subsequent"),
