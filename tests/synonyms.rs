@@ -194,3 +194,32 @@ fn procedure_names_are_read_through_root_operation_and_approach() {
     assert_eq!(f[0].suggestions[0].code, "0DTJ4ZZ");
     assert!(labels(2).is_empty(), "{:?}", labels(2));
 }
+
+/// Source: the HPO release hp-2025-01-16.obo (vocab-build/sources):
+/// HP:0001658 Myocardial infarction has the exact synonym "Heart attack",
+/// HP:0002094 Dyspnea "Trouble breathing"; HP:0001250 is Seizure. The HPO
+/// index keeps every synonym of a term in its word map, so a label written as
+/// one fits; another term's name is a mismatch that suggests that term.
+#[test]
+fn hpo_labels_are_compared_with_the_term_s_synonyms() {
+    let bytes = std::fs::read(root().join("vocab/hpo.rcx")).expect("vocab/hpo.rcx");
+    let hpo = rollcall::Index::open(bytes).expect("the HPO index opens");
+    let day = hpo.meta().coverage_to;
+    let list = "HP:0001658\tHeart attack\nHP:0002094\tTrouble breathing\nHP:0001658\tSeizure\n";
+    let r = check(&hpo, list, &rollcall::CheckOptions::on(day, false));
+    let labels = |i: usize| -> Vec<&rollcall::Finding> {
+        r.entries[i]
+            .findings
+            .iter()
+            .filter(|f| matches!(f.kind, Kind::LabelMismatch | Kind::LabelUnrecognised))
+            .collect()
+    };
+    assert!(labels(0).is_empty(), "{:?}", labels(0));
+    assert!(labels(1).is_empty(), "{:?}", labels(1));
+    let f = labels(2);
+    assert_eq!(f[0].kind, Kind::LabelMismatch, "{f:?}");
+    assert!(
+        f[0].suggestions.iter().any(|s| s.code == "HP:0001250"),
+        "{f:?}"
+    );
+}
