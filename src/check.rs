@@ -623,6 +623,72 @@ fn code_item(view: &View<'_>, code: &str) -> Item {
     }
 }
 
+/// The suggestions for a code that is no code: codes one or two edits
+/// away (see [`code::near`]), with the codes the label fits first.
+struct NearSuggestions {
+    suggestions: Vec<Suggestion>,
+    /// The first suggestion is there because the label fits it.
+    label_first: bool,
+    /// Some code is within two edits.
+    any_near: bool,
+}
+
+/// How many near codes a finding offers.
+const NEAR_LIMIT: usize = 12;
+
+fn near_suggestions(
+    view: &View<'_>,
+    c: &str,
+    label: Option<&str>,
+    period: &Period,
+    memo: &mut Memo,
+) -> NearSuggestions {
+    let mut sugg = Vec::new();
+    let near = code::rank_near(view, c, code::near(view, c), period, NEAR_LIMIT);
+    let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
+    let mut near_why: Vec<(u32, String)> = Vec::new();
+    for (o, d) in near {
+        let same = view.code(o).starts_with(c.get(..3).unwrap_or(c));
+        let live = view.billable_in(o, period);
+        let mut why = if code::is_swap(c, &view.code(o)) {
+            "two neighbouring characters swapped"
+        } else if d == 1 {
+            "one character different"
+        } else {
+            "two characters different"
+        }
+        .to_string();
+        if same {
+            why.push_str(", same category");
+        }
+        if !live {
+            why.push_str(", but not billable in the period");
+        }
+        near_why.push((o, why));
+    }
+    // Codes the label fits come first; a near code among them keeps both reasons.
+    for (o, why) in label_candidates(view, label, c, period, &near_ords, memo) {
+        match near_why.iter().position(|(n, _)| *n == o) {
+            Some(i) => {
+                let (_, near) = near_why.remove(i);
+                let why = why.replace(", same category", "");
+                sugg.push(suggestion(view, o, format!("{near}; {why}")));
+            }
+            None => sugg.push(suggestion(view, o, why)),
+        }
+    }
+    let label_first = !sugg.is_empty();
+    for (o, why) in near_why {
+        sugg.push(suggestion(view, o, why));
+    }
+    sugg.truncate(NEAR_LIMIT);
+    NearSuggestions {
+        suggestions: sugg,
+        label_first,
+        any_near: !near_ords.is_empty(),
+    }
+}
+
 pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
     Suggestion {
         code: view.display(&view.code(ord)),
@@ -791,13 +857,24 @@ fn judge(
                 e.findings.push(f.clone());
                 return;
             }
-            // The label may still name the code that was meant.
-            let sugg: Vec<Suggestion> =
+            // The label may still name the code that was meant; a code
+            // mistyped out of shape (`SR2.002B`, `436.810D`) gets the codes
+            // within two edits of it, as an unknown code does.
+            let other = other_systems(view, &written);
+            let typed = (3..=10).contains(&undotted.len())
+                && undotted.bytes().all(|b| b.is_ascii_alphanumeric())
+                && undotted.bytes().filter(u8::is_ascii_digit).count() >= 2
+                && !view.is_graph();
+            let sugg: Vec<Suggestion> = if other.is_none() && typed && *suggestions_left > 0 {
+                *suggestions_left -= 1;
+                near_suggestions(view, &undotted, e.label.as_deref(), period, memo).suggestions
+            } else {
                 label_candidates(view, e.label.as_deref(), &undotted, period, &[], memo)
                     .into_iter()
                     .map(|(o, why)| suggestion(view, o, why))
-                    .collect();
-            let f = match other_systems(view, &written) {
+                    .collect()
+            };
+            let f = match other {
                 Some((systems, message)) => {
                     e.status = Status::OtherSystem;
                     if let [one] = systems.as_slice() {
@@ -873,51 +950,14 @@ fn judge(
             }
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
-                let near = code::rank_near(view, &c, code::near(view, &c), period, 8);
-                let near_ords: Vec<u32> = near.iter().map(|(o, _)| *o).collect();
-                let mut near_why: Vec<(u32, String)> = Vec::new();
-                for (o, d) in near {
-                    let same = view.code(o).starts_with(c.get(..3).unwrap_or(&c));
-                    let live = view.billable_in(o, period);
-                    let mut why = if code::is_swap(&c, &view.code(o)) {
-                        "two neighbouring characters swapped"
-                    } else if d == 1 {
-                        "one character different"
-                    } else {
-                        "two characters different"
-                    }
-                    .to_string();
-                    if same {
-                        why.push_str(", same category");
-                    }
-                    if !live {
-                        why.push_str(", but not billable in the period");
-                    }
-                    near_why.push((o, why));
-                }
-                // Codes the label fits come first; a near code among them keeps both reasons.
-                for (o, why) in
-                    label_candidates(view, e.label.as_deref(), &c, period, &near_ords, memo)
-                {
-                    match near_why.iter().position(|(n, _)| *n == o) {
-                        Some(i) => {
-                            let (_, near) = near_why.remove(i);
-                            let why = why.replace(", same category", "");
-                            sugg.push(suggestion(view, o, format!("{near}; {why}")));
-                        }
-                        None => sugg.push(suggestion(view, o, why)),
-                    }
-                }
-                if !sugg.is_empty() {
+                let near = near_suggestions(view, &c, e.label.as_deref(), period, memo);
+                sugg = with_every_seventh(view, &c, near.suggestions);
+                if near.label_first {
                     msg.push_str(&format!("; its label fits {} best", sugg[0].code));
                 }
-                for (o, why) in near_why {
-                    sugg.push(suggestion(view, o, why));
-                }
-                if near_ords.is_empty() {
+                if !near.any_near {
                     msg.push_str("; no code is within two characters of it");
                 }
-                sugg.truncate(8);
             } else {
                 msg.push_str(&format!(
                     "; near codes were not searched (only the first {SUGGESTION_LIMIT} unknown codes of a list are)"
@@ -979,6 +1019,56 @@ fn judge(
 }
 
 /// Why an unknown code with a 7th character does not exist, when a rule says so.
+/// Every code the tabular list allows at the node of a code whose 7th
+/// character it does not allow, in the order of its rule.
+fn seventh_codes(view: &View<'_>, code: &str) -> Vec<u32> {
+    if code.len() != 7 || seventh_note(view, code).is_none() {
+        return Vec::new();
+    }
+    let base = &code[..6];
+    let stem = base.trim_end_matches('X');
+    let Some(rule) = view
+        .ordinal(base)
+        .or_else(|| view.ordinal(stem))
+        .and_then(|o| view.seventh_rule(o))
+    else {
+        return Vec::new();
+    };
+    rule.extensions
+        .iter()
+        .filter_map(|(c, _)| view.ordinal(&format!("{base}{c}")))
+        .collect()
+}
+
+/// The near suggestions of a code with a 7th character its node does not
+/// allow, with every allowed one among them (those already offered keep
+/// their place and reasons).
+fn with_every_seventh(view: &View<'_>, code: &str, near: Vec<Suggestion>) -> Vec<Suggestion> {
+    let seventh = seventh_codes(view, code);
+    if seventh.is_empty() {
+        return near;
+    }
+    let shown: Vec<String> = seventh
+        .iter()
+        .map(|&o| view.display(&view.code(o)))
+        .collect();
+    let (mut out, rest): (Vec<Suggestion>, Vec<Suggestion>) =
+        near.into_iter().partition(|s| shown.contains(&s.code));
+    for (&o, c) in seventh.iter().zip(&shown) {
+        if !out.iter().any(|s| &s.code == c) {
+            out.push(suggestion(
+                view,
+                o,
+                "a 7th character the tabular list allows here",
+            ));
+        }
+    }
+    let room = NEAR_LIMIT.max(out.len());
+    out.extend(rest);
+    out.truncate(room);
+    out
+}
+
 fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
     if code.len() != 7 {
         return None;

@@ -185,6 +185,11 @@ pub fn detect(text: &str) -> Detected {
     if sample.is_empty() {
         return plain;
     }
+    // Bullets, numbered items and markdown table rows make a draft, not a
+    // table, whatever commas its lines hold.
+    if sample.iter().any(|l| super::text::is_markdown_item(l)) {
+        return plain;
+    }
     let tabs = sample.iter().filter(|l| l.contains('\t')).count();
     let (delim_tsv, rows): (bool, Vec<Vec<String>>) = if tabs * 2 >= sample.len() {
         (
@@ -270,7 +275,7 @@ pub fn detect(text: &str) -> Detected {
             })
         })
         .count();
-    if more_codes * 2 > body.len() {
+    if more_codes * 2 >= body.len() && more_codes > 0 {
         return plain;
     }
     let label = if has_headings {

@@ -604,6 +604,11 @@ fn table_columns(lines: &[&str], head: usize, body: &[usize]) -> TableColumns {
     }
 }
 
+/// Whether a line is a markdown bullet, numbered item or table row.
+pub(crate) fn is_markdown_item(line: &str) -> bool {
+    item_start(line) > line.len() - line.trim_start().len() || markdown_table_row(line)
+}
+
 /// Whether a cell or phrase holds a code of a strong shape (`A00.0)`).
 pub(crate) fn has_strong_code(s: &str) -> bool {
     words(s, 0)

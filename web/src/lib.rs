@@ -8,6 +8,7 @@
 //! Every core error goes through [`fail`], which turns it into a JS `Error`
 //! with a readable message; nothing here panics on bad input.
 
+use rollcall::list::Reading;
 use rollcall::mixed::Primary;
 use rollcall::{CheckOptions, Date, Index};
 use serde::{Deserialize, Serialize};
@@ -36,6 +37,31 @@ export interface CheckOptionsInput {
   from?: string | null;
   to?: string | null;
   billable?: boolean;
+  /** How to read the list: "auto" (guess, the default), "lines", "table",
+   * "text", "json" or "workbook". */
+  reading?: string | null;
+}
+
+/** How a list was read (the report's `reading`; absent for plain lines or
+ * a table read without being told to). */
+export interface ReadFacts {
+  as: "lines" | "table" | "text" | "json" | "workbook";
+  form: string;
+  forced: boolean;
+  codes: number;
+  lines_with_codes: number;
+  lines: number;
+  sheets?: { name: string; rows: number; codes: number }[];
+  notes?: string[];
+}
+
+/** One code found in a draft: its line, and where it sits in the line's
+ * text (UTF-16 offsets, for the page's text area). */
+export interface DraftToken {
+  line: number;
+  start: number;
+  end: number;
+  code: string;
 }
 
 export type Severity = "error" | "warning" | "info";
@@ -73,6 +99,8 @@ export interface ListFinding {
 /** The check report: the same schema as the CLI's `--format json`. */
 export interface Report {
   vocabulary: string;
+  /** How the list was read; absent for plain lines or a table read without being told to. */
+  reading?: ReadFacts;
   index: { release: string; coverage_from: string; coverage_to: string; sources: unknown[]; notice?: string };
   /** `single_release` only for a one-release vocabulary (HPO): `on` is then its release day. */
   options: { on: string | null; from: string; to: string; billable: boolean; single_release?: boolean };
@@ -111,7 +139,7 @@ export interface CategoryCoverage {
 
 /** A change to the list; line numbers are those of the list as it is. */
 export type Edit =
-  | { op: "replace"; line: number; code: string }
+  | { op: "replace"; line: number; code: string; column?: number }
   | { op: "remove"; line: number }
   | { op: "add"; after: number; code: string; label?: string | null };
 
@@ -264,6 +292,21 @@ struct OptionsInput {
     to: Option<String>,
     #[serde(default)]
     billable: bool,
+    #[serde(default)]
+    reading: Option<String>,
+}
+
+/// The reading the page asked for (`auto` when none).
+fn reading_of(input: &OptionsInput) -> Result<Reading, String> {
+    match input.reading.as_deref().map(str::trim) {
+        None | Some("") => Ok(Reading::Auto),
+        Some(name) => Reading::parse(name).ok_or_else(|| {
+            format!(
+                "\u{201c}{name}\u{201d} is not a way to read a list (known: auto, {})",
+                Reading::FORCED.map(|r| r.name()).join(", ")
+            )
+        }),
+    }
 }
 
 fn parse_day(what: &str, text: &str) -> Result<Date, String> {
@@ -318,8 +361,14 @@ fn today() -> Date {
 #[derive(Deserialize, Debug, Clone, PartialEq, Eq)]
 #[serde(tag = "op", rename_all = "lowercase", deny_unknown_fields)]
 pub enum Edit {
-    /// Put `code` in place of the code written on `line`.
-    Replace { line: usize, code: String },
+    /// Put `code` in place of the code written on `line` (at `column`, the
+    /// code's 1-based column, when the line holds several codes).
+    Replace {
+        line: usize,
+        code: String,
+        #[serde(default)]
+        column: Option<usize>,
+    },
     /// Delete `line`.
     Remove { line: usize },
     /// Add a line with `code` (and `label`, in the label column) after `after`.
@@ -377,8 +426,8 @@ fn plain_code_range(line: &str, code: &str) -> Option<(usize, usize)> {
 }
 
 /// A new line holding `code` and `label` laid out like the rest of the list.
-fn new_line(layout: rollcall::input::Layout, code: &str, label: Option<&str>) -> String {
-    use rollcall::input::Layout;
+fn new_line(layout: rollcall::list::Layout, code: &str, label: Option<&str>) -> String {
+    use rollcall::list::Layout;
     let label = label.map(|l| l.replace(['\t', '\r', '\n'], " "));
     match layout {
         Layout::Plain => match label {
@@ -415,20 +464,37 @@ fn check_code(code: &str) -> Result<(), String> {
 /// Apply edits to a list, leaving every other character as it was (labels,
 /// other columns, line endings). All line numbers refer to `text` as given.
 pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
-    use rollcall::input::{Layout, LineKind};
-    let (layout, lines) = rollcall::input::parse_list(text);
+    edit_list_read(text, edits, Reading::Auto)
+}
+
+/// [`edit_list`] of a list read as `reading` says. A code found inside a
+/// longer line (markdown, prose, SQL, JSON) is replaced where it stands,
+/// so the draft keeps its form.
+pub fn edit_list_read(text: &str, edits: &[Edit], reading: Reading) -> Result<String, String> {
+    use rollcall::list::{Layout, LineKind};
+    let draft = rollcall::list::read(text, reading);
+    let layout = match draft.facts.reading {
+        Reading::Table => rollcall::list::table::detect_table(text).layout,
+        _ => Layout::Plain,
+    };
+    let lines = &draft.lines;
     let mut physical: Vec<Option<String>> = text.split('\n').map(|l| Some(l.to_string())).collect();
     let mut added: std::collections::BTreeMap<usize, Vec<String>> = Default::default();
-    let count = lines.len();
-    let entry_code = |line: usize| -> Result<&str, String> {
-        let Some(input) = lines.iter().find(|l| l.number == line) else {
-            return Err(format!("the list has no line {line}"));
+    let count = draft.line_count();
+    let entry_at =
+        |line: usize, column: Option<usize>| -> Result<&rollcall::list::InputLine, String> {
+            let mut on_line = lines.iter().filter(|l| l.number == line).peekable();
+            if on_line.peek().is_none() {
+                return Err(format!("the list has no line {line}"));
+            }
+            let found = on_line
+                .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
+                .find(|l| column.is_none() || l.column() == column);
+            found.ok_or_else(|| match column {
+                Some(c) => format!("line {line} holds no code at column {c}"),
+                None => format!("line {line} holds no code to replace"),
+            })
         };
-        match &input.kind {
-            LineKind::Entry { code, .. } => Ok(code.as_str()),
-            _ => Err(format!("line {line} holds no code to replace")),
-        }
-    };
     for edit in edits {
         match edit {
             Edit::Remove { line } => {
@@ -450,16 +516,28 @@ pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
             Edit::Replace {
                 line,
                 code: new_code,
+                column,
             } => {
-                let written = entry_code(*line)?;
+                let input = entry_at(*line, *column)?;
+                let LineKind::Entry { code: written, .. } = &input.kind else {
+                    return Err(format!("line {line} holds no code to replace"));
+                };
                 check_code(new_code)?;
-                let Some(raw) = physical[line - 1].as_mut() else {
+                let Some(raw) = physical.get_mut(line - 1).and_then(Option::as_mut) else {
                     return Err(format!("line {line} is removed by another change"));
                 };
                 let (body, cr) = match raw.strip_suffix('\r') {
                     Some(l) => (l.to_string(), "\r"),
                     None => (raw.clone(), ""),
                 };
+                if let Some((a, b)) = input
+                    .place
+                    .span
+                    .filter(|&(a, b)| body.get(a..b) == Some(written.as_str()))
+                {
+                    *raw = format!("{}{}{}{}", &body[..a], new_code, &body[b..], cr);
+                    continue;
+                }
                 let range = match layout {
                     Layout::Tsv(col, _) => {
                         let mut start = 0;
@@ -474,7 +552,7 @@ pub fn edit_list(text: &str, edits: &[Edit]) -> Result<String, String> {
                         found
                     }
                     Layout::Csv(col, _) => csv_cell_range(&body, col),
-                    Layout::Plain => plain_code_range(&body, written),
+                    Layout::Plain => plain_code_range(&body, written.as_str()),
                 };
                 let Some((a, b)) = range else {
                     return Err(format!(
@@ -560,8 +638,8 @@ impl Checker {
     /// Check a list (one entry per line). Returns the report in the CLI's
     /// JSON schema and keeps it for [`Checker::coverage`].
     pub fn check(&mut self, text: &str, options: JsCheckOptions) -> Result<JsReport, JsValue> {
-        let opts = self.options(options)?;
-        let (report, coverage) = self.checked(text, &opts);
+        let (opts, reading) = self.options_and_reading(options)?;
+        let (report, coverage) = self.checked(&rollcall::list::read(text, reading), &opts);
         let out = to_js(&report)?;
         self.last = Some(coverage);
         Ok(out.unchecked_into())
@@ -572,8 +650,26 @@ impl Checker {
     /// the objects across the boundary.
     #[wasm_bindgen(js_name = checkJson)]
     pub fn check_json(&mut self, text: &str, options: JsCheckOptions) -> Result<String, JsValue> {
-        let opts = self.options(options)?;
-        let (report, coverage) = self.checked(text, &opts);
+        let (opts, reading) = self.options_and_reading(options)?;
+        let (report, coverage) = self.checked(&rollcall::list::read(text, reading), &opts);
+        let out = serde_json::to_string(&report)
+            .map_err(|e| fail("could not hand the result to the page", e))?;
+        self.last = Some(coverage);
+        Ok(out)
+    }
+
+    /// Check a file as the CLI reads it (a spreadsheet workbook, or text in
+    /// UTF-8 or UTF-16): the report as JSON text, as [`Checker::check_json`].
+    #[wasm_bindgen(js_name = checkBytesJson)]
+    pub fn check_bytes_json(
+        &mut self,
+        bytes: &[u8],
+        options: JsCheckOptions,
+    ) -> Result<String, JsValue> {
+        let (opts, reading) = self.options_and_reading(options)?;
+        let draft = rollcall::list::read_bytes(bytes, reading)
+            .map_err(|e| fail("cannot read the file", e))?;
+        let (report, coverage) = self.checked(&draft, &opts);
         let out = serde_json::to_string(&report)
             .map_err(|e| fail("could not hand the result to the page", e))?;
         self.last = Some(coverage);
@@ -667,16 +763,23 @@ impl Checker {
 
     fn checked(
         &self,
-        text: &str,
+        draft: &rollcall::list::Draft,
         opts: &CheckOptions,
     ) -> (rollcall::Report, Vec<rollcall::CategoryCoverage>) {
         // Rows whose system column names a companion's system are checked
         // in it; a list without system cells is checked as before.
         let others: Vec<&Index<Vec<u8>>> = self.companions.iter().collect();
-        rollcall::mixed::check_listed(Primary::Index(&self.index), &others, text, opts)
+        rollcall::mixed::check_listed_draft(Primary::Index(&self.index), &others, draft, opts)
     }
 
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {
+        Ok(self.options_and_reading(options)?.0)
+    }
+
+    fn options_and_reading(
+        &self,
+        options: JsCheckOptions,
+    ) -> Result<(CheckOptions, Reading), JsValue> {
         let options: JsValue = options.into();
         let input: OptionsInput = if options.is_undefined() || options.is_null() {
             OptionsInput::default()
@@ -686,17 +789,19 @@ impl Checker {
                 let object: &js_sys::Object = options.unchecked_ref();
                 for key in js_sys::Object::keys(object).iter() {
                     let key = key.as_string().unwrap_or_default();
-                    if !matches!(key.as_str(), "on" | "from" | "to" | "billable") {
+                    if !matches!(key.as_str(), "on" | "from" | "to" | "billable" | "reading") {
                         return Err(fail(
                             "bad check options",
-                            format!("unknown option \u{201c}{key}\u{201d} (known: on, from, to, billable)"),
+                            format!("unknown option \u{201c}{key}\u{201d} (known: on, from, to, billable, reading)"),
                         ));
                     }
                 }
             }
             serde_wasm_bindgen::from_value(options).map_err(|e| fail("bad check options", e))?
         };
-        resolve_options(&input, today()).map_err(|e| fail("bad check options", e))
+        let reading = reading_of(&input).map_err(|e| fail("bad check options", e))?;
+        let opts = resolve_options(&input, today()).map_err(|e| fail("bad check options", e))?;
+        Ok((opts, reading))
     }
 
     /// For each category in the last checked list: billable codes included of
@@ -717,10 +822,20 @@ impl Checker {
     /// The list with some edits applied (replace a line's code, remove a
     /// line, add a line), every other character kept. Used to apply suggestions.
     #[wasm_bindgen(js_name = editList)]
-    pub fn edit_list(&self, text: &str, edits: JsEdits) -> Result<String, JsValue> {
+    pub fn edit_list(
+        &self,
+        text: &str,
+        edits: JsEdits,
+        reading: Option<String>,
+    ) -> Result<String, JsValue> {
         let edits: Vec<Edit> =
             serde_wasm_bindgen::from_value(edits.into()).map_err(|e| fail("bad edits", e))?;
-        edit_list(text, &edits).map_err(|e| fail("cannot apply the change", e))
+        let reading = reading_of(&OptionsInput {
+            reading,
+            ..OptionsInput::default()
+        })
+        .map_err(|e| fail("bad edits", e))?;
+        edit_list_read(text, &edits, reading).map_err(|e| fail("cannot apply the change", e))
     }
 
     /// Spans for many codes at once, keyed by the code as given.
@@ -745,6 +860,74 @@ impl Checker {
         let v = serde_json::json!({ "query": query, "date": day, "results": found });
         serde_json::to_string(&v).map_err(|e| fail("could not hand the result to the page", e))
     }
+}
+
+/// The codes the reader finds in a list, for marking them in the page's
+/// text area: JSON text `{ reading, tokens: [{ line, start, end, code }] }`,
+/// with `start` and `end` in UTF-16 units from the start of the text (as a
+/// textarea's selection counts); codes read whole from a line of a plain
+/// list or a table cover the code as written.
+#[wasm_bindgen(js_name = readDraft)]
+pub fn read_draft(text: &str, reading: Option<String>) -> Result<String, JsValue> {
+    let reading = reading_of(&OptionsInput {
+        reading,
+        ..OptionsInput::default()
+    })
+    .map_err(|e| fail("bad reading", e))?;
+    let draft = rollcall::list::read(text, reading);
+    serde_json::to_string(&serde_json::json!({
+        "reading": draft.facts,
+        "tokens": tokens_of(text, &draft),
+    }))
+    .map_err(|e| fail("could not hand the result to the page", e))
+}
+
+/// UTF-16 start of each line of `text` (lines split as the reader splits them).
+fn line_starts16(text: &str) -> Vec<usize> {
+    let mut starts = vec![0];
+    let mut units = 0;
+    let mut chars = text.chars().peekable();
+    while let Some(c) = chars.next() {
+        units += c.len_utf16();
+        if c == '\r' && chars.peek() == Some(&'\n') {
+            chars.next();
+            units += 1;
+            starts.push(units);
+        } else if c == '\n' || c == '\r' {
+            starts.push(units);
+        }
+    }
+    starts
+}
+
+fn tokens_of(text: &str, draft: &rollcall::list::Draft) -> Vec<serde_json::Value> {
+    use rollcall::list::LineKind;
+    let bom = usize::from(text.starts_with('\u{feff}'));
+    let starts = line_starts16(text);
+    draft
+        .lines
+        .iter()
+        .filter_map(|l| {
+            let LineKind::Entry { code, .. } = &l.kind else {
+                return None;
+            };
+            let base = *starts.get(l.number - 1)? + if l.number == 1 { bom } else { 0 };
+            let (a, b) = match l.place.span {
+                Some(span) => span,
+                None => {
+                    let at = l.text.find(code.as_str())?;
+                    (at, at + code.len())
+                }
+            };
+            let u16_at = |i: usize| l.text.get(..i).map(|t| t.encode_utf16().count());
+            Some(serde_json::json!({
+                "line": l.number,
+                "start": base + u16_at(a)?,
+                "end": base + u16_at(b)?,
+                "code": code,
+            }))
+        })
+        .collect()
 }
 
 /// Lower-case hex SHA-256 of some bytes (to compare a fetched index with its
@@ -835,7 +1018,44 @@ mod tests {
         Edit::Replace {
             line,
             code: code.into(),
+            column: None,
         }
+    }
+
+    #[test]
+    fn a_code_in_a_draft_is_replaced_where_it_stands() {
+        let md = "## Heart failure\n- **I5O.9** (Heart failure, unspecified)\n- I50.22, I50.99 and I10\n";
+        let fixed = edit_list(md, &[replace(2, "I50.9")]).unwrap();
+        assert_eq!(fixed, "## Heart failure\n- **I50.9** (Heart failure, unspecified)\n- I50.22, I50.99 and I10\n");
+        let second = Edit::Replace {
+            line: 3,
+            code: "I50.9".into(),
+            column: Some(11),
+        };
+        let fixed = edit_list(md, &[second]).unwrap();
+        assert!(fixed.ends_with("- I50.22, I50.9 and I10\n"), "{fixed}");
+        let sql = "WHERE dx IN ('E11.9', 'E1l.65')\n";
+        let fixed = edit_list(
+            sql,
+            &[Edit::Replace {
+                line: 1,
+                code: "E11.65".into(),
+                column: Some(24),
+            }],
+        )
+        .unwrap();
+        assert_eq!(fixed, "WHERE dx IN ('E11.9', 'E11.65')\n");
+    }
+
+    #[test]
+    fn tokens_are_in_utf16_offsets() {
+        let text = "é E11.9\n- I10 €\n";
+        let v: serde_json::Value = serde_json::from_str(&serde_json::to_string(&serde_json::json!({"t": tokens_of(text, &rollcall::list::read(text, Reading::Auto))})).unwrap()).unwrap();
+        let t = &v["t"];
+        assert_eq!(t[0]["start"], 2);
+        assert_eq!(t[0]["end"], 7);
+        assert_eq!(t[1]["start"], 10);
+        assert_eq!(t[1]["code"], "I10");
     }
 
     #[test]

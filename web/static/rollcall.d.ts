@@ -33,6 +33,29 @@ export interface CheckOptionsInput {
    * for the rows with no system cell, as the CLI's `--system NAME`.
    */
   system?: string;
+  /** How to read the list: "auto" (guess; default), "lines", "table", "text", "json", "workbook" (the CLI's `--read`). */
+  reading?: string;
+}
+
+/** How a list was read (the report's `reading`; absent for plain lines or a table read without being told to). */
+export interface ReadFacts {
+  as: "lines" | "table" | "text" | "json" | "workbook";
+  /** plain lines, csv, tsv, markdown, prose, sql, r, code literals, json, fhir valueset, fhir bundle, workbook... */
+  form: string;
+  forced: boolean;
+  codes: number;
+  lines_with_codes: number;
+  lines: number;
+  sheets?: { name: string; rows: number; codes: number }[];
+  notes?: string[];
+}
+
+/** A code the reader found in the text, with UTF-16 offsets (as a textarea's selection counts). */
+export interface DraftToken {
+  line: number;
+  start: number;
+  end: number;
+  code: string;
 }
 
 export type Severity = "error" | "warning" | "info";
@@ -58,6 +81,11 @@ export interface Entry {
   system: string | null;
   label: string | null;
   description: string | null;
+  /** 1-based column of the code, when it was found inside a longer line of a draft. */
+  column?: number;
+  /** Workbook sheet and row the entry was read from. */
+  sheet?: string;
+  row?: number;
   status: string;
   findings: Finding[];
 }
@@ -74,6 +102,8 @@ export interface ListFinding {
 /** The check report: the same schema as the CLI's `--format json`. */
 export interface Report {
   vocabulary: string;
+  /** How the list was read; absent for plain lines or a table read without being told to. */
+  reading?: ReadFacts;
   index: {
     release: string;
     coverage_from: string;
@@ -127,7 +157,7 @@ export interface CategoryCoverage {
 
 /** A change to the list; line numbers are those of the list as it is. */
 export type Edit =
-  | { op: "replace"; line: number; code: string }
+  | { op: "replace"; line: number; code: string; column?: number }
   | { op: "remove"; line: number }
   | { op: "add"; after: number; code: string; label?: string | null };
 
@@ -171,8 +201,12 @@ export class Checker {
   /** Check a list; the report in the CLI's JSON schema. */
   check(list: List, options?: CheckOptionsInput): Promise<Report>;
   checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
-  /** The list with edits applied, every other character kept. */
-  edit(text: string, edits: Edit[]): Promise<string>;
+  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods) or text in any form. */
+  checkFile(file: Blob | ArrayBuffer | Uint8Array, options?: CheckOptionsInput): Promise<CheckResult>;
+  /** How the core reads the list, and where each code sits in the text. */
+  read(list: List, reading?: string): Promise<{ reading: ReadFacts; tokens: DraftToken[] }>;
+  /** The list with edits applied, every other character kept (a code in a draft is replaced where it stands). */
+  edit(text: string, edits: Edit[], reading?: string): Promise<string>;
   timelines(codes: Iterable<string>): Promise<Timelines>;
   /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
   digest(list: List): Promise<string>;

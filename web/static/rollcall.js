@@ -191,9 +191,37 @@ export class Checker {
     return this.channel.ask("check", { text: listText(list), options: rest, system: system || undefined });
   }
 
-  /** The list with edits applied (replace a line's code, remove or add a line). */
-  edit(text, edits) {
-    return this.channel.ask("edit", { text: String(text), edits });
+  /**
+   * Check a file as the command line reads it: a spreadsheet workbook
+   * (.xlsx, .xls, .ods; each entry names its sheet and row) or text in any
+   * form. `file`: a Blob, an ArrayBuffer or a typed array.
+   */
+  async checkFile(file, options = {}) {
+    const bytes =
+      typeof Blob !== "undefined" && file instanceof Blob
+        ? new Uint8Array(await file.arrayBuffer())
+        : file instanceof ArrayBuffer
+          ? new Uint8Array(file.slice(0))
+          : new Uint8Array(file);
+    const { system, ...rest } = options ?? {};
+    return this.channel.ask("checkBytes", { bytes: bytes.buffer, options: rest }, [bytes.buffer]);
+  }
+
+  /**
+   * How the core reads a list, and where each code sits in the text:
+   * `{ reading, tokens: [{ line, start, end, code }] }` (UTF-16 offsets).
+   * `reading`: "auto" (default), "lines", "table", "text" or "json".
+   */
+  read(list, reading) {
+    return this.channel.ask("read", { text: listText(list), reading: reading || undefined });
+  }
+
+  /**
+   * The list with edits applied (replace a code where it stands, remove or
+   * add a line); `reading` as in `read`.
+   */
+  edit(text, edits, reading) {
+    return this.channel.ask("edit", { text: String(text), edits, reading: reading || undefined });
   }
 
   /** Billable and header spans per code (`null` for a code the index lacks). */

@@ -125,13 +125,20 @@ function needed(report) {
   return [...wanted].filter((name) => !companions.has(name));
 }
 
-async function check(text, options, system) {
+async function check(text, options, system, bytes) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
   // One JSON string across the boundary is much faster than building the
-  // report object by object (see Checker.checkJson).
+  // report object by object (see Checker.checkJson). A dropped file's bytes
+  // (a workbook) are read by the core as the command line reads them.
   const run = () =>
-    JSON.parse(system ? checker.checkShapesJson(system, text, options) : checker.checkJson(text, options));
+    JSON.parse(
+      bytes
+        ? checker.checkBytesJson(bytes, options)
+        : system
+          ? checker.checkShapesJson(system, text, options)
+          : checker.checkJson(text, options),
+    );
   let report = run();
   const wanted = needed(report);
   if (wanted.length) {
@@ -172,9 +179,15 @@ self.onmessage = async (event) => {
       case "check":
         result = await check(String(msg.text ?? ""), msg.options ?? {}, msg.system ? String(msg.system) : null);
         break;
+      case "checkBytes":
+        result = await check("", msg.options ?? {}, null, new Uint8Array(msg.bytes));
+        break;
+      case "read":
+        result = JSON.parse(wasm_bindgen.readDraft(String(msg.text ?? ""), msg.reading ? String(msg.reading) : undefined));
+        break;
       case "edit":
         if (!checker) throw new Error("the index is not loaded");
-        result = checker.editList(String(msg.text ?? ""), msg.edits ?? []);
+        result = checker.editList(String(msg.text ?? ""), msg.edits ?? [], msg.reading ? String(msg.reading) : undefined);
         break;
       case "compare": {
         if (!checker) throw new Error("the index is not loaded");
