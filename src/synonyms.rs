@@ -25,6 +25,9 @@ pub const HPO: &str = include_str!("synonyms/hpo.tsv");
 /// phrases the tables know, and each reading costs a fit or a search.
 pub const MOST_READINGS: usize = 12;
 
+/// Texts of more words than this are read in their own words only.
+pub const MOST_WORDS: usize = 60;
+
 /// Pairs of words or phrases (normalised) that tell codes apart in a way a
 /// label must not get wrong: a label with one and a description with the
 /// other (and neither with both) contradict each other (common practice:
@@ -158,7 +161,9 @@ fn at<'t>(t: &'t Table, words: &[String], i: usize) -> Vec<&'t Synonym> {
 pub fn readings(words: &[String]) -> Vec<Vec<String>> {
     let t = table();
     let mut out = vec![words.to_vec()];
-    if (0..words.len()).all(|i| at(t, words, i).is_empty()) {
+    // A paragraph pasted as a label is read in its own words (the walk
+    // below goes one word deep per step).
+    if words.len() > MOST_WORDS || (0..words.len()).all(|i| at(t, words, i).is_empty()) {
         return out;
     }
     let mut cur = Vec::new();
@@ -261,6 +266,15 @@ mod tests {
         assert_eq!(readings(&w("asthma")), [w("asthma")]);
         assert!(readings(&w("T2DM, poorly controlled"))
             .contains(&w("type 2 diabetes mellitus hyperglycemia")));
+    }
+
+    #[test]
+    fn a_long_text_is_read_in_its_own_words() {
+        let long = "ca ".repeat(5000);
+        let w = words::words(&long);
+        assert_eq!(readings(&w), [w.clone()]);
+        let some = words::words(&"ca ".repeat(MOST_WORDS));
+        assert!(readings(&some).len() <= MOST_READINGS);
     }
 
     #[test]
