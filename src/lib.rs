@@ -14,9 +14,11 @@
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`card`] gathers what is known of one code (timeline, place in the
+//!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
-//!   matching).
+//!   matching); [`find`] puts a code or code start before the words.
 //! - [`synonyms`] reads clinicians' words as the official wording (shorthand,
 //!   everyday words, HPO synonyms) for the label check and the search alike.
 //! - [`model`] holds the owned release model that indexes are written from.
@@ -26,10 +28,12 @@
 
 #![deny(missing_docs)]
 
+pub mod card;
 pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod find;
 pub mod index;
 pub mod label;
 pub mod list;

@@ -245,6 +245,96 @@ pub struct Release {
     /// Alternate ids and the code each stands for (HPO `alt_id`), sorted by
     /// alternate id. An alternate id is read as its code, with a note.
     pub aliases: Vec<(String, String)>,
+    /// The tabular list's instructional notes (ICD-10-CM), grouped by
+    /// owner: chapters first, then sections, then codes in code order; in
+    /// the order of the tabular list within one owner.
+    pub notes: Vec<Note>,
+}
+
+/// Where a tabular-list note is stated.
+#[derive(Clone, PartialEq, Eq, PartialOrd, Ord, Debug)]
+pub enum NoteOwner {
+    /// A chapter (index into [`Release::chapters`]).
+    Chapter(u16),
+    /// A section (index into [`Release::sections`]).
+    Section(u16),
+    /// A code or header node, undotted.
+    Code(String),
+}
+
+/// The kinds of instructional note of the ICD-10-CM tabular list (the
+/// element names of the CDC XML in brackets).
+#[derive(Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Debug, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum NoteKind {
+    /// Further defines the content of the node (`includes`).
+    Includes,
+    /// Another wording the node covers (`inclusionTerm`).
+    InclusionTerm,
+    /// Never coded together with the node (`excludes1`).
+    Excludes1,
+    /// Not part of the node, but may be coded with it (`excludes2`).
+    Excludes2,
+    /// The underlying condition is coded first (`codeFirst`).
+    CodeFirst,
+    /// A further code is added (`useAdditionalCode`).
+    UseAdditionalCode,
+    /// Another code may be needed, in either order (`codeAlso`).
+    CodeAlso,
+    /// A plain note (`notes`).
+    Note,
+    /// How the 7th character applies (`sevenChrNote`).
+    SeventhCharacter,
+}
+
+impl NoteKind {
+    /// Every kind, in the order of its number in an index file.
+    pub const ALL: [NoteKind; 9] = [
+        NoteKind::Includes,
+        NoteKind::InclusionTerm,
+        NoteKind::Excludes1,
+        NoteKind::Excludes2,
+        NoteKind::CodeFirst,
+        NoteKind::UseAdditionalCode,
+        NoteKind::CodeAlso,
+        NoteKind::Note,
+        NoteKind::SeventhCharacter,
+    ];
+
+    /// The kind of an element of the CDC tabular XML, if it holds notes.
+    pub fn of_element(name: &str) -> Option<NoteKind> {
+        Some(match name {
+            "includes" => NoteKind::Includes,
+            "inclusionTerm" => NoteKind::InclusionTerm,
+            "excludes1" => NoteKind::Excludes1,
+            "excludes2" => NoteKind::Excludes2,
+            "codeFirst" => NoteKind::CodeFirst,
+            "useAdditionalCode" => NoteKind::UseAdditionalCode,
+            "codeAlso" => NoteKind::CodeAlso,
+            "notes" => NoteKind::Note,
+            "sevenChrNote" => NoteKind::SeventhCharacter,
+            _ => return None,
+        })
+    }
+
+    /// Whether the note holds for the codes under its node too. Inclusion
+    /// terms are wordings of the node itself; the other notes of a category
+    /// or block apply to everything in it (ICD-10-CM Official Guidelines,
+    /// section I.A, conventions; cited from memory).
+    pub fn inherited(self) -> bool {
+        self != NoteKind::InclusionTerm
+    }
+}
+
+/// One instructional note of the tabular list.
+#[derive(Clone, PartialEq, Eq, Debug)]
+pub struct Note {
+    /// Where it is stated.
+    pub owner: NoteOwner,
+    /// What kind of note.
+    pub kind: NoteKind,
+    /// Its text, spaces collapsed.
+    pub text: String,
 }
 
 /// A mapping between two vocabularies, one row per source-target pair, in

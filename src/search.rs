@@ -198,6 +198,17 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
 /// assert_eq!(view.code(hits[0].ord), "E1165");
 /// ```
 pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
+    search_within(view, query, opts, None)
+}
+
+/// [`search`] among the codes of `within` only (ordinals, ascending): a
+/// part of the tree, when the query starts with a code ([`crate::find`]).
+pub fn search_within(
+    view: &View<'_>,
+    query: &str,
+    opts: &SearchOptions,
+    within: Option<&[u32]>,
+) -> Vec<Hit> {
     let readings = synonyms::readings(&words::words(query));
     let mut hits: Vec<Hit> = Vec::new();
     let mut at: std::collections::HashMap<u32, usize> = std::collections::HashMap::new();
@@ -209,7 +220,7 @@ pub fn search(view: &View<'_>, query: &str, opts: &SearchOptions) -> Vec<Hit> {
         SEARCHED_READINGS
     };
     for q in readings.iter().take(searched) {
-        for h in search_words(view, q, opts) {
+        for h in search_words(view, q, opts, within) {
             match at.get(&h.ord) {
                 Some(&i) if hits[i].score >= h.score => {}
                 Some(&i) => hits[i] = h,
@@ -232,8 +243,14 @@ const SEARCHED_READINGS: usize = 4;
 /// A query of more words than this is searched in its own words only.
 const LONG_QUERY: usize = 8;
 
-/// The codes that best fit the normalised words `q` (one reading).
-fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit> {
+/// The codes of `within` (all when none) that best fit the normalised
+/// words `q` (one reading).
+fn search_words(
+    view: &View<'_>,
+    q: &[String],
+    opts: &SearchOptions,
+    within: Option<&[u32]>,
+) -> Vec<Hit> {
     let mut q = q.to_vec();
     let mut seen = std::collections::HashSet::new();
     q.retain(|w| seen.insert(w.clone()));
@@ -300,6 +317,9 @@ fn search_words(view: &View<'_>, q: &[String], opts: &SearchOptions) -> Vec<Hit>
             best_w[o as usize] = 0.0;
         }
         touched.clear();
+    }
+    if let Some(w) = within {
+        any.retain(|o| w.binary_search(o).is_ok());
     }
     // Keep the strongest candidates, then re-rank them by their description.
     any.sort_unstable_by(|a, b| {
@@ -568,32 +588,35 @@ pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool)
     };
     search(view, query, &opts)
         .into_iter()
-        .map(|h| {
-            let o = h.ord;
-            // A stated hierarchy has no headers: a code is in use or retired.
-            let status = if view.is_graph() {
-                if view.billable(o).any(|p| p.contains(day)) {
-                    "in-use"
-                } else {
-                    "retired"
-                }
-            } else if view.billable(o).any(|p| p.contains(day)) {
-                "billable"
-            } else if view.header(o).any(|p| p.contains(day)) {
-                "header"
-            } else {
-                "not-in-use"
-            };
-            Found {
-                code: view.display(&view.code(o)),
-                description: view.description(o),
-                status,
-                billable_from: view.billable(o).map(|p| p.from).min(),
-                billable_to: view.billable(o).map(|p| p.to).max(),
-                fit: (h.fit.label as f64 * 100.0).round() / 100.0,
-            }
-        })
+        .map(|h| found(view, h.ord, day, h.fit.label))
         .collect()
+}
+
+/// The code at `ord` as [`find`] shows it, as of `day`, with the share of
+/// the query's words its description has.
+pub fn found(view: &View<'_>, o: u32, day: Date, fit: f32) -> Found {
+    // A stated hierarchy has no headers: a code is in use or retired.
+    let status = if view.is_graph() {
+        if view.billable(o).any(|p| p.contains(day)) {
+            "in-use"
+        } else {
+            "retired"
+        }
+    } else if view.billable(o).any(|p| p.contains(day)) {
+        "billable"
+    } else if view.header(o).any(|p| p.contains(day)) {
+        "header"
+    } else {
+        "not-in-use"
+    };
+    Found {
+        code: view.display(&view.code(o)),
+        description: view.description(o),
+        status,
+        billable_from: view.billable(o).map(|p| p.from).min(),
+        billable_to: view.billable(o).map(|p| p.to).max(),
+        fit: (fit as f64 * 100.0).round() / 100.0,
+    }
 }
 
 #[cfg(test)]

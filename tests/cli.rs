@@ -587,3 +587,124 @@ fn a_system_column_checks_each_row_in_its_system() {
     assert_eq!(at(5), ("valid".into(), "icd10cm".into()));
     assert_eq!(at(7), ("other-system".into(), "icd10cm".into()));
 }
+
+/// `show` gives a card per code. Source for the facts: the CDC tabular list
+/// (April 2026 XML: E11.6 "Type 2 diabetes mellitus with other specified
+/// complications" in section E08-E13 of chapter 4, its children E11.61 to
+/// E11.69; E11's Excludes1 note naming E08.-) and the 2015 GEMs (E11.9 maps
+/// back to 250.00).
+#[test]
+fn show_prints_a_card_in_text_and_json() {
+    let o = rollcall(&["show", "E11.6", "--on", "2026-06-01"], None);
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let t = out(&o);
+    for says in [
+        "E11.6  Type 2 diabetes mellitus with other specified complications",
+        "section E08-E13: Diabetes mellitus",
+        "children (6):",
+        "E11.62     Type 2 diabetes mellitus with skin complications  (header, 4 billable under it)",
+        "Excludes1: diabetes mellitus due to underlying condition (E08.-)  [at code E11]",
+        "not coding or billing advice",
+    ] {
+        assert!(t.contains(says), "{says} in:\n{t}");
+    }
+    let o = rollcall(
+        &[
+            "show",
+            "E11.9",
+            "E11.65",
+            "--on",
+            "2026-06-01",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap();
+    assert_eq!(v["vocabulary"], "icd10cm");
+    assert_eq!(v["options"]["on"], "2026-06-01");
+    let cards = v["cards"].as_array().unwrap();
+    assert_eq!(cards.len(), 2);
+    let e119 = &cards[0];
+    assert_eq!(e119["code"], "E11.9");
+    assert_eq!(e119["status"], "billable");
+    assert_eq!(e119["chapter"]["code"], "4");
+    assert_eq!(e119["section"]["code"], "E08-E13");
+    assert_eq!(e119["ancestors"][0]["code"], "E11");
+    assert_eq!(e119["timeline"][0]["state"], "billable");
+    assert!(e119["siblings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|s| s["code"] == "E11.8"));
+    assert!(e119["mappings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|m| m["code"] == "250.00" && m["role"] == "source"));
+}
+
+#[test]
+fn show_an_unknown_code_exits_1_with_suggestions_and_bad_options_exit_2() {
+    let o = rollcall(&["show", "E11.66", "--on", "2026-06-01"], None);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(out(&o).contains("status: unknown"), "{}", out(&o));
+    assert!(out(&o).contains("try E11.65"), "{}", out(&o));
+    let o = rollcall(&["show"], None);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("show needs one or more codes"));
+    let o = rollcall(&["show", "E11.9", "--format", "csv"], None);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(rollcall(&["--help"], None)
+        .stdout
+        .windows(13)
+        .any(|w| w == b"rollcall show"));
+}
+
+/// `find E11.6` answers with that node, then what lies under it (the CDC
+/// tabular list: E11.61 Type 2 diabetes mellitus with diabetic arthropathy
+/// comes next, E11.621 "with foot ulcer" lies under it); words after the
+/// code search that part of the tree only.
+#[test]
+fn find_takes_a_code_first() {
+    let o = rollcall(&["find", "E11.6", "--date", "2026-06-01"], None);
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let t = out(&o);
+    let firsts: Vec<&str> = t
+        .lines()
+        .map(|l| l.split_whitespace().next().unwrap())
+        .collect();
+    assert_eq!(&firsts[..3], ["E11.6", "E11.61", "E11.610"], "{t}");
+    assert!(firsts.iter().all(|c| c.starts_with("E11.6")), "{t}");
+    let o = rollcall(
+        &[
+            "find",
+            "E11.6",
+            "foot",
+            "--date",
+            "2026-06-01",
+            "--format",
+            "json",
+        ],
+        None,
+    );
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap();
+    assert_eq!(v["within"], "E11.6");
+    let results = v["results"].as_array().unwrap();
+    assert_eq!(results[0]["code"], "E11.621");
+    assert!(results
+        .iter()
+        .all(|r| r["code"].as_str().unwrap().starts_with("E11.6")));
+    let o = rollcall(&["find", "E11.7", "--date", "2026-06-01"], None);
+    assert_eq!(o.status.code(), Some(0));
+    assert!(out(&o).contains("no code starts with E11.7"), "{}", out(&o));
+    // Words alone still search every code.
+    let o = rollcall(
+        &[
+            "find", "type", "2", "diabetes", "foot", "ulcer", "--limit", "1",
+        ],
+        None,
+    );
+    assert!(out(&o).starts_with("E11.621"), "{}", out(&o));
+}

@@ -443,3 +443,83 @@ fn a_term_in_use_with_a_term_to_consider_gets_a_note() {
         s.consider.iter().map(String::as_str).collect::<Vec<_>>()
     );
 }
+
+/// Source: the `is_a`, `replaced_by`, `consider` and `alt_id` lines of the
+/// release file: for every term, a card's parents are the file's `is_a`
+/// and its children their inverse; an obsolete term's card names its
+/// replacement and the terms to consider, a term's card its alternate ids.
+#[test]
+fn cards_give_the_files_parents_children_and_obsolete_links() {
+    use rollcall::card;
+    let file = stanzas();
+    let i = hpo();
+    let v = i.view();
+    let day = v.meta().coverage_from;
+    let mut kids: BTreeMap<&str, BTreeSet<String>> = BTreeMap::new();
+    for (id, s) in &file {
+        for p in &s.is_a {
+            kids.entry(p.as_str()).or_default().insert(id.clone());
+        }
+    }
+    for (id, s) in &file {
+        let o = v.ordinal(id).unwrap();
+        let parents: BTreeSet<String> = card::parents_on(&v, o, day)
+            .into_iter()
+            .map(|p| v.code(p))
+            .collect();
+        assert_eq!(parents, s.is_a, "parents of {id}");
+        let children: BTreeSet<String> = card::children_on(&v, o, day)
+            .into_iter()
+            .map(|c| v.code(c))
+            .collect();
+        assert_eq!(
+            children,
+            kids.remove(id.as_str()).unwrap_or_default(),
+            "children of {id}"
+        );
+    }
+    // Whole cards of a few terms. From the file: HP:0001425 "obsolete
+    // Heterogeneous", replaced_by HP:0000005, which lists it as an alt_id.
+    let c = card::cards(
+        &i,
+        &[],
+        &["HP:0001425", "HP:0000005", "HP:0001250"],
+        &opts(),
+    );
+    let obsolete = &c.cards[0];
+    assert_eq!(obsolete.status, "obsolete");
+    let replaced: Vec<&str> = obsolete
+        .successors
+        .iter()
+        .map(|s| s.code.as_str())
+        .collect();
+    let want: Vec<&str> = file["HP:0001425"]
+        .replaced_by
+        .iter()
+        .map(String::as_str)
+        .collect();
+    assert_eq!(replaced, want);
+    let consider: Vec<&str> = obsolete.consider.iter().map(|s| s.code.as_str()).collect();
+    let want: Vec<&str> = file["HP:0001425"]
+        .consider
+        .iter()
+        .map(String::as_str)
+        .collect();
+    assert_eq!(consider, want);
+    let alts: BTreeSet<&str> = c.cards[1]
+        .alternate_ids
+        .iter()
+        .map(String::as_str)
+        .collect();
+    let want: BTreeSet<&str> = file["HP:0000005"]
+        .alt_ids
+        .iter()
+        .map(String::as_str)
+        .collect();
+    assert_eq!(alts, want);
+    // Seizure (HP:0001250): its parents are the file's is_a, in a card.
+    let seizure = &c.cards[2];
+    assert_eq!(seizure.status, "in-use");
+    let parents: BTreeSet<String> = seizure.parents.iter().map(|p| p.code.clone()).collect();
+    assert_eq!(parents, file["HP:0001250"].is_a);
+}

@@ -121,6 +121,7 @@ fn arb_release() -> impl Strategy<Value = Release> {
                     .collect(),
                 hierarchy: Default::default(),
                 aliases: Vec::new(),
+                notes: Vec::new(),
             }
         })
 }
@@ -234,6 +235,7 @@ fn arb_stated_release() -> impl Strategy<Value = Release> {
                 mappings: vec![],
                 hierarchy: Hierarchy::Explicit,
                 aliases,
+                notes: Vec::new(),
             }
         })
 }

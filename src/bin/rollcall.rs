@@ -59,7 +59,10 @@ usage:
   rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
                         [--format text|json|csv]
   rollcall info [--format text|json] [--index PATH]
-  rollcall find WORDS... [--date DATE] [--limit N] [--format text|json] [--index PATH]
+  rollcall find WORDS...|CODE [WORDS...] [--date DATE] [--limit N] [--format text|json]
+                        [--index PATH]
+  rollcall show CODE... [--on DATE | --from DATE --to DATE] [--system NAME | --index PATH]
+                        [--format text|json]
 
   FILE       any list or draft: plain lines (code, then an optional label), CSV or TSV
              with a code column, markdown, prose, SQL/R/Python literals, JSON or a FHIR
@@ -84,7 +87,13 @@ usage:
              period; --format csv writes one row per code only one list reaches
   find       codes whose descriptions fit the words (misspellings and abbreviations
              such as DM, HTN, w/o allowed); --date: prefer codes in use that day
-             (default: today), --limit: how many (default 10)
+             (default: today), --limit: how many (default 10); a code or code start
+             first (E11.6) lists that node and what lies under it, and narrows the
+             words after it to that part of the tree (E11.6 foot)
+  show       a card per code, node or code start: status and timeline across the
+             releases, chapter, section and ancestors, children and siblings in force
+             on the day (the last day of a period), the tabular list's notes, successors,
+             predecessors and GEM mappings; an unknown code gets the check's suggestions
 
 exit status: 0 no errors found (compare: and both lists reach the same codes),
              1 error-level findings (compare: or the lists differ), 2 usage or input error.
@@ -122,10 +131,9 @@ struct Args {
 fn parse(argv: &[String]) -> Result<Args, Usage> {
     let mut a = Args::default();
     let mut it = argv.iter();
-    a.command = it
-        .next()
-        .cloned()
-        .ok_or_else(|| Usage("a command is needed: check, compare or info".into()))?;
+    a.command = it.next().cloned().ok_or_else(|| {
+        Usage("a command is needed: check, compare, translate, info, find or show".into())
+    })?;
     while let Some(arg) = it.next() {
         let mut value = || {
             it.next()
@@ -519,8 +527,46 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             write_out(&out);
             Ok(ExitCode::SUCCESS)
         }
+        "show" => {
+            if !matches!(format.as_str(), "text" | "json") {
+                return Err(format!(
+                    "--format must be text or json for show, not {format}"
+                ));
+            }
+            if a.billable || a.into.is_some() {
+                return Err("show takes codes, --on or --from/--to, --system, --index and --format".into());
+            }
+            if a.files.is_empty() {
+                return Err("show needs one or more codes, e.g. rollcall show E11.6".into());
+            }
+            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let codes: Vec<&str> = a.files.iter().map(String::as_str).collect();
+            let cards = match target(&a)? {
+                Target::Index(l) => {
+                    let i = l.index();
+                    rollcall::card::cards(i, &companions(i)?, &codes, &opts)
+                }
+                Target::Shapes(s) => {
+                    return Err(format!(
+                        "show needs the content of the system; rollcall has no {} index (bundled: icd10cm, icd10pcs, icd9cm, hpo)",
+                        s.title()
+                    ))
+                }
+            };
+            let out = match format.as_str() {
+                "json" => serde_json::to_string_pretty(&cards).map_err(|e| e.to_string())? + "\n",
+                _ => render::cards_text(&cards),
+            };
+            write_out(&out);
+            let known = cards.cards.iter().all(|c| c.problem.is_none());
+            Ok(if known {
+                ExitCode::SUCCESS
+            } else {
+                ExitCode::from(1)
+            })
+        }
         other => Err(format!(
-            "unknown command \"{other}\"; the commands are check, compare and info (see rollcall --help)"
+            "unknown command \"{other}\"; the commands are check, compare, translate, info, find and show (see rollcall --help)"
         )),
     }
 }
@@ -599,18 +645,33 @@ fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
     }
     let day = day.unwrap_or_else(today);
     let loaded = load_index(index.as_deref()).map_err(Usage)?;
-    let found = match &loaded {
-        Loaded::Bundled(i) => rollcall::search::find(&i.view(), &query, day, limit, true),
-        Loaded::File(i, _) => rollcall::search::find(&i.view(), &query, day, limit, true),
-    };
+    let finds = rollcall::find::find(&loaded.index().view(), &query, day, limit, true);
+    let found = &finds.results;
     let out = if format == "json" {
-        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        let v = serde_json::json!({
+            "query": query,
+            "date": day,
+            "within": finds.within,
+            "no_code": finds.no_code,
+            "results": found,
+        });
         serde_json::to_string_pretty(&v).map_err(|e| Usage(e.to_string()))? + "\n"
+    } else if let Some(start) = &finds.no_code {
+        format!("no code starts with {start}; check the code, or search by words\n")
     } else if found.is_empty() {
-        format!("no code fits \"{query}\"\n")
+        match &finds.within {
+            Some(w) => format!(
+                "no code under {w} fits \"{}\"\n",
+                query
+                    .trim()
+                    .split_once(char::is_whitespace)
+                    .map_or("", |x| x.1.trim())
+            ),
+            None => format!("no code fits \"{query}\"\n"),
+        }
     } else {
         let mut s = String::new();
-        for f in &found {
+        for f in found {
             let span = match (f.status, f.billable_from, f.billable_to) {
                 ("in-use", Some(a), Some(b)) if a == b => format!("in use in release {a}"),
                 ("in-use", Some(a), Some(b)) => format!("in use {a} to {b}"),

@@ -5,14 +5,15 @@
 mod bytes;
 mod extra;
 mod maps;
+mod notes;
 pub mod write;
 
 pub use maps::MapView;
 
 use crate::date::Date;
 use crate::model::{
-    Chapter, CodeEntry, Hierarchy, Mapping, Meta, Period, Release, Section, SeventhRule, Source,
-    Successor,
+    Chapter, CodeEntry, Hierarchy, Mapping, Meta, Note, NoteKind, NoteOwner, Period, Release,
+    Section, SeventhRule, Source, Successor,
 };
 use crate::sha256;
 use bytes::{u32_at, In};
@@ -137,6 +138,8 @@ pub struct Index<D> {
     maps: Option<(usize, usize)>,
     /// Where the optional sections of [`extra`] are.
     extras: Vec<([u8; 4], (usize, usize))>,
+    /// Where the tabular list's notes are, if the index has them.
+    notes: Option<(usize, usize)>,
 }
 
 impl<D: AsRef<[u8]>> Index<D> {
@@ -226,6 +229,9 @@ impl<D: AsRef<[u8]>> Index<D> {
             .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
             .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
+        // The notes are read on first use (a damaged section reads as none),
+        // so opening stays a header check.
+        let notes = find.get(&b"NOTE"[..]).copied();
         let rec_blocks = len.div_ceil(REC_BLOCK);
         let wide = pard.1 == len * 4 && len > 0;
         let col = if wide { 4 } else { 2 };
@@ -267,6 +273,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             tree,
             maps,
             extras,
+            notes,
         })
     }
 
@@ -327,6 +334,8 @@ impl<D: AsRef<[u8]>> Index<D> {
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
             extra: extra::read(|t| slice_of(b, &self.extras, t), l.len, false).unwrap_or_default(),
+            notes_at: self.notes.map(s),
+            notes: std::cell::OnceCell::new(),
         }
     }
 
@@ -379,6 +388,21 @@ impl<D: AsRef<[u8]>> Index<D> {
                 Hierarchy::Prefix
             },
             aliases: v.aliases(),
+            notes: {
+                let (t, data) = v.notes_table();
+                t.all(data)
+            }
+            .into_iter()
+            .map(|(tag, at, kind, text)| Note {
+                owner: match tag {
+                    notes::Notes::CODE => NoteOwner::Code(v.code(at)),
+                    notes::Notes::CHAPTER => NoteOwner::Chapter(at as u16),
+                    _ => NoteOwner::Section(at as u16),
+                },
+                kind,
+                text,
+            })
+            .collect(),
         }
     }
 }
@@ -568,6 +592,9 @@ pub struct View<'a> {
     known: std::cell::RefCell<std::collections::HashMap<u32, Box<str>>>,
     /// The optional sections (stated hierarchy, statuses, alternate ids).
     extra: extra::Extra<'a>,
+    /// The `NOTE` section's bytes, read into [`notes`](Self::notes) on first use.
+    notes_at: Option<&'a [u8]>,
+    notes: std::cell::OnceCell<notes::Notes>,
 }
 
 impl<'a> View<'a> {
@@ -962,6 +989,15 @@ impl<'a> View<'a> {
             .and_then(|i| self.tree.seventh.get(i as usize))
     }
 
+    /// The 7th-character rule in force at this node and the node that
+    /// states it (itself or its nearest ancestor with a rule).
+    pub fn seventh_rule_at(&self, ord: u32) -> Option<(u32, &'a SeventhRule)> {
+        std::iter::once(ord)
+            .chain(self.ancestors(ord))
+            .find_map(|o| Some((o, self.own_seventh(o)?)))
+            .and_then(|(o, i)| Some((o, self.tree.seventh.get(i as usize)?)))
+    }
+
     /// The section whose category range holds this code, and its chapter.
     pub fn section_of(&self, code: &str) -> Option<(&'a Section, Option<&'a Chapter>)> {
         let cat = code.get(..3.min(code.len()))?;
@@ -983,6 +1019,37 @@ impl<'a> View<'a> {
         } else {
             d
         }
+    }
+
+    fn notes_table(&self) -> (&notes::Notes, &'a [u8]) {
+        let data = self.notes_at.unwrap_or_default();
+        let table = self
+            .notes
+            .get_or_init(|| notes::Notes::read(data).unwrap_or_default());
+        (table, data)
+    }
+
+    /// Whether the index carries the tabular list's notes.
+    pub fn has_notes(&self) -> bool {
+        self.notes_at.is_some()
+    }
+
+    /// The tabular list's notes stated at a code, in tabular order.
+    pub fn notes(&self, ord: u32) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_code(data, ord)
+    }
+
+    /// The notes stated at a chapter (index into [`chapters`](Self::chapters)).
+    pub fn chapter_notes(&self, i: usize) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_chapter(data, i as u16)
+    }
+
+    /// The notes stated at a section (index into [`sections`](Self::sections)).
+    pub fn section_notes(&self, i: usize) -> Vec<(NoteKind, String)> {
+        let (t, data) = self.notes_table();
+        t.of_section(data, i as u16)
     }
 
     /// The mappings the index carries (the GEMs, in the ICD-9-CM index).

@@ -287,6 +287,11 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
         ));
     }
     sections.extend(super::extra::write(release, &ordinal).map_err(WriteError::Links)?);
+    // NOTE: the tabular list's notes, only when the release has some.
+    let notes = super::notes::write(&release.notes, &ordinal).map_err(WriteError::Links)?;
+    if !notes.is_empty() {
+        sections.push((*b"NOTE", notes));
+    }
 
     Ok(assemble(&sections))
 }

@@ -1,8 +1,10 @@
-//! Text and CSV forms of a report (JSON is the report's serde form), and of
-//! a comparison (`compare`).
+//! Text and CSV forms of a report (JSON is the report's serde form), of
+//! a comparison (`compare`), a translation and code cards (`show`).
 
+pub mod card;
 mod compare;
 mod translate;
+pub use card::cards_text;
 pub use compare::{comparison_csv, comparison_text};
 pub use translate::{translation_csv, translation_text};
 

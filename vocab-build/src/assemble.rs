@@ -4,7 +4,9 @@
 //! successors, chapters, sections and 7th-character rules.
 
 use crate::{conversion, history, order, tabular};
-use rollcall::model::{shape_of, CodeEntry, Meta, Period, Release, SeventhRule, Source, Successor};
+use rollcall::model::{
+    shape_of, CodeEntry, Meta, Note, NoteOwner, Period, Release, SeventhRule, Source, Successor,
+};
 use std::collections::{BTreeMap, BTreeSet, HashMap, HashSet};
 
 /// A tree (a tabular file or an order file) and the days it was in force.
@@ -338,6 +340,15 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         .last()
         .map(|(_, t)| (t.chapters.clone(), t.sections.clone()))
         .unwrap_or_default();
+    let notes = inp
+        .tabulars
+        .last()
+        .map(|(_, t)| notes_of(t, &sections, &kept))
+        .unwrap_or_default();
+    progress(format!(
+        "tabular notes (newest tabular list): {}",
+        notes.len()
+    ));
     Release {
         meta: Meta {
             vocabulary: inp.vocabulary.id.into(),
@@ -358,7 +369,60 @@ pub fn assemble(mut inp: Inputs, progress: &mut dyn FnMut(String)) -> Release {
         mappings: inp.mappings,
         hierarchy: Default::default(),
         aliases: Vec::new(),
+        notes,
     }
+}
+
+/// The notes of one tabular list by owner: chapters, then sections, then
+/// the kept codes in code order. A block the section index does not list
+/// (`C00-C96` around `C00-C14` ...) hands its notes to each listed section
+/// inside its range, since they hold for every code there.
+fn notes_of(
+    t: &tabular::Tabular,
+    sections: &[rollcall::model::Section],
+    kept: &HashSet<String>,
+) -> Vec<Note> {
+    let mut notes: Vec<Note> = t
+        .chapter_notes
+        .iter()
+        .map(|(c, kind, text)| Note {
+            owner: NoteOwner::Chapter(*c),
+            kind: *kind,
+            text: text.clone(),
+        })
+        .collect();
+    for (first, last, kind, text) in &t.section_notes {
+        let exact = sections
+            .iter()
+            .position(|s| &s.first == first && &s.last == last);
+        let inside: Vec<usize> = match exact {
+            Some(i) => vec![i],
+            None => (0..sections.len())
+                .filter(|&i| &sections[i].first >= first && &sections[i].last <= last)
+                .collect(),
+        };
+        for i in inside {
+            notes.push(Note {
+                owner: NoteOwner::Section(i as u16),
+                kind: *kind,
+                text: text.clone(),
+            });
+        }
+    }
+    let mut by_code: Vec<&tabular::Node> =
+        t.nodes.iter().filter(|n| kept.contains(&n.code)).collect();
+    by_code.sort_by(|a, b| a.code.cmp(&b.code));
+    for n in by_code {
+        for (kind, text) in &n.notes {
+            notes.push(Note {
+                owner: NoteOwner::Code(n.code.clone()),
+                kind: *kind,
+                text: text.clone(),
+            });
+        }
+    }
+    notes.sort_by(|a, b| a.owner.cmp(&b.owner));
+    notes
 }
 
 /// Sorts and joins overlapping or adjacent periods.

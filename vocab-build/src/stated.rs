@@ -186,5 +186,6 @@ pub fn build(about: About, mut terms: Vec<Term>) -> Result<Release, BuildError> 
         mappings: Vec::new(),
         hierarchy: Hierarchy::Explicit,
         aliases: aliases.into_iter().collect(),
+        notes: Vec::new(),
     })
 }

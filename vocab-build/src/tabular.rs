@@ -3,7 +3,7 @@
 //! with its description and any 7th-character rule stated at it.
 
 use crate::xml::{Event, Reader, XmlError};
-use rollcall::model::{Chapter, Section};
+use rollcall::model::{Chapter, NoteKind, Section};
 
 /// One `diag` element.
 #[derive(Debug, Clone)]
@@ -16,6 +16,8 @@ pub struct Node {
     pub seventh: Option<Vec<(char, String)>>,
     /// The notes of its `inclusionTerm` and `includes` (other wordings of the code).
     pub terms: Vec<String>,
+    /// Every instructional note stated at it, in document order.
+    pub notes: Vec<(NoteKind, String)>,
 }
 
 /// A whole tabular file.
@@ -29,6 +31,12 @@ pub struct Tabular {
     pub sections: Vec<Section>,
     /// Every diag node, in document order.
     pub nodes: Vec<Node>,
+    /// Notes stated at a chapter (index into `chapters`), in document order.
+    pub chapter_notes: Vec<(u16, NoteKind, String)>,
+    /// Notes stated at a section, by its category range (`first`, `last`,
+    /// undotted): a block the section index lists, or a wider one around
+    /// several (`C00-C96`), in document order.
+    pub section_notes: Vec<(String, String, NoteKind, String)>,
 }
 
 /// Reads the tabular XML.
@@ -41,6 +49,8 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
     let mut text_buf = String::new();
     let mut section_ref: Option<(String, String)> = None;
     let mut extension: Option<char> = None;
+    // The category range of the open `section` element.
+    let mut section: Option<(String, String)> = None;
     while let Some(ev) = r.next()? {
         match ev {
             Event::Start(name, attrs) => {
@@ -50,12 +60,22 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
                         name: String::new(),
                         title: String::new(),
                     }),
+                    "section" => {
+                        section = attrs.iter().find(|(n, _)| *n == "id").map(|(_, v)| {
+                            let v = v.replace('.', "");
+                            match v.split_once('-') {
+                                Some((a, b)) => (a.to_string(), b.to_string()),
+                                None => (v.clone(), v),
+                            }
+                        });
+                    }
                     "diag" => {
                         out.nodes.push(Node {
                             code: String::new(),
                             description: String::new(),
                             seventh: None,
                             terms: Vec::new(),
+                            notes: Vec::new(),
                         });
                         diags.push(out.nodes.len() - 1);
                     }
@@ -111,16 +131,40 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
                             out.nodes[d].description = value;
                         }
                     }
-                    ("note", Some("inclusionTerm" | "includes"))
+                    ("note", Some(el @ ("inclusionTerm" | "includes")))
                         if path.get(path.len().wrapping_sub(2)).map(String::as_str)
                             == Some("diag") =>
                     {
-                        if let Some(&d) = diags.last() {
+                        if let (Some(&d), Some(kind)) = (diags.last(), NoteKind::of_element(el)) {
                             if !value.is_empty() {
+                                out.nodes[d].notes.push((kind, value.clone()));
                                 out.nodes[d].terms.push(value);
                             }
                         }
                     }
+                    ("note", Some(kind)) if NoteKind::of_element(kind).is_some() => {
+                        let kind = NoteKind::of_element(kind).unwrap_or(NoteKind::Note);
+                        let owner = path.get(path.len().wrapping_sub(2)).map(String::as_str);
+                        match owner {
+                            _ if value.is_empty() => {}
+                            Some("diag") => {
+                                if let Some(&d) = diags.last() {
+                                    out.nodes[d].notes.push((kind, value));
+                                }
+                            }
+                            Some("section") => {
+                                if let Some((a, b)) = &section {
+                                    out.section_notes.push((a.clone(), b.clone(), kind, value));
+                                }
+                            }
+                            Some("chapter") if !out.chapters.is_empty() => {
+                                let c = out.chapters.len() as u16 - 1;
+                                out.chapter_notes.push((c, kind, value));
+                            }
+                            _ => {}
+                        }
+                    }
+                    ("section", _) => section = None,
                     ("extension", _) => {
                         if let (Some(ch), Some(&d)) = (extension.take(), diags.last()) {
                             if let Some(rule) = out.nodes[d].seventh.as_mut() {
@@ -160,8 +204,10 @@ mod tests {
         let t = parse(
             r#"<ICD10CM.tabular><version>2026</version>
             <chapter><name>19</name><desc>Injury (S00-T88)</desc>
+            <includes><note>injuries of all kinds</note></includes>
             <sectionIndex><sectionRef first="S00" last="S09" id="S00-S09">Injuries to the head</sectionRef></sectionIndex>
             <section id="S00-S09"><desc>Injuries to the head (S00-S09)</desc>
+            <excludes2><note>burns (T20-T32)</note></excludes2>
             <diag><name>S06</name><desc>Intracranial injury</desc>
               <sevenChrDef><extension char="A">initial encounter</extension><extension char="S">sequela</extension></sevenChrDef>
               <diag><name>S06.0X</name><desc>Concussion</desc>
@@ -177,6 +223,26 @@ mod tests {
         assert_eq!(t.nodes.len(), 2);
         assert_eq!(t.nodes[1].code, "S060X");
         assert_eq!(t.nodes[1].terms, ["Commotio cerebri"]);
+        assert_eq!(
+            t.nodes[1].notes,
+            [
+                (NoteKind::InclusionTerm, "Commotio cerebri".to_string()),
+                (NoteKind::Excludes1, "not this".to_string())
+            ]
+        );
+        assert_eq!(
+            t.chapter_notes,
+            [(0, NoteKind::Includes, "injuries of all kinds".to_string())]
+        );
+        assert_eq!(
+            t.section_notes,
+            [(
+                "S00".to_string(),
+                "S09".to_string(),
+                NoteKind::Excludes2,
+                "burns (T20-T32)".to_string()
+            )]
+        );
         let rule = t.nodes[0].seventh.as_ref().unwrap();
         assert_eq!(rule[1], ('S', "sequela".to_string()));
     }

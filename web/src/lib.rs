@@ -176,6 +176,68 @@ export interface Comparison {
 
 /** Spans per code; `null` for a code the index does not know. */
 export type Timelines = Record<string, Span[] | null>;
+
+/** A code on a day, with its count of billable codes under it (HPO: terms in use). */
+export interface CardChild {
+  code: string;
+  description: string;
+  status: "billable" | "header" | "not-in-use" | "in-use" | "obsolete";
+  billable_under: number;
+}
+
+/** One span of a card's timeline, and what began it. */
+export interface CardSegment {
+  from: string;
+  to: string;
+  state: "billable" | "header" | "absent" | "in-use" | "obsolete";
+  reason: "first-release" | "in-release" | "not-yet-added" | "added" | "subdivided" | "merged" | "retired" | "obsolete";
+  /** The children that took over, or a retired code's successors. */
+  codes: string[];
+}
+
+/** A tabular-list note that holds for the code. */
+export interface CardNote {
+  kind: "includes" | "inclusion-term" | "excludes1" | "excludes2" | "code-first" | "use-additional-code" | "code-also" | "note" | "seventh-character";
+  text: string;
+  /** Codes of the index the note names (dotted; both ends of a range). */
+  codes: string[];
+  level: "code" | "section" | "chapter";
+  /** The code, section range or chapter number that states it. */
+  at: string;
+}
+
+/** Everything known about one code: the CLI's `show --format json` card. */
+export interface Card {
+  code: string;
+  system: string;
+  description: string;
+  status: "billable" | "header" | "not-in-use" | "in-use" | "obsolete" | "changes" | "code-start" | string;
+  /** For text that is no code: what a check says, with its suggestions. */
+  problem?: { message: string; suggestions: Suggestion[] };
+  timeline: CardSegment[];
+  chapter: { code: string; title: string } | null;
+  section: { code: string; title: string } | null;
+  /** From the category down to the parent, in force on the day. */
+  ancestors: Named[];
+  parents: Named[];
+  children: CardChild[];
+  siblings: CardChild[];
+  notes: CardNote[];
+  seventh_character?: { at: string; extensions: [string, string][] };
+  successors: { code: string; description: string; effective: string | null }[];
+  predecessors: { code: string; description: string; effective: string | null }[];
+  consider?: Named[];
+  alternate_ids?: string[];
+  mappings: {
+    mapping: string;
+    title: string;
+    role: "source" | "target";
+    code: string;
+    system: string;
+    description: string;
+    flags: { approximate: boolean; no_map: boolean; combination: boolean; scenario: number; choice_list: number };
+  }[];
+}
 "#;
 
 #[wasm_bindgen]
@@ -196,6 +258,8 @@ extern "C" {
     pub type JsCodes;
     #[wasm_bindgen(typescript_type = "Edit[]")]
     pub type JsEdits;
+    #[wasm_bindgen(typescript_type = "Card")]
+    pub type JsCard;
 }
 
 /// The one error funnel: a JS `Error` whose message is `context: cause`.
@@ -849,16 +913,39 @@ impl Checker {
         Ok(to_js(&map)?.unchecked_into())
     }
 
-    /// Codes for words, best first, as JSON text: `{ query, date, results:
-    /// [{ code, description, status, billable_from, billable_to, fit }] }`
-    /// (the CLI's `find --format json`). The last word counts as the start of
-    /// a word, for suggestions while typing; codes in use today come first.
+    /// Codes for words, best first, as JSON text: `{ query, date, within,
+    /// no_code, results: [{ code, description, status, billable_from,
+    /// billable_to, fit }] }` (the CLI's `find --format json`). A code or
+    /// code start first lists that part of the tree (`within`), or names the
+    /// start no code has (`no_code`). The last word counts as the start of a
+    /// word, for suggestions while typing; codes in use today come first.
     pub fn find(&self, query: &str, limit: u32) -> Result<String, JsValue> {
         let day = today();
         let limit = (limit as usize).clamp(1, 100);
-        let found = rollcall::search::find(&self.index.view(), query, day, limit, true);
-        let v = serde_json::json!({ "query": query, "date": day, "results": found });
+        let f = rollcall::find::find(&self.index.view(), query, day, limit, true);
+        let v = serde_json::json!({
+            "query": query,
+            "date": day,
+            "within": f.within,
+            "no_code": f.no_code,
+            "results": f.results,
+        });
         serde_json::to_string(&v).map_err(|e| fail("could not hand the result to the page", e))
+    }
+
+    /// The card of one code, node or code start (`Card`, one of the CLI's
+    /// `show --format json` cards) for the options' day or period; the
+    /// companions' mappings (the GEMs) included. Text that is no code gets a
+    /// card with the check's message and suggestions.
+    pub fn card(&self, code: &str, options: JsCheckOptions) -> Result<JsCard, JsValue> {
+        let opts = self.options(options)?;
+        let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
+        let mut cards = rollcall::card::cards(&self.index, &views, &[code], &opts);
+        let card = cards
+            .cards
+            .pop()
+            .ok_or_else(|| fail("no card", "give a code"))?;
+        Ok(to_js(&card)?.unchecked_into())
     }
 }
 

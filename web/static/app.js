@@ -1,7 +1,7 @@
 // The page: loads the index into the worker, checks the list as you type,
 // shows findings, pictures and exports. Plain DOM, no framework.
 
-import { fileToLines } from "./inputs.js";
+import { fileText, isWorkbook } from "./inputs.js";
 import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
@@ -9,6 +9,7 @@ import { setupCompare } from "./compare.js";
 import { open, readManifest } from "./rollcall.js";
 import { embedded } from "./embedded.js";
 import { initSearch } from "./search.js";
+import { initCard } from "./card.js";
 
 const $ = (id) => document.getElementById(id);
 const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
@@ -44,6 +45,7 @@ const state = {
   timer: 0,
   shapes: null, // a shape-only system picked in the menu, or null
   loaded: [], // the systems whose indexes the worker has loaded
+  workbook: null, // { name, bytes } while a dropped workbook is the list
 };
 
 // ----------------------------------------------------------- index load --
@@ -226,7 +228,11 @@ async function runCheck() {
   document.body.dataset.checking = "true";
   $("check-status").textContent = "Checking…";
   try {
-    const result = await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
+    // A dropped workbook is checked from its bytes, as the command line
+    // reads it; the list area shows its rows until it is edited.
+    const result = state.workbook
+      ? await ask("checkBytes", { bytes: state.workbook.bytes.slice().buffer, options: checkerOptions(opts) })
+      : await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
     if (seq !== state.seq) return; // a newer check is on its way
     $("options-error").hidden = true;
     state.report = result.report;
@@ -536,10 +542,16 @@ async function takeFile(file) {
   const msg = $("file-message");
   try {
     if (file.size > 50 * 1024 * 1024) throw new Error(`“${file.name}” is larger than 50 MB`);
-    const { text, note } = fileToLines(file.name, await file.text());
+    const bytes = new Uint8Array(await file.arrayBuffer());
+    if (isWorkbook(file.name, bytes)) {
+      await takeWorkbook(file.name, bytes);
+      return;
+    }
+    const text = fileText(file.name, bytes);
     $("list").value = text;
     msg.className = "file-message";
-    msg.textContent = note;
+    const lines = text === "" ? 0 : text.replace(/\r\n?/g, "\n").replace(/\n$/, "").split("\n").length;
+    msg.textContent = `Read ${lines} line${lines === 1 ? "" : "s"} from “${file.name}”; the checker finds the codes in it.`;
     runCheck();
   } catch (e) {
     msg.className = "file-message problem";
@@ -547,10 +559,40 @@ async function takeFile(file) {
   }
 }
 
+/** A dropped workbook: checked from its bytes; its rows shown in the list. */
+async function takeWorkbook(name, bytes) {
+  state.workbook = { name, bytes };
+  await runCheck();
+  const r = state.report;
+  if (!r || !state.workbook) return;
+  // The rows as read, sheet by sheet, for reading and for editing as text.
+  const out = [];
+  let sheet = null;
+  let last = 0;
+  for (const e of r.entries) {
+    if (e.line === last) continue;
+    last = e.line;
+    if (e.sheet && e.sheet !== sheet) {
+      sheet = e.sheet;
+      out.push(`# sheet ${sheet}`);
+    }
+    out.push(e.input);
+  }
+  $("list").value = out.join("\n");
+  const sheets = (r.reading && r.reading.sheets) || [];
+  const named = sheets.map((x) => `“${x.name}” (${x.codes ? `${x.codes} code${x.codes === 1 ? "" : "s"}` : "no codes"})`).join(", ");
+  const msg = $("file-message");
+  msg.className = "file-message";
+  msg.textContent = `Read the workbook “${name}” as the command line reads it: sheets ${named}. The list shows its rows; editing it goes on with the rows as text.`;
+}
+
 // ---------------------------------------------------------------- wiring --
 
 function wire() {
-  $("list").addEventListener("input", scheduleCheck);
+  $("list").addEventListener("input", () => {
+    state.workbook = null;
+    scheduleCheck();
+  });
   for (const id of ["opt-on", "opt-from", "opt-to", "opt-billable"]) $(id).addEventListener("change", scheduleCheck);
   for (const id of ["when-on", "when-period"])
     $(id).addEventListener("change", () => {
@@ -670,10 +712,25 @@ function addFromSearch(code, description) {
   return applyEdits([{ op: "add", after, code, label: description }], `Added ${code}.`);
 }
 
+/** The code card adds the codes checked in it as new last lines. */
+function addCodes(codes) {
+  const text = $("list").value.replace(/\n$/, "");
+  const after = text === "" ? 0 : text.split("\n").length;
+  const edits = codes.map(({ code, label }) => ({ op: "add", after, code, label }));
+  return applyEdits(edits, `Added ${codes.map((c) => c.code).join(", ")}.`);
+}
+
 async function main() {
   document.body.dataset.state = "loading";
   wire();
   initSearch({ ask, addToList: addFromSearch });
+  initCard({
+    ask,
+    options: () => checkerOptions(readOptions()),
+    coverage: () => ({ from: state.info.coverage_from, to: state.info.coverage_to }),
+    addCodes,
+    replaceLine: (line, code) => applyEdits([{ op: "replace", line, code }], `Line ${line} is now ${code}.`),
+  });
   syncModeFields();
   const restored = restoreLink();
   let info;

@@ -164,6 +164,68 @@ export type Edit =
 /** Spans per code; `null` for a code the index does not know. */
 export type Timelines = Record<string, Span[] | null>;
 
+/** A code on a day, with its count of billable codes under it (HPO: terms in use). */
+export interface CardChild {
+  code: string;
+  description: string;
+  status: "billable" | "header" | "not-in-use" | "in-use" | "obsolete";
+  billable_under: number;
+}
+
+/** One span of a card's timeline, and what began it. */
+export interface CardSegment {
+  from: string;
+  to: string;
+  state: "billable" | "header" | "absent" | "in-use" | "obsolete";
+  reason: "first-release" | "in-release" | "not-yet-added" | "added" | "subdivided" | "merged" | "retired" | "obsolete";
+  /** The children that took over, or a retired code's successors. */
+  codes: string[];
+}
+
+/** A tabular-list note that holds for the code. */
+export interface CardNote {
+  kind: "includes" | "inclusion-term" | "excludes1" | "excludes2" | "code-first" | "use-additional-code" | "code-also" | "note" | "seventh-character";
+  text: string;
+  /** Codes of the index the note names (dotted; both ends of a range). */
+  codes: string[];
+  level: "code" | "section" | "chapter";
+  /** The code, section range or chapter number that states it. */
+  at: string;
+}
+
+/** Everything known about one code: a card of the CLI's `show --format json`. */
+export interface Card {
+  code: string;
+  system: string;
+  description: string;
+  status: string;
+  /** For text that is no code: what a check says, with its suggestions. */
+  problem?: { message: string; suggestions: Suggestion[] };
+  timeline: CardSegment[];
+  chapter: { code: string; title: string } | null;
+  section: { code: string; title: string } | null;
+  /** From the category down to the parent, in force on the day. */
+  ancestors: { code: string; description: string }[];
+  parents: { code: string; description: string }[];
+  children: CardChild[];
+  siblings: CardChild[];
+  notes: CardNote[];
+  seventh_character?: { at: string; extensions: [string, string][] };
+  successors: { code: string; description: string; effective: string | null }[];
+  predecessors: { code: string; description: string; effective: string | null }[];
+  consider?: { code: string; description: string }[];
+  alternate_ids?: string[];
+  mappings: {
+    mapping: string;
+    title: string;
+    role: "source" | "target";
+    code: string;
+    system: string;
+    description: string;
+    flags: { approximate: boolean; no_map: boolean; combination: boolean; scenario: number; choice_list: number };
+  }[];
+}
+
 /** One row of a list: a line as written, `{code, label}`, or `[code, label]`. */
 export type Row = string | { code: string; label?: string | null } | [string, (string | null)?];
 
@@ -208,6 +270,8 @@ export class Checker {
   /** The list with edits applied, every other character kept (a code in a draft is replaced where it stands). */
   edit(text: string, edits: Edit[], reading?: string): Promise<string>;
   timelines(codes: Iterable<string>): Promise<Timelines>;
+  /** The card of a code, node or code start for the options' day or period. */
+  card(code: string, options?: CheckOptionsInput): Promise<Card>;
   /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
   digest(list: List): Promise<string>;
   /** A request by name to the worker (the protocol is described in worker.js). */

@@ -229,6 +229,11 @@ export class Checker {
     return this.channel.ask("timelines", { codes: [...codes].map(String) });
   }
 
+  /** The card of a code, node or code start (the CLI's `show`), for the options' day or period. */
+  card(code, options = {}) {
+    return this.channel.ask("card", { code: String(code), options });
+  }
+
   /** Lower-case hex SHA-256 of the list's text (UTF-8), as `listText` gives it. */
   digest(list) {
     return this.channel.ask("digest", { text: listText(list) });

@@ -29,6 +29,10 @@ function show(list, status, query, found, addToList) {
     status.textContent = "";
     return;
   }
+  if (found.no_code) {
+    status.textContent = `No code starts with ${found.no_code}.`;
+    return;
+  }
   if (!found.results.length) {
     status.textContent = `No code fits “${query}”.`;
     return;

@@ -204,6 +204,17 @@ self.onmessage = async (event) => {
       case "digest":
         result = wasm_bindgen.sha256Hex(new TextEncoder().encode(String(msg.text ?? "")));
         break;
+      case "card":
+        if (!checker) throw new Error("the index is not loaded");
+        // The GEMs live in the ICD-9-CM index: at hand beside ICD-10-CM, and
+        // the ICD-10-CM one beside ICD-9-CM, as on the command line.
+        {
+          const vocabulary = checker.info().vocabulary;
+          const other = { icd10cm: "icd9cm", icd9cm: "icd10cm" }[vocabulary];
+          if (other) await companion(other);
+        }
+        result = checker.card(String(msg.code ?? ""), msg.options ?? {});
+        break;
       case "find":
         if (!checker) throw new Error("the index is not loaded");
         result = JSON.parse(checker.find(String(msg.query ?? ""), Number(msg.limit) || 10));
