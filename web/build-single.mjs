@@ -88,6 +88,7 @@ const WORKER_SOURCE = ${JSON.stringify(`${glue}\n;\n${worker}`)};
 const WASM_GZ = "${wasmGz}";
 const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
+const DEMO = ${JSON.stringify(read("demo-list.tsv").toString("utf8"))};
 
 async function gunzip(base64) {
   const text = atob(base64);
@@ -99,6 +100,7 @@ async function gunzip(base64) {
 
 export const embedded = {
   manifest: MANIFEST,
+  demo: DEMO,
   index: () => gunzip(INDEX_GZ),
   wasm: () => gunzip(WASM_GZ),
   worker: () => new Worker(URL.createObjectURL(new Blob([WORKER_SOURCE], { type: "text/javascript" }))),
@@ -117,6 +119,10 @@ function main() {
 
   html = html.replace(/<script type="importmap">[\s\S]*?<\/script>\s*/g, "");
   html = html.replace(/<link\b[^>]*\b(?:rel="(?:preload|modulepreload)"|data-trunk)[^>]*>\s*/g, "");
+  // The icon as a data: URL (the page's policy allows images from data: only).
+  html = html.replace(/<link rel="icon" href="([^"]+)" type="image\/svg\+xml">/, (_, href) =>
+    `<link rel="icon" href="data:image/svg+xml;base64,${read(href).toString("base64")}">`,
+  );
   let styled = false;
   html = html.replace(/<link\b[^>]*\brel="stylesheet"[^>]*\bhref="([^"]+)"[^>]*>/g, (_, href) => {
     styled = true;
