@@ -766,6 +766,12 @@ async function takeWorkbook(name, bytes) {
 
 function wire() {
   draft = initDraft({ ask, onChange: runCheck });
+  // A finding leads to its code in the list (the code itself, in a draft).
+  $("findings").addEventListener("click", (e) => {
+    const b = e.target.closest("button.to-token");
+    if (!b) return;
+    draft.showToken(Number(b.dataset.line), b.dataset.column ? Number(b.dataset.column) : undefined);
+  });
   $("list").addEventListener("input", () => {
     state.workbook = null;
     scheduleCheck();

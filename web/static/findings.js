@@ -41,7 +41,11 @@ export function rowsHtml(rows, rowSystem) {
       const sys = rowSystem(x);
       return (
         `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${esc(x.severity)}" data-system="${esc(sys)}">` +
-        `<td class="num" data-label="Line">${lines}</td>` +
+        `<td class="num" data-label="Line">${
+          x.entry
+            ? `<button type="button" class="to-token link-like" tabindex="-1" data-line="${x.line}" data-column="${x.entry.column ?? ""}" title="Show line ${x.line} in the list">${lines}</button>`
+            : lines
+        }</td>` +
         `<td class="input" data-label="Code"><code>${esc(x.input)}</code></td>` +
         `<td class="system" data-label="System">${esc(sys)}</td>` +
         `<td class="sev-cell" data-label="Severity"><span class="sev sev-${esc(x.severity)}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
