@@ -14,11 +14,15 @@
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`export`] writes a checked list on: the cleaned list, a FHIR ValueSet,
+//!   and every billable code it reaches (CSV, SQL, R, Python).
 //! - [`card`] gathers what is known of one code (timeline, place in the
 //!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
 //!   matching); [`find`] puts a code or code start before the words.
+//! - [`synonyms`] reads clinicians' words as the official wording (shorthand,
+//!   everyday words, HPO synonyms) for the label check and the search alike.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -31,6 +35,7 @@ pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod export;
 pub mod find;
 pub mod index;
 pub mod label;
@@ -44,6 +49,7 @@ pub mod report;
 pub mod search;
 pub mod sha256;
 pub mod shapecheck;
+pub mod synonyms;
 pub mod systems;
 pub mod translate;
 pub mod words;

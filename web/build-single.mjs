@@ -1,8 +1,9 @@
 // The single-file page: one HTML file with the page's script, styles, the
-// Wasm, the worker and the bundled index inside, for a shared drive or an
-// e-mail. It works opened from file:// with no network at all. The Wasm and
-// the index are stored gzip-compressed in base64 and unpacked in the page
-// with DecompressionStream; the worker starts from a Blob URL.
+// Wasm, the worker (with the workbook reader) and the bundled index inside,
+// for a shared drive or an e-mail. It works opened from file:// with no
+// network at all. The Wasm files and the index are stored gzip-compressed in
+// base64 and unpacked with DecompressionStream (the workbook reader's in the
+// worker, on first use); the worker starts from a Blob URL.
 // Usage: node web/build-single.mjs [DIST] [OUT]   (after web/build.sh)
 import fs from "node:fs";
 import path from "node:path";
@@ -79,15 +80,29 @@ function embeddedModule() {
   const manifest = JSON.parse(read("index-manifest.json").toString("utf8"));
   const index = read(manifest.file || "icd10cm.rcx");
   const wasm = read("rollcall-web_bg.wasm");
+  const bookGlue = read("rollcall-workbook.js").toString("utf8");
+  const bookWasm = read("rollcall-workbook_bg.wasm");
   const gz = (bytes) => zlib.gzipSync(bytes, { level: 9 }).toString("base64");
   const indexGz = gz(index);
   const wasmGz = gz(wasm);
-  const sizes = { index: index.length, indexGz: indexGz.length, wasm: wasm.length, wasmGz: wasmGz.length };
+  const bookGz = gz(bookWasm);
+  const sizes = {
+    index: index.length,
+    indexGz: indexGz.length,
+    wasm: wasm.length,
+    wasmGz: wasmGz.length,
+    book: bookWasm.length,
+    bookGz: bookGz.length,
+  };
+  // The worker carries the workbook reader (its glue, and its Wasm as gzip
+  // in base64), which it unpacks only when a workbook is checked.
+  const workerSource = `${glue}\n;\n${bookGlue}\n;\nconst WORKBOOK_WASM_GZ = "${bookGz}";\n${worker}`;
   const code = `// The single-file page's contents: the index, the Wasm and the worker.
-const WORKER_SOURCE = ${JSON.stringify(`${glue}\n;\n${worker}`)};
+const WORKER_SOURCE = ${JSON.stringify(workerSource)};
 const WASM_GZ = "${wasmGz}";
 const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
+const DEMO = ${JSON.stringify(read("demo-list.tsv").toString("utf8"))};
 
 async function gunzip(base64) {
   const text = atob(base64);
@@ -99,6 +114,7 @@ async function gunzip(base64) {
 
 export const embedded = {
   manifest: MANIFEST,
+  demo: DEMO,
   index: () => gunzip(INDEX_GZ),
   wasm: () => gunzip(WASM_GZ),
   worker: () => new Worker(URL.createObjectURL(new Blob([WORKER_SOURCE], { type: "text/javascript" }))),
@@ -117,6 +133,10 @@ function main() {
 
   html = html.replace(/<script type="importmap">[\s\S]*?<\/script>\s*/g, "");
   html = html.replace(/<link\b[^>]*\b(?:rel="(?:preload|modulepreload)"|data-trunk)[^>]*>\s*/g, "");
+  // The icon as a data: URL (the page's policy allows images from data: only).
+  html = html.replace(/<link rel="icon" href="([^"]+)" type="image\/svg\+xml">/, (_, href) =>
+    `<link rel="icon" href="data:image/svg+xml;base64,${read(href).toString("base64")}">`,
+  );
   let styled = false;
   html = html.replace(/<link\b[^>]*\brel="stylesheet"[^>]*\bhref="([^"]+)"[^>]*>/g, (_, href) => {
     styled = true;
@@ -144,7 +164,8 @@ function main() {
   console.log(`build-single: ${OUT}`);
   console.log(`build-single: ${bytes.toLocaleString("en-US")} bytes (${kib(bytes)}; ${kib(gzipped)} gzipped)`);
   console.log(
-    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64`,
+    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64; ` +
+      `workbook reader Wasm ${kib(sizes.book)} raw, ${kib(sizes.bookGz)} as gzip+base64`,
   );
 }
 

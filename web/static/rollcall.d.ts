@@ -14,6 +14,10 @@ export interface IndexInfo {
   notice: string;
   byte_length: number;
   sha256: string;
+  /** The day checked when no day or period is given: today when the index
+   * covers it, else the nearest day it covers (ICD-9-CM: 2015-09-30). Set by
+   * the worker; absent from a manifest. */
+  default_day?: string;
 }
 
 /** index-manifest.json: an IndexInfo written at build time, with the index's file name. */
@@ -21,7 +25,7 @@ export interface IndexManifest extends IndexInfo {
   file?: string;
 }
 
-/** Options of one check. Give `on`, or `from` and `to`, or neither (today, UTC). Dates are YYYY-MM-DD. */
+/** Options of one check. Give `on`, or `from` and `to`, or neither (the index's default day: today, UTC, when it covers it). Dates are YYYY-MM-DD. */
 export interface CheckOptionsInput {
   on?: string | null;
   from?: string | null;
@@ -265,7 +269,8 @@ export class Checker {
   /** Check a list; the report in the CLI's JSON schema. */
   check(list: List, options?: CheckOptionsInput): Promise<Report>;
   checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
-  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods) or text in any form. */
+  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods; each entry names its sheet and row)
+   * or text in any form. The worker loads the workbook reader (a Wasm module of its own) with the first workbook. */
   checkFile(file: Blob | ArrayBuffer | Uint8Array, options?: CheckOptionsInput): Promise<CheckResult>;
   /** How the core reads the list, and where each code sits in the text. */
   read(list: List, reading?: string): Promise<{ reading: ReadFacts; tokens: DraftToken[] }>;
