@@ -1,5 +1,5 @@
 // The single-file page: one HTML file with the page's script, styles, the
-// Wasm, the worker and the bundled index inside, for a shared drive or an
+// Wasm, the worker, the bundled index and its notes file inside, for a shared drive or an
 // e-mail. It works opened from file:// with no network at all. The Wasm and
 // the index are stored gzip-compressed in base64 and unpacked in the page
 // with DecompressionStream; the worker starts from a Blob URL.
@@ -79,15 +79,30 @@ function embeddedModule() {
   const manifest = JSON.parse(read("index-manifest.json").toString("utf8"));
   const index = read(manifest.file || "icd10cm.rcx");
   const wasm = read("rollcall-web_bg.wasm");
+  // The notes file's manifest: its name is the one the Trunk post-build
+  // gives it (the core's System::notes_manifest).
+  const notesManifest = JSON.parse(read("manifest-icd10cm-notes.json").toString("utf8"));
+  if (notesManifest.index_sha256 !== manifest.sha256) die("the notes file was not written with the bundled index");
+  const notes = read(notesManifest.file);
   const gz = (bytes) => zlib.gzipSync(bytes, { level: 9 }).toString("base64");
   const indexGz = gz(index);
   const wasmGz = gz(wasm);
-  const sizes = { index: index.length, indexGz: indexGz.length, wasm: wasm.length, wasmGz: wasmGz.length };
-  const code = `// The single-file page's contents: the index, the Wasm and the worker.
+  const notesGz = gz(notes);
+  const sizes = {
+    index: index.length,
+    indexGz: indexGz.length,
+    wasm: wasm.length,
+    wasmGz: wasmGz.length,
+    notes: notes.length,
+    notesGz: notesGz.length,
+  };
+  const code = `// The single-file page's contents: the index, its notes, the Wasm and the worker.
 const WORKER_SOURCE = ${JSON.stringify(`${glue}\n;\n${worker}`)};
 const WASM_GZ = "${wasmGz}";
 const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
+const NOTES_GZ = "${notesGz}";
+const NOTES_MANIFEST = ${JSON.stringify(notesManifest)};
 
 async function gunzip(base64) {
   const text = atob(base64);
@@ -101,6 +116,7 @@ export const embedded = {
   manifest: MANIFEST,
   index: () => gunzip(INDEX_GZ),
   wasm: () => gunzip(WASM_GZ),
+  notes: { bytes: () => gunzip(NOTES_GZ), manifest: NOTES_MANIFEST },
   worker: () => new Worker(URL.createObjectURL(new Blob([WORKER_SOURCE], { type: "text/javascript" }))),
 };
 `;
@@ -144,7 +160,7 @@ function main() {
   console.log(`build-single: ${OUT}`);
   console.log(`build-single: ${bytes.toLocaleString("en-US")} bytes (${kib(bytes)}; ${kib(gzipped)} gzipped)`);
   console.log(
-    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64`,
+    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; notes ${kib(sizes.notes)} raw, ${kib(sizes.notesGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64`,
   );
 }
 
