@@ -19,7 +19,6 @@ pub mod json;
 pub mod table;
 pub mod text;
 pub mod tokens;
-#[cfg(feature = "workbook")]
 pub mod workbook;
 
 pub use table::{code_like, detect, split_csv, Detected, Layout};

@@ -392,20 +392,24 @@ fn clean_label(s: &str) -> Option<String> {
             t = t[1..].trim_matches(junk);
         }
         for f in FILLER {
-            let lower = t.to_ascii_lowercase();
-            if lower.starts_with(f) && lower[f.len()..].starts_with(' ') {
-                t = t[f.len()..].trim_matches(junk);
+            let b = t.as_bytes();
+            let n = f.len();
+            if b.len() > n && b[..n].eq_ignore_ascii_case(f.as_bytes()) && b[n] == b' ' {
+                t = t[n..].trim_matches(junk);
             }
-            let lower = t.to_ascii_lowercase();
-            if lower.ends_with(f) && lower[..lower.len() - f.len()].ends_with(' ') {
-                t = t[..t.len() - f.len()].trim_matches(junk);
+            let b = t.as_bytes();
+            if b.len() > n
+                && b[b.len() - n..].eq_ignore_ascii_case(f.as_bytes())
+                && b[b.len() - n - 1] == b' '
+            {
+                t = t[..t.len() - n].trim_matches(junk);
             }
         }
         if t == before {
             break;
         }
     }
-    let filler = FILLER.contains(&t.to_ascii_lowercase().as_str());
+    let filler = FILLER.iter().any(|f| f.eq_ignore_ascii_case(t));
     (!filler && t.chars().filter(|c| c.is_alphabetic()).count() >= 2).then(|| t.to_string())
 }
 

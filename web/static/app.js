@@ -2,6 +2,7 @@
 // shows findings, pictures and exports. Plain DOM, no framework.
 
 import { fileText, isWorkbook } from "./inputs.js";
+import { initDraft, readingSentence } from "./draft.js";
 import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
@@ -185,9 +186,14 @@ function readOptions() {
 }
 
 function checkerOptions(o) {
-  if (o.mode === "period") return { from: o.from || null, to: o.to || null, billable: o.billable };
-  return { on: o.on || null, billable: o.billable };
+  const reading = draft ? draft.reading() : undefined;
+  const read = reading ? { reading } : {};
+  if (o.mode === "period") return { from: o.from || null, to: o.to || null, billable: o.billable, ...read };
+  return { on: o.on || null, billable: o.billable, ...read };
 }
+
+/** The draft controls (reading, marks), once wired. */
+let draft = null;
 
 function writeOptions(o) {
   $("when-period").checked = o.mode === "period";
@@ -244,6 +250,8 @@ async function runCheck() {
     state.coverage = result.coverage;
     state.loaded = result.loaded || [];
     render();
+    $("reading-line").textContent = readingSentence(result.report);
+    if (!state.workbook) draft.mark(text).catch(() => {});
     const n = result.report.summary.lines;
     $("check-status").textContent = `Checked ${n.toLocaleString("en-US")} line${n === 1 ? "" : "s"} in ${result.checkMs.toFixed(0)} ms.`;
     document.body.dataset.checkMs = String(result.checkMs);
@@ -400,7 +408,7 @@ function renderRows() {
 async function applyEdits(edits, note) {
   const ta = $("list");
   try {
-    ta.value = await ask("edit", { text: ta.value, edits });
+    ta.value = await ask("edit", { text: ta.value, edits, reading: draft.reading() });
   } catch (e) {
     $("check-status").textContent = `Could not apply: ${e.message.replace(/^Error: /, "")}`;
     return;
@@ -412,7 +420,9 @@ async function applyEdits(edits, note) {
 /** What applying a suggestion does, in list edits and in words. */
 function suggestionEdits(row, sugg) {
   if (row.entry) {
-    return { edits: [{ op: "replace", line: row.line, code: sugg.code }], note: `Line ${row.line}: now ${sugg.code}.` };
+    // A code inside a longer line (a draft) is replaced where it stands.
+    const column = row.entry.column ?? undefined;
+    return { edits: [{ op: "replace", line: row.line, code: sugg.code, column }], note: `Line ${row.line}: now ${sugg.code}.` };
   }
   if (row.kind === "sibling-gap") {
     // A missing code: add it after the last line of the group.
@@ -435,7 +445,7 @@ function applySuggestion(row, sugg) {
 function applySafeFixes() {
   const edits = state.allRows
     .filter((row) => row.kind === "normalized" && row.entry && row.suggestions.length)
-    .map((row) => ({ op: "replace", line: row.line, code: row.suggestions[0].code }));
+    .map((row) => ({ op: "replace", line: row.line, code: row.suggestions[0].code, column: row.entry.column ?? undefined }));
   return applyEdits(edits, `Applied ${plural(edits.length, "formatting fix")}.`);
 }
 
@@ -594,6 +604,7 @@ async function takeWorkbook(name, bytes) {
 // ---------------------------------------------------------------- wiring --
 
 function wire() {
+  draft = initDraft({ ask, onChange: runCheck });
   $("list").addEventListener("input", () => {
     state.workbook = null;
     scheduleCheck();
