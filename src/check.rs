@@ -419,6 +419,23 @@ pub fn check_draft<D: AsRef<[u8]>>(
     (report, extras.coverage)
 }
 
+/// [`check_with_reach_among`] of a list already read (for the exports of
+/// a draft or workbook: what each entry reaches).
+pub fn check_draft_with_reach<D: AsRef<[u8]>>(
+    index: &Index<D>,
+    others: &[View<'_>],
+    draft: &Draft,
+    options: &CheckOptions,
+) -> (Report, Vec<Reach>) {
+    let want = Want {
+        reach: true,
+        others,
+        ..Want::default()
+    };
+    let (report, extras) = run_draft(index, draft, options, want);
+    (report, extras.reach)
+}
+
 fn run<D: AsRef<[u8]>>(
     index: &Index<D>,
     text: &str,

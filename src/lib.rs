@@ -14,6 +14,8 @@
 //! - [`mixed::check_list`] checks a list with a system column, each row in the
 //!   system it names (an index, or the shape rules of [`systems`]).
 //! - [`compare`] checks two lists and compares the billable codes they reach.
+//! - [`export`] writes a checked list on: the cleaned list, a FHIR ValueSet,
+//!   and every billable code it reaches (CSV, SQL, R, Python).
 //! - [`card`] gathers what is known of one code (timeline, place in the
 //!   hierarchy on a day, notes, successors, mappings) for `show` and the page.
 //! - [`words`] normalises description and label words; [`search`] ranks
@@ -31,6 +33,7 @@ pub mod check;
 pub mod code;
 pub mod compare;
 pub mod date;
+pub mod export;
 pub mod find;
 pub mod index;
 pub mod label;

@@ -215,6 +215,21 @@ impl Meta {
         self.coverage_from == self.coverage_to
     }
 
+    /// The day a check is made on when no day or study period is given:
+    /// `today` when the index covers it, else the nearest day it covers (an
+    /// ICD-9-CM index covering 2014-10-01 to 2015-09-30 is checked on its
+    /// last day, not on a day when every code would read as retired). The
+    /// CLI, the binding and the page all take their default from here.
+    pub fn default_day(&self, today: Date) -> Date {
+        today.max(self.coverage_from).min(self.coverage_to)
+    }
+
+    /// Whether [`Meta::default_day`] is not `today`: the page and the CLI
+    /// say so, since the day checked is then not the one a user expects.
+    pub fn default_day_moved(&self, today: Date) -> bool {
+        self.default_day(today) != today
+    }
+
     /// Where the dot goes in `code` (0: no dot).
     pub fn dot_for(&self, code: &str) -> usize {
         let first = code.chars().next();
@@ -403,4 +418,37 @@ pub fn subtree_ends<S: AsRef<str>>(codes: &[S]) -> Vec<usize> {
         open.push(i);
     }
     ends
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn meta(from: &str, to: &str) -> Meta {
+        Meta {
+            vocabulary: "icd9cm".into(),
+            title: "ICD-9-CM".into(),
+            release: "FY2015".into(),
+            coverage_from: Date::parse(from).unwrap(),
+            coverage_to: Date::parse(to).unwrap(),
+            sources: Vec::new(),
+            dot_after: 3,
+            dot_rules: Vec::new(),
+            shapes: Vec::new(),
+            notice: String::new(),
+        }
+    }
+
+    #[test]
+    fn the_default_day_falls_inside_the_coverage() {
+        // ICD-9-CM's last release (FY2015) was in force from 2014-10-01 until
+        // ICD-10-CM replaced it on 2015-10-01 (CMS, ICD-10 compliance date).
+        let icd9 = meta("2014-10-01", "2015-09-30");
+        let day = |s: &str| Date::parse(s).unwrap();
+        assert_eq!(icd9.default_day(day("2026-12-02")), day("2015-09-30"));
+        assert_eq!(icd9.default_day(day("2015-03-01")), day("2015-03-01"));
+        assert_eq!(icd9.default_day(day("2010-01-01")), day("2014-10-01"));
+        assert!(icd9.default_day_moved(day("2026-12-02")));
+        assert!(!icd9.default_day_moved(day("2015-03-01")));
+    }
 }

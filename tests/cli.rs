@@ -588,6 +588,57 @@ fn a_system_column_checks_each_row_in_its_system() {
     assert_eq!(at(7), ("other-system".into(), "icd10cm".into()));
 }
 
+#[test]
+fn an_icd9cm_list_with_no_date_is_checked_on_a_day_its_index_covers() {
+    // 250.00 and 401.9: billable in the FY2015 ICD-9-CM release
+    // (CMS32_DESC_LONG_DX.txt), the last one, in force until ICD-10-CM
+    // replaced it on 2015-10-01. Checked on "today" every code would be retired.
+    let o = rollcall(
+        &["check", "-", "--system", "icd9cm", "--format", "json"],
+        Some("250.00\n401.9\n"),
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap();
+    assert_eq!(v["options"]["on"], "2015-09-30");
+    assert_eq!(v["entries"][0]["status"], "valid");
+    assert!(err(&o).contains("checked on 2015-09-30"), "{}", err(&o));
+}
+
+#[test]
+fn check_writes_the_exports_and_refuses_an_unknown_one() {
+    let list = "E11\nE11.9\n";
+    let args = [
+        "check",
+        "-",
+        "--from",
+        "2019-01-01",
+        "--to",
+        "2024-12-31",
+        "--billable",
+    ];
+    let run = |format: &str, extra: &[&str]| {
+        let mut a = args.to_vec();
+        a.extend(["--format", format]);
+        a.extend(extra);
+        rollcall(&a, Some(list))
+    };
+    let fhir = run("fhir", &["--valueset-url", "https://example.org/vs/1"]);
+    // Exit status 1: E11 is a header, an error with billable codes required.
+    assert_eq!(fhir.status.code(), Some(1), "{}", err(&fhir));
+    let vs: serde_json::Value = serde_json::from_str(&out(&fhir)).unwrap();
+    assert_eq!(vs["url"], "https://example.org/vs/1");
+    let sql = out(&run("codes-sql", &[]));
+    assert!(
+        sql.contains("'E11.9'") && sql.contains("line 1 E11 (header)"),
+        "{sql}"
+    );
+    let bad = run("codes-xml", &[]);
+    assert_eq!(bad.status.code(), Some(2));
+    assert!(err(&bad).contains("codes-python"));
+    let misplaced = rollcall(&["check", "-", "--valueset-url", "x"], Some(list));
+    assert!(err(&misplaced).contains("--format fhir"));
+}
+
 /// `show` gives a card per code. Source for the facts: the CDC tabular list
 /// (April 2026 XML: E11.6 "Type 2 diabetes mellitus with other specified
 /// complications" in section E08-E13 of chapter 4, its children E11.61 to

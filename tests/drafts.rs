@@ -607,3 +607,24 @@ fn the_cli_reads_drafts_and_takes_a_forced_reading() {
     assert!(String::from_utf8_lossy(&bad.stderr).contains("lines, table, text, json, workbook"));
     let _ = day("2024-01-01");
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(400))]
+
+    /// Any text, read any way, gives back every one of its lines, in order,
+    /// and never panics (multi-byte characters, quotes, brackets, pipes).
+    #[test]
+    fn any_text_keeps_every_line(text in "([ -~]|[éü€\u{feff}\u{2013}\t\r\n\"'`|*#\\[\\]{}():,;]){0,300}", forced in 0usize..6) {
+        let reading = [Reading::Auto, Reading::Lines, Reading::Table, Reading::Text, Reading::Json, Reading::Workbook][forced];
+        let d = read(&text, reading);
+        let mut numbers: Vec<usize> = d.lines.iter().map(|l| l.number).collect();
+        numbers.dedup();
+        let count = rollcall::list::lines_of(&text).count();
+        prop_assert_eq!(numbers, (1..=count).collect::<Vec<_>>());
+        for l in &d.lines {
+            if let Some((a, b)) = l.place.span {
+                prop_assert!(l.text.get(a..b).is_some());
+            }
+        }
+    }
+}

@@ -103,6 +103,7 @@ const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
 const NOTES_GZ = "${notesGz}";
 const NOTES_MANIFEST = ${JSON.stringify(notesManifest)};
+const DEMO = ${JSON.stringify(read("demo-list.tsv").toString("utf8"))};
 
 async function gunzip(base64) {
   const text = atob(base64);
@@ -114,6 +115,7 @@ async function gunzip(base64) {
 
 export const embedded = {
   manifest: MANIFEST,
+  demo: DEMO,
   index: () => gunzip(INDEX_GZ),
   wasm: () => gunzip(WASM_GZ),
   notes: { bytes: () => gunzip(NOTES_GZ), manifest: NOTES_MANIFEST },
@@ -133,6 +135,10 @@ function main() {
 
   html = html.replace(/<script type="importmap">[\s\S]*?<\/script>\s*/g, "");
   html = html.replace(/<link\b[^>]*\b(?:rel="(?:preload|modulepreload)"|data-trunk)[^>]*>\s*/g, "");
+  // The icon as a data: URL (the page's policy allows images from data: only).
+  html = html.replace(/<link rel="icon" href="([^"]+)" type="image\/svg\+xml">/, (_, href) =>
+    `<link rel="icon" href="data:image/svg+xml;base64,${read(href).toString("base64")}">`,
+  );
   let styled = false;
   html = html.replace(/<link\b[^>]*\brel="stylesheet"[^>]*\bhref="([^"]+)"[^>]*>/g, (_, href) => {
     styled = true;

@@ -83,8 +83,8 @@ ICD-9-CM and HPO bundled; other systems by shape, or by an index a site builds)
 
 usage:
   rollcall check FILE|- [--on DATE | --from DATE --to DATE] [--billable]
-                        [--format text|json|csv] [--system NAME | --index PATH]
-                        [--read lines|table|text|json|workbook]
+                        [--format text|json|csv|EXPORT] [--system NAME | --index PATH]
+                        [--read lines|table|text|json|workbook] [--valueset-url URL]
   rollcall compare A B [--on DATE | --from DATE --to DATE] [--billable]
                         [--format text|json|csv] [--system NAME | --index PATH]
   rollcall translate FILE|- --into icd10cm|icd9cm [--on DATE | --from DATE --to DATE]
@@ -101,7 +101,8 @@ usage:
              line are each checked; - reads standard input
   --read     how to read the list when the guess is wrong: lines (one code per line),
              table (CSV/TSV), text (a draft), json, workbook
-  --on       a single reference date (default: today)
+  --on       a single reference date (default: today, or the nearest day the index
+             covers: the ICD-9-CM index is checked on 2015-09-30)
   --from/--to  the study period, both days included
   --billable   headers (non-billable codes) are errors
   --system   icd10cm (default), icd10pcs, icd9cm or hpo: the bundled index of that system;
@@ -112,6 +113,11 @@ usage:
              system URI): its rows are checked in that system, the bundled index loaded
              when the column names one; --system and --index set the system of the rows
              whose cell is empty.
+  EXPORT     what check hands on, entries with error-level findings left out and named:
+             cleaned-csv (each usable code once), fhir (a FHIR R4 ValueSet; its url is
+             --valueset-url, default a placeholder), codes-csv, codes-sql, codes-r,
+             codes-python (every billable code the list reaches in the period, headers
+             and patterns expanded, with its billable dates in codes-csv)
   translate  maps an ICD-9-CM list to ICD-10-CM, or back, with the 2015 GEMs, and judges each
              target for the period; the first list's system is the other one
   compare    checks both lists, then compares the billable codes each reaches in the
@@ -159,6 +165,8 @@ struct Args {
     system: Option<String>,
     /// translate: the target system.
     into: Option<String>,
+    /// check --format fhir: the ValueSet's canonical URL.
+    valueset_url: Option<String>,
     /// How to read the list.
     reading: Reading,
 }
@@ -186,6 +194,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--notes" => a.notes = Some(value()?),
             "--system" => a.system = Some(value()?),
             "--into" => a.into = Some(value()?),
+            "--valueset-url" => a.valueset_url = Some(value()?),
             "--read" => {
                 let v = value()?;
                 a.reading = Reading::parse(&v).ok_or_else(|| {
@@ -202,7 +211,9 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
     Ok(a)
 }
 
-fn options(a: &Args) -> Result<CheckOptions, Usage> {
+/// The check options asked for; with no day or period, the default day of
+/// the index checked against (`Meta::default_day`), today for a shape check.
+fn options(a: &Args, default_day: Date) -> Result<CheckOptions, Usage> {
     match (a.on, a.from, a.to) {
         (Some(_), Some(_), _) | (Some(_), _, Some(_)) => Err(Usage(
             "give either --on DATE or --from DATE --to DATE, not both".into(),
@@ -217,7 +228,7 @@ fn options(a: &Args) -> Result<CheckOptions, Usage> {
         (None, Some(_), None) | (None, None, Some(_)) => {
             Err(Usage("a study period needs both --from and --to".into()))
         }
-        (None, None, None) => Ok(CheckOptions::on(today(), a.billable)),
+        (None, None, None) => Ok(CheckOptions::on(default_day, a.billable)),
     }
 }
 
@@ -324,6 +335,67 @@ fn icd10cm() -> Result<&'static Index<&'static [u8]>, String> {
     opened(&ONCE, System::Icd10cm)
 }
 
+/// The day checked when none is given: the index's own default (inside its
+/// coverage), or today for a check by shape.
+fn default_day(target: &Target) -> Date {
+    match target {
+        Target::Index(l) => {
+            let meta = l.index().meta();
+            let day = meta.default_day(today());
+            if meta.default_day_moved(today()) && !meta.snapshot() {
+                eprintln!(
+                    "rollcall: no date given; the {} index covers {} to {}, so the list is checked on {day}",
+                    meta.title, meta.coverage_from, meta.coverage_to
+                );
+            }
+            day
+        }
+        Target::Shapes(_) => today(),
+    }
+}
+
+/// One of the exports of `rollcall::export` for a checked list.
+fn export_text(
+    format: &str,
+    target: &Target,
+    report: &rollcall::Report,
+    draft: &Draft,
+    opts: &CheckOptions,
+    url: Option<&str>,
+) -> Result<String, String> {
+    let meta = rollcall::export::ValueSetMeta {
+        url: url.unwrap_or(rollcall::export::PLACEHOLDER_URL).to_string(),
+        date: today(),
+    };
+    match target {
+        Target::Index(l) => {
+            let index = l.index();
+            let reach = if format.starts_with("codes-") {
+                rollcall::check::check_draft_with_reach(index, &companions(index)?, draft, opts).1
+            } else {
+                Vec::new()
+            };
+            let view = index.view();
+            let src = rollcall::export::Source {
+                report,
+                reach: &reach,
+                view: Some(&view),
+                meta,
+            };
+            rollcall::export::export(format, &src).map(|e| e.text)
+        }
+        Target::Shapes(_) => {
+            let src = rollcall::export::Source {
+                report,
+                reach: &[],
+                view: None,
+                meta,
+            };
+            rollcall::export::export(format, &src).map(|e| e.text)
+        }
+    }
+}
+
 fn target(a: &Args) -> Result<Target, String> {
     let system = match a.system.as_deref() {
         None => None,
@@ -392,10 +464,18 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
     }
     match a.command.as_str() {
         "check" => {
-            if !matches!(format.as_str(), "text" | "json" | "csv") {
-                return Err(format!("--format must be text, json or csv, not {format}"));
+            let export = rollcall::export::FORMATS.contains(&format.as_str());
+            if !matches!(format.as_str(), "text" | "json" | "csv") && !export {
+                return Err(format!(
+                    "--format must be text, json, csv or one of the exports ({}), not {format}",
+                    rollcall::export::FORMATS.join(", ")
+                ));
             }
-            let opts = options(&a).map_err(|Usage(m)| m)?;
+            if a.valueset_url.is_some() && format != "fhir" {
+                return Err("--valueset-url goes with --format fhir".into());
+            }
+            let target = target(&a)?;
+            let opts = options(&a, default_day(&target)).map_err(|Usage(m)| m)?;
             let file = match a.files.as_slice() {
                 [one] => one.as_str(),
                 [] => return Err("check needs a list: a FILE, or - for standard input".into()),
@@ -406,10 +486,11 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 }
             };
             let draft = read_draft(file, a.reading)?;
-            let report = check_draft(&target(&a)?, &draft, &opts)?;
+            let report = check_draft(&target, &draft, &opts)?;
             let out = match format.as_str() {
                 "json" => serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n",
                 "csv" => render::csv(&report),
+                f if export => export_text(f, &target, &report, &draft, &opts, a.valueset_url.as_deref())?,
                 _ => render::text(&report),
             };
             write_out(&out);
@@ -429,7 +510,8 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             if !matches!(format.as_str(), "text" | "json" | "csv") {
                 return Err(format!("--format must be text, json or csv, not {format}"));
             }
-            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let target = target(&a)?;
+            let opts = options(&a, default_day(&target)).map_err(|Usage(m)| m)?;
             let [fa, fb] = a.files.as_slice() else {
                 return Err(format!(
                     "compare needs two lists, A and B (got {}); - reads one of them from standard input",
@@ -440,7 +522,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 return Err("only one of the two lists can come from standard input".into());
             }
             let (ta, tb) = (read_list(fa)?, read_list(fb)?);
-            let c = match target(&a)? {
+            let c = match target {
                 Target::Index(l) => {
                     let i = l.index();
                     rollcall::compare::compare_among(i, &companions(i)?, (fa, &ta), (fb, &tb), &opts)
@@ -469,12 +551,17 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             if !matches!(format.as_str(), "text" | "json" | "csv") {
                 return Err(format!("--format must be text, json or csv, not {format}"));
             }
-            let opts = options(&a).map_err(|Usage(m)| m)?;
             let [file] = a.files.as_slice() else {
                 return Err("translate needs one list: a FILE, or - for standard input".into());
             };
             let text = read_list(file)?;
             let cm = Index::open(BUNDLED).map_err(|e| e.to_string())?;
+            // Targets are judged for the period: the default day is the target index's.
+            let day = match a.into.as_deref() {
+                Some("icd9cm") => icd9()?.meta().default_day(today()),
+                _ => cm.meta().default_day(today()),
+            };
+            let opts = options(&a, day).map_err(|Usage(m)| m)?;
             let t = match a.into.as_deref() {
                 Some("icd10cm") => rollcall::translate::translate(icd9()?, &cm, &text, &opts)?,
                 Some("icd9cm") => rollcall::translate::translate(&cm, icd9()?, &text, &opts)?,
@@ -587,9 +674,10 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             if a.files.is_empty() {
                 return Err("show needs one or more codes, e.g. rollcall show E11.6".into());
             }
-            let opts = options(&a).map_err(|Usage(m)| m)?;
+            let target = target(&a)?;
+            let opts = options(&a, default_day(&target)).map_err(|Usage(m)| m)?;
             let codes: Vec<&str> = a.files.iter().map(String::as_str).collect();
-            let cards = match target(&a)? {
+            let cards = match target {
                 Target::Index(mut l) => {
                     add_notes(l.index_mut(), a.notes.as_deref())?;
                     let i = l.index();

@@ -271,7 +271,7 @@ pub(crate) fn write_findings(s: &mut String, report: &Report, indent: &str) {
 /// One CSV cell, quoted when needed; a cell that a spreadsheet would read
 /// as a formula (`=`, `+`, `-`, `@`) gets a leading apostrophe.
 pub fn csv_cell(v: &str) -> String {
-    let v = if v.starts_with(['=', '+', '-', '@']) {
+    let v = if v.starts_with(['=', '+', '-', '@', '\t', '\r']) {
         format!("'{v}")
     } else {
         v.to_string()

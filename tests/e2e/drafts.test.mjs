@@ -83,6 +83,14 @@ test("a markdown draft reads as the CLI reads it, marked and fixed in place", as
   const marked = await page.$$eval("#list-marks mark", (ms) => ms.map((m) => m.textContent));
   assert.deepEqual(marked, ["E11.9", "E11.65", "E11.22", "E11.A", "I50.22", "I50.32", "I5O.9", "02703ZZ", "N18.31", "N18.32"]);
 
+  // A finding leads to its code in the list: the line number selects it.
+  await page.click('#findings tbody tr[data-kind="normalized"] button.to-token');
+  const picked = await page.evaluate(() => {
+    const ta = document.getElementById("list");
+    return ta.value.slice(ta.selectionStart, ta.selectionEnd);
+  });
+  assert.equal(picked, "I5O.9");
+
   // "Apply all safe fixes" writes I50.9 where I5O.9 stood, keeping the table row.
   const n = await page.evaluate(() => Number(document.body.dataset.checked));
   await page.click("#apply-safe");

@@ -11,4 +11,4 @@ cd "$E2E"
 bash "$ROOT/web/build.sh"
 node "$ROOT/web/build-single.mjs"
 mkdir -p out
-node --test --test-concurrency=1 --test-reporter=spec page.test.mjs embed.test.mjs search.test.mjs drafts.test.mjs card.test.mjs
+node --test --test-concurrency=1 --test-reporter=spec page.test.mjs embed.test.mjs search.test.mjs card.test.mjs export.test.mjs work.test.mjs drafts.test.mjs

@@ -29,6 +29,8 @@ export interface IndexInfo {
   notice: string;
   byte_length: number;
   sha256: string;
+  /** The day checked when none is given (set by the worker from `Checker.defaultDay`). */
+  default_day?: string;
 }
 
 /** Options of one check. Give `on`, or `from` and `to`, or neither. */
@@ -417,8 +419,9 @@ fn blank(value: &Option<String>) -> bool {
 }
 
 /// Turn the page's options into core options the way the CLI does: a single
-/// day, or a study period with both ends, or (nothing given) `today`.
-fn resolve_options(input: &OptionsInput, today: Date) -> Result<CheckOptions, String> {
+/// day, or a study period with both ends, or (nothing given) `default_day`
+/// (the index's default day: today when the index covers it).
+fn resolve_options(input: &OptionsInput, default_day: Date) -> Result<CheckOptions, String> {
     let on = (!blank(&input.on)).then(|| input.on.as_deref().unwrap_or(""));
     let from = (!blank(&input.from)).then(|| input.from.as_deref().unwrap_or(""));
     let to = (!blank(&input.to)).then(|| input.to.as_deref().unwrap_or(""));
@@ -446,7 +449,7 @@ fn resolve_options(input: &OptionsInput, today: Date) -> Result<CheckOptions, St
         (None, Some(_), None) | (None, None, Some(_)) => {
             Err("a study period needs both a start and an end".into())
         }
-        (None, None, None) => Ok(CheckOptions::on(today, input.billable)),
+        (None, None, None) => Ok(CheckOptions::on(default_day, input.billable)),
     }
 }
 
@@ -806,7 +809,7 @@ impl Checker {
         text: &str,
         options: JsCheckOptions,
     ) -> Result<String, JsValue> {
-        let opts = self.options(options)?;
+        let opts = self.options_from(options, today())?;
         let Some(s) = rollcall::systems::System::parse(system) else {
             return Err(fail(
                 "unknown code system",
@@ -833,6 +836,79 @@ impl Checker {
             .map_err(|e| fail("could not hand the result to the page", e))?;
         self.last = Some(Vec::new());
         Ok(out)
+    }
+
+    /// The day a list is checked on when no day or period is given: today
+    /// when the index covers it, else the nearest day it covers (ICD-9-CM:
+    /// its last day), as the CLI does.
+    #[wasm_bindgen(js_name = defaultDay)]
+    pub fn default_day(&self) -> String {
+        self.index.meta().default_day(today()).to_string()
+    }
+
+    /// One export of a checked list (`cleaned-csv`, `fhir`, `codes-csv`,
+    /// `codes-sql`, `codes-r`, `codes-python`), as JSON text: `{ format,
+    /// filename, mime, text, count, left_out }`, the bytes the CLI's
+    /// `check --format NAME` writes. `system` is a shape-only system picked
+    /// for the rows with no system cell, or empty; `url` the ValueSet's
+    /// canonical URL (empty: a placeholder).
+    #[wasm_bindgen(js_name = exportJson)]
+    pub fn export_json(
+        &self,
+        text: &str,
+        options: JsCheckOptions,
+        format: &str,
+        system: &str,
+        url: &str,
+    ) -> Result<String, JsValue> {
+        use rollcall::export::{export, Source, ValueSetMeta, PLACEHOLDER_URL};
+        let meta = ValueSetMeta {
+            url: if url.trim().is_empty() {
+                PLACEHOLDER_URL.to_string()
+            } else {
+                url.trim().to_string()
+            },
+            date: today(),
+        };
+        let made = if system.is_empty() {
+            let (opts, reading) = self.options_and_reading(options)?;
+            let draft = rollcall::list::read(text, reading);
+            let (report, _) = self.checked(&draft, &opts);
+            let views: Vec<_> = self.companions.iter().map(|c| c.view()).collect();
+            let reach = if format.starts_with("codes-") {
+                rollcall::check::check_draft_with_reach(&self.index, &views, &draft, &opts).1
+            } else {
+                Vec::new()
+            };
+            let view = self.index.view();
+            export(
+                format,
+                &Source {
+                    report: &report,
+                    reach: &reach,
+                    view: Some(&view),
+                    meta,
+                },
+            )
+        } else {
+            let opts = self.options_from(options, today())?;
+            let s = rollcall::systems::System::parse(system)
+                .ok_or_else(|| fail("unknown code system", system))?;
+            let mut loaded: Vec<&Index<Vec<u8>>> = vec![&self.index];
+            loaded.extend(self.companions.iter());
+            let report = rollcall::mixed::check_list(Primary::Shapes(s), &loaded, text, &opts);
+            export(
+                format,
+                &Source {
+                    report: &report,
+                    reach: &[],
+                    view: None,
+                    meta,
+                },
+            )
+        };
+        let e = made.map_err(|e| fail("cannot export", e))?;
+        serde_json::to_string(&e).map_err(|e| fail("could not hand the result to the page", e))
     }
 
     /// The systems whose indexes are loaded: this index's, then the
@@ -898,13 +974,33 @@ impl Checker {
         rollcall::mixed::check_listed_draft(Primary::Index(&self.index), &others, draft, opts)
     }
 
+    /// The check options the page sends; with no day or period, the index's
+    /// default day (`Meta::default_day`), or today for a shape-only system.
     fn options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {
         Ok(self.options_and_reading(options)?.0)
     }
 
+    /// The options and the reading the page sends, with the index's default day.
     fn options_and_reading(
         &self,
         options: JsCheckOptions,
+    ) -> Result<(CheckOptions, Reading), JsValue> {
+        self.options_and_reading_from(options, self.index.meta().default_day(today()))
+    }
+
+    /// The options with another default day (today, for a shape-only system).
+    fn options_from(
+        &self,
+        options: JsCheckOptions,
+        default_day: Date,
+    ) -> Result<CheckOptions, JsValue> {
+        Ok(self.options_and_reading_from(options, default_day)?.0)
+    }
+
+    fn options_and_reading_from(
+        &self,
+        options: JsCheckOptions,
+        default_day: Date,
     ) -> Result<(CheckOptions, Reading), JsValue> {
         let options: JsValue = options.into();
         let input: OptionsInput = if options.is_undefined() || options.is_null() {
@@ -926,7 +1022,8 @@ impl Checker {
             serde_wasm_bindgen::from_value(options).map_err(|e| fail("bad check options", e))?
         };
         let reading = reading_of(&input).map_err(|e| fail("bad check options", e))?;
-        let opts = resolve_options(&input, today()).map_err(|e| fail("bad check options", e))?;
+        let opts =
+            resolve_options(&input, default_day).map_err(|e| fail("bad check options", e))?;
         Ok((opts, reading))
     }
 
@@ -980,9 +1077,11 @@ impl Checker {
     /// billable_to, fit }] }` (the CLI's `find --format json`). A code or
     /// code start first lists that part of the tree (`within`), or names the
     /// start no code has (`no_code`). The last word counts as the start of a
-    /// word, for suggestions while typing; codes in use today come first.
+    /// word, for suggestions while typing; codes in use on the index's
+    /// default day (today when it covers it) come first.
     pub fn find(&self, query: &str, limit: u32) -> Result<String, JsValue> {
-        let day = today();
+        // The index's default day: today, or the nearest day it covers.
+        let day = self.index.meta().default_day(today());
         let limit = (limit as usize).clamp(1, 100);
         let f = rollcall::find::find(&self.index.view(), query, day, limit, true);
         let v = serde_json::json!({

@@ -3,18 +3,21 @@
 
 import { fileText, isWorkbook } from "./inputs.js";
 import { initDraft, readingSentence } from "./draft.js";
-import { cleanedRows, toCsv, toJsonReport, toValueSet, download } from "./outputs.js";
+import { cleanedRows, toJsonReport, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
 import { encodeState, decodeState } from "./permalink.js";
 import { setupCompare } from "./compare.js";
 import { open, readManifest } from "./rollcall.js";
 import { embedded } from "./embedded.js";
 import { initSearch } from "./search.js";
+import { rowsHtml, wireFindings, focusRow, resetTabStop } from "./findings.js";
+import { renderGlossary } from "./glossary.js";
+import { EditHistory } from "./undo.js";
+import { renderChanges } from "./changes.js";
+import { pageWords, titleOf, creditOf } from "./wording.js";
 import { initCard } from "./card.js";
 
 const $ = (id) => document.getElementById(id);
-const SEVERITY_WORD = { error: "error", warning: "warning", info: "info" };
-const SEVERITY_ICON = { error: "✖", warning: "▲", info: "●" };
 const ROW_PAGE = 500;
 const STRIP_LIMIT = 150;
 const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
@@ -46,8 +49,12 @@ const state = {
   timer: 0,
   shapes: null, // a shape-only system picked in the menu, or null
   loaded: [], // the systems whose indexes the worker has loaded
+  original: null, // the list as pasted (read from a file, a link, the demo), for the changes view
+  pageText: null, // what the page last wrote into the list (its undo keys apply while the list still holds it)
+  focusAfter: null, // after a fix: {index, key} of the finding to focus once the check is shown
   workbook: null, // { name, bytes } while a dropped workbook is the list
 };
+const edits = new EditHistory();
 
 // ----------------------------------------------------------- index load --
 
@@ -88,16 +95,20 @@ async function switchSystem(name) {
     // No content to load: the loaded index stays for rows naming its system.
     state.shapes = name;
     box.hidden = true;
+    showSystem();
     runCheck();
     return;
   }
   const wasShapes = state.shapes;
   state.shapes = null;
   if (state.info && state.info.vocabulary === name) {
-    if (wasShapes) runCheck();
+    if (wasShapes) {
+      showSystem();
+      runCheck();
+    }
     return;
   }
-  $("check-status").textContent = `Loading the ${name} index…`;
+  $("check-status").textContent = `Loading the ${titleOf(name)} index…`;
   document.body.dataset.state = "loading";
   try {
     const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
@@ -110,9 +121,10 @@ async function switchSystem(name) {
     runCheck();
   } catch (e) {
     box.hidden = false;
-    box.textContent = `Could not load the ${name} index: ${e.message.replace(/^Error: /, "")}`;
+    box.textContent = `Could not load the ${titleOf(name)} index: ${e.message.replace(/^Error: /, "")}`;
     $("opt-system").value = wasShapes || (state.info ? state.info.vocabulary : "icd10cm");
     state.shapes = wasShapes;
+    showSystem();
     document.body.dataset.state = state.info ? "ready" : "index-error";
     $("check-status").textContent = "";
   }
@@ -144,31 +156,50 @@ async function loadIndex() {
 function showIndexReady(info) {
   state.info = info;
   $("index-loading").hidden = true;
-  const p = $("index-ready");
-  p.hidden = false;
-  p.innerHTML =
-    `<span aria-hidden="true">✓</span> ${esc(info.title)} index, release <strong id="index-release">${esc(info.release)}</strong>, ` +
-    (info.coverage_from === info.coverage_to
-      ? `one release only: terms are checked as of it, and study dates do not apply to them `
-      : `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> `) +
-    `<span class="hint">(${formatBytes(info.byte_length)}, SHA-256 ${esc(info.sha256.slice(0, 12))}…, matches its manifest)</span>`;
   for (const id of ["opt-on", "opt-from", "opt-to"]) {
     $(id).min = info.coverage_from;
     $(id).max = info.coverage_to;
   }
-  $("on-hint").textContent = info.coverage_from === info.coverage_to
-    ? `${info.title} is one release (${info.release}): the day and period do not change its check.`
-    : `Empty means today (${new Date().toISOString().slice(0, 10)}, UTC), as on the command line. The index covers ${info.coverage_from} to ${info.coverage_to}.`;
+  showSystem();
+  $("check-now").disabled = false;
+  document.body.dataset.state = "ready";
+  performance.mark("rollcall-ready");
+}
+
+/** The index line, the day hint and the footer's credits, for the system picked. */
+function showSystem() {
+  const info = state.info;
+  if (!info) return;
+  const p = $("index-ready");
+  p.hidden = false;
+  const indexWords =
+    `${esc(info.title)} index, release <strong id="index-release">${esc(info.release)}</strong>, ` +
+    (info.coverage_from === info.coverage_to
+      ? `one release only: terms are checked as of it, and study dates do not apply to them `
+      : `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> `) +
+    `<span class="hint">(${formatBytes(info.byte_length)}, SHA-256 ${esc(info.sha256.slice(0, 12))}…, matches its manifest)</span>`;
+  p.innerHTML = state.shapes
+    ? `<span aria-hidden="true">✓</span> <strong>${esc(titleOf(state.shapes))}</strong>: checked by shape and check digit only (rollcall holds none of its content). ` +
+      `<span class="hint">Rows whose system column names ${esc(info.title)} are checked against its ${indexWords.replace(/ id="index-release"/, "")}</span>`
+    : `<span aria-hidden="true">✓</span> ${indexWords}`;
+  p.dataset.system = state.shapes || info.vocabulary;
+  const today = new Date().toISOString().slice(0, 10);
+  const day = info.default_day || today;
+  $("on-hint").textContent = state.shapes
+    ? `Empty means today (${today}, UTC).`
+    : info.coverage_from === info.coverage_to
+      ? `${info.title} is one release (${info.release}): the day and period do not change its check.`
+      : day !== today
+        ? `Empty means ${day}, not today: the ${info.title} index covers ${info.coverage_from} to ${info.coverage_to}, and a day outside it would make every code read as retired or not yet valid.`
+        : `Empty means today (${today}, UTC). The index covers ${info.coverage_from} to ${info.coverage_to}.`;
+  $("on-hint").dataset.defaultDay = state.shapes ? today : day;
+  $("source-credit").textContent = creditOf(state.shapes || info.vocabulary);
   // The credit the release's licence asks for (HPO), shown while its index is in use.
   const notice = $("index-notice");
   notice.textContent = info.notice || "";
   notice.hidden = !info.notice;
-  $("source-files").textContent = info.sources.length
-    ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.`
-    : "";
-  $("check-now").disabled = false;
-  document.body.dataset.state = "ready";
-  performance.mark("rollcall-ready");
+  $("source-files").textContent =
+    !state.shapes && info.sources.length ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.` : "";
 }
 
 // --------------------------------------------------------------- options --
@@ -217,6 +248,18 @@ function checkPicked() {
   else runCheck();
 }
 
+/**
+ * Whether the options are still being typed: a study period with one end
+ * missing, or (while focus is in its fields) ending before it starts. The
+ * check then waits, with a hint and no error, until both ends are given.
+ */
+function periodPending(o) {
+  if (o.mode !== "period") return false;
+  if (!o.from || !o.to) return true;
+  const typing = ["opt-from", "opt-to"].includes(document.activeElement && document.activeElement.id);
+  return typing && o.from > o.to;
+}
+
 function syncModeFields() {
   const period = $("when-period").checked;
   $("on-fields").hidden = period;
@@ -233,9 +276,15 @@ function scheduleCheck() {
 async function runCheck() {
   clearTimeout(state.timer);
   if (!state.info) return;
-  const seq = ++state.seq;
   const text = $("list").value;
   const opts = readOptions();
+  syncDemo();
+  if (periodPending(opts)) {
+    $("options-error").hidden = true;
+    $("check-status").textContent = "Waiting for both days of the study period.";
+    return;
+  }
+  const seq = ++state.seq;
   document.body.dataset.checking = "true";
   $("check-status").textContent = "Checking…";
   try {
@@ -257,11 +306,12 @@ async function runCheck() {
     document.body.dataset.checkMs = String(result.checkMs);
     updateLink(text, opts);
     requestStrips(result.report);
+    compareView.listAChanged();
   } catch (e) {
     if (seq !== state.seq) return;
     const box = $("options-error");
     box.hidden = false;
-    box.textContent = `Could not check: ${e.message.replace(/^Error: /, "")}`;
+    box.textContent = `Could not check: ${pageWords(e.message.replace(/^Error: /, "").replace(/^bad check options: /, ""))}`;
     $("check-status").textContent = "";
   } finally {
     if (seq === state.seq) {
@@ -293,8 +343,13 @@ function pick(f) {
   return { kind: f.kind, severity: f.severity, message: f.message, suggestions: f.suggestions || [] };
 }
 
-function plural(n, word) {
-  return `${n.toLocaleString("en-US")} ${word}${n === 1 ? "" : "s"}`;
+/** What names a finding across a re-check (its line may move; its kind and code stay). */
+function rowKey(x) {
+  return `${x.kind}\t${x.severity}\t${x.input}`;
+}
+
+function plural(n, word, many = `${word}s`) {
+  return `${n.toLocaleString("en-US")} ${n === 1 ? word : many}`;
 }
 
 function render() {
@@ -331,6 +386,8 @@ function render() {
   $("apply-safe").disabled = !all.some((x) => x.kind === "normalized" && x.entry && x.suggestions.length);
   renderCleaned();
   renderCoverage();
+  renderChanges($("changes-box"), state.original, $("list").value);
+  focusAfterFix();
 }
 
 /** Which systems the list holds, what each was checked against, and the loaded indexes. */
@@ -371,48 +428,59 @@ function renderRows() {
   state.rows = rows;
   const body = $("findings").tBodies[0];
   const shown = rows.slice(0, state.shown);
-  body.innerHTML = shown
-    .map((x, i) => {
-      const sugg = x.suggestions
-        .map(
-          (sg, j) =>
-            `<button type="button" class="suggestion" data-row="${i}" data-sugg="${j}" tabindex="-1" ` +
-            `title="${esc(sg.reason)}">${x.kind === "sibling-gap" ? "Add" : "Use"} <code>${esc(sg.code)}</code></button>` +
-            `<span class="sugg-desc">${esc(sg.description)}${sg.reason ? ` — ${esc(sg.reason)}` : ""}</span>`,
-        )
-        .join("");
-      const lines = x.lines.length > 1 ? x.lines.join(", ") : String(x.line);
-      return (
-        `<tr tabindex="${i === 0 ? 0 : -1}" data-row="${i}" data-line="${x.line}" data-lines="${x.lines.join(",")}" data-kind="${esc(x.kind)}" data-severity="${x.severity}" data-system="${esc(rowSystem(x))}">` +
-        `<td class="num">${lines}</td><td class="input"><code>${esc(x.input)}</code></td><td class="system">${esc(rowSystem(x))}</td>` +
-        `<td><span class="sev sev-${x.severity}"><span aria-hidden="true">${SEVERITY_ICON[x.severity] || "?"}</span> ${SEVERITY_WORD[x.severity] || esc(x.severity)}</span></td>` +
-        `<td>${esc(x.kind)}</td><td class="what">${esc(x.message)}</td><td class="suggs">${sugg || '<span class="hint">—</span>'}</td></tr>`
-      );
-    })
-    .join("");
+  body.innerHTML = rowsHtml(shown, rowSystem);
   if (!rows.length) {
-    body.innerHTML = `<tr><td colspan="7" class="hint">${state.allRows.length ? "No findings match the filter." : "No findings: every entry is fine for these options."}</td></tr>`;
+    body.innerHTML = `<tr><td colspan="6" class="hint">${state.allRows.length ? "No findings match the filter." : "No findings: every entry is fine for these options."}</td></tr>`;
   }
+  resetTabStop(body);
   const more = $("findings-more");
   if (rows.length > shown.length) {
     more.hidden = false;
-    more.innerHTML = `Showing ${shown.length.toLocaleString("en-US")} of ${rows.length.toLocaleString("en-US")} findings. <button type="button" id="show-more">Show ${Math.min(ROW_PAGE, rows.length - shown.length)} more</button>`;
+    more.innerHTML = `Showing ${shown.length.toLocaleString("en-US")} of ${rows.length.toLocaleString("en-US")} findings. <button type="button" id="show-more" class="secondary">Show ${Math.min(ROW_PAGE, rows.length - shown.length)} more</button>`;
   } else {
     more.hidden = true;
   }
 }
 
+/** After a fix: focus the finding that followed the fixed one (or the one now in its place). */
+function focusAfterFix() {
+  const want = state.focusAfter;
+  state.focusAfter = null;
+  if (!want) return;
+  const body = $("findings").tBodies[0];
+  let i = want.key ? state.rows.findIndex((x) => rowKey(x) === want.key) : -1;
+  if (i < 0 || i >= state.shown) i = Math.min(want.index, state.rows.length - 1);
+  if (!focusRow(body, i)) $("findings").focus();
+}
+
 // -------------------------------------------------------- applying fixes --
+
+/**
+ * Put new text in the list as a step the page made: recorded for undo and
+ * redo, the list as pasted kept for the changes view, then checked.
+ */
+function setList(text, note) {
+  const ta = $("list");
+  const before = ta.value;
+  if (state.original === null) state.original = before;
+  ta.value = text;
+  state.pageText = text;
+  edits.record(before, text, note);
+  syncUndo();
+  $("edit-status").textContent = note;
+}
 
 /** Edit the list (in the worker, which knows the list's layout) and re-check. */
 async function applyEdits(edits, note) {
   const ta = $("list");
+  let text;
   try {
-    ta.value = await ask("edit", { text: ta.value, edits, reading: draft.reading() });
+    text = await ask("edit", { text: ta.value, edits, reading: draft.reading() });
   } catch (e) {
-    $("check-status").textContent = `Could not apply: ${e.message.replace(/^Error: /, "")}`;
+    $("check-status").textContent = `Could not apply: ${pageWords(e.message.replace(/^Error: /, ""))}`;
     return;
   }
+  setList(text, note);
   $("check-status").textContent = `${note} Checking…`;
   await runCheck();
 }
@@ -429,31 +497,92 @@ function suggestionEdits(row, sugg) {
     const after = Math.max(...row.lines);
     return { edits: [{ op: "add", after, code: sugg.code, label: sugg.description || null }], note: `Added ${sugg.code} after line ${after}.` };
   }
-  // A finding about several lines (a roll-up): one line in their place.
-  const [first, ...rest] = row.lines;
+  // A finding about several lines (a roll-up): one line in their place. In
+  // a draft several codes may share a line: only a line that holds nothing
+  // but one of them goes; the others stay for the reader to remove.
+  const lines = [...new Set(row.lines)];
+  const [first, ...rest] = lines;
+  const codesOn = (line) => state.report.entries.filter((e) => e.line === line && e.code).length;
+  const gone = rest.filter((line) => codesOn(line) === 1);
+  const firstEntry = state.report.entries.find((e) => e.line === first && e.code);
   return {
-    edits: [{ op: "replace", line: first, code: sugg.code }, ...rest.map((line) => ({ op: "remove", line }))],
-    note: `Lines ${row.lines.join(", ")}: now one line, ${sugg.code}.`,
+    edits: [
+      { op: "replace", line: first, code: sugg.code, column: firstEntry?.column ?? undefined },
+      ...gone.map((line) => ({ op: "remove", line })),
+    ],
+    note: `Lines ${lines.join(", ")}: now ${sugg.code}.`,
   };
 }
 
-function applySuggestion(row, sugg) {
-  const { edits, note } = suggestionEdits(row, sugg);
-  return applyEdits(edits, note);
+/** Apply suggestion `j` of finding `i` (as shown); then the next finding has the focus. */
+async function applySuggestion(i, j) {
+  const row = state.rows[i];
+  const sugg = row && row.suggestions[j];
+  if (!sugg) return;
+  const next = state.rows[i + 1];
+  state.focusAfter = { index: i, key: next ? rowKey(next) : null };
+  const { edits: list, note } = suggestionEdits(row, sugg);
+  await applyEdits(list, note);
 }
 
 function applySafeFixes() {
-  const edits = state.allRows
+  const fixes = state.allRows
     .filter((row) => row.kind === "normalized" && row.entry && row.suggestions.length)
     .map((row) => ({ op: "replace", line: row.line, code: row.suggestions[0].code, column: row.entry.column ?? undefined }));
-  return applyEdits(edits, `Applied ${plural(edits.length, "formatting fix")}.`);
+  return applyEdits(fixes, `Applied ${plural(fixes.length, "formatting fix")}.`);
+}
+
+/** The undo and redo buttons follow the history; their descriptions say what each would do. */
+function syncUndo() {
+  $("undo").disabled = !edits.canUndo();
+  $("redo").disabled = !edits.canRedo();
+  $("undo-what").textContent = edits.canUndo() ? `Takes back: ${edits.nextUndo()}` : "";
+  $("redo-what").textContent = edits.canRedo() ? `Makes again: ${edits.nextRedo()}` : "";
+}
+
+function undo() {
+  const step = edits.undo($("list").value);
+  if (!step) return;
+  $("list").value = step.text;
+  state.pageText = step.text;
+  syncUndo();
+  $("edit-status").textContent = `Undone: ${step.note}`;
+  runCheck();
+}
+
+function redo() {
+  const step = edits.redo($("list").value);
+  if (!step) return;
+  $("list").value = step.text;
+  state.pageText = step.text;
+  syncUndo();
+  $("edit-status").textContent = `Redone: ${step.note}`;
+  runCheck();
+}
+
+/**
+ * Ctrl+Z / Ctrl+Shift+Z / Ctrl+Y anywhere but in a text field, and in the
+ * list while it still holds what the page's last edit left there (after
+ * typing, the browser's own undo takes the typing back first).
+ */
+function undoKeys(e) {
+  if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+  const key = e.key.toLowerCase();
+  const isUndo = key === "z" && !e.shiftKey;
+  const isRedo = (key === "z" && e.shiftKey) || key === "y";
+  if (!isUndo && !isRedo) return;
+  const t = e.target;
+  const field = t && (t.isContentEditable || ["INPUT", "TEXTAREA", "SELECT"].includes(t.tagName));
+  if (field && (t.id !== "list" || t.value !== state.pageText)) return;
+  e.preventDefault();
+  if (isUndo) undo();
+  else redo();
 }
 
 // ---------------------------------------------------------- cleaned list --
 
 function renderCleaned() {
-  const rows = cleanedRows(state.report);
-  state.cleaned = rows;
+  const { rows, leftOut } = cleanedRows(state.report);
   const body = $("cleaned").tBodies[0];
   const shown = rows.slice(0, 300);
   body.innerHTML =
@@ -462,7 +591,40 @@ function renderCleaned() {
       .join("") +
     (rows.length > shown.length ? `<tr><td colspan="4" class="hint">… and ${(rows.length - shown.length).toLocaleString("en-US")} more in the downloads.</td></tr>` : "") +
     (rows.length ? "" : '<tr><td colspan="4" class="hint">No usable codes yet.</td></tr>');
-  for (const id of ["copy-csv", "download-csv", "download-json", "download-fhir"]) $(id).disabled = false;
+  const note = $("cleaned-left-out");
+  note.hidden = !leftOut.length;
+  note.dataset.count = String(leftOut.length);
+  note.innerHTML = leftOut.length
+    ? `<strong><span aria-hidden="true">✖</span> ${plural(leftOut.length, "entry", "entries")} left out for errors:</strong> ` +
+      leftOut.map((l) => `line ${l.line} <code>${esc(l.code)}</code> (${esc(l.kinds.join(", "))})`).join("; ") + "."
+    : "";
+  for (const b of document.querySelectorAll("#copy-csv, #download-csv, #download-json, #download-fhir, button.export")) b.disabled = false;
+}
+
+/** One export, written by the core (the CLI's check --format NAME) for the list and options as checked. */
+async function exportOf(format) {
+  const opts = readOptions();
+  return ask("export", {
+    text: $("list").value,
+    options: checkerOptions(opts),
+    format,
+    system: state.shapes || "",
+    url: $("valueset-url").value,
+  });
+}
+
+function leftOutWords(e) {
+  return e.left_out.length ? `; ${plural(e.left_out.length, "entry", "entries")} with errors left out, named in the file` : "";
+}
+
+async function saveExport(format, what) {
+  try {
+    const e = await exportOf(format);
+    download(e.filename, e.mime, e.text);
+    exportStatus(`Saved ${what(e)}${leftOutWords(e)}.`);
+  } catch (err) {
+    exportStatus(`Could not export: ${pageWords(err.message.replace(/^Error: /, "").replace(/^cannot export: /, ""))}`);
+  }
 }
 
 function exportStatus(text) {
@@ -524,11 +686,12 @@ function renderCoverage() {
 
 async function updateLink(text, opts) {
   const status = $("link-status");
-  if (text.length > LINK_LIMIT * 4) {
+  const b = compareView.listB();
+  if (text.length + b.length > LINK_LIMIT * 4) {
     status.textContent = "This list is too long to keep in a link.";
     return;
   }
-  const frag = await encodeState({ text, options: opts });
+  const frag = await encodeState({ text, options: opts, b });
   if (frag.length > LINK_LIMIT) {
     status.textContent = "This list is too long to keep in a link.";
     return;
@@ -542,7 +705,9 @@ async function restoreLink() {
     const s = await decodeState(location.hash);
     if (!s) return false;
     $("list").value = s.text;
+    state.original = s.text;
     writeOptions(s.options);
+    if (s.b) compareView.setB(s.b);
     $("link-status").textContent = "List and options restored from the link.";
     return true;
   } catch (e) {
@@ -563,7 +728,8 @@ async function takeFile(file) {
       return;
     }
     const text = fileText(file.name, bytes);
-    $("list").value = text;
+    setList(text, `Read ${file.name}.`);
+    state.original = text;
     msg.className = "file-message";
     const lines = text === "" ? 0 : text.replace(/\r\n?/g, "\n").replace(/\n$/, "").split("\n").length;
     msg.textContent = `Read ${lines} line${lines === 1 ? "" : "s"} from “${file.name}”; the checker finds the codes in it.`;
@@ -605,6 +771,12 @@ async function takeWorkbook(name, bytes) {
 
 function wire() {
   draft = initDraft({ ask, onChange: runCheck });
+  // A finding leads to its code in the list (the code itself, in a draft).
+  $("findings").addEventListener("click", (e) => {
+    const b = e.target.closest("button.to-token");
+    if (!b) return;
+    draft.showToken(Number(b.dataset.line), b.dataset.column ? Number(b.dataset.column) : undefined);
+  });
   $("list").addEventListener("input", () => {
     state.workbook = null;
     scheduleCheck();
@@ -629,60 +801,41 @@ function wire() {
     }
   });
 
-  const body = $("findings").tBodies[0];
-  body.addEventListener("click", (e) => {
-    const b = e.target.closest("button.suggestion");
-    if (!b) return;
-    const row = state.rows[Number(b.dataset.row)];
-    if (row) applySuggestion(row, row.suggestions[Number(b.dataset.sugg)]);
+  wireFindings($("findings").tBodies[0], (i, j) => applySuggestion(i, j));
+  $("undo").addEventListener("click", undo);
+  $("redo").addEventListener("click", redo);
+  document.addEventListener("keydown", undoKeys);
+  $("try-demo").addEventListener("click", loadDemo);
+  $("list").addEventListener("input", () => {
+    // Until the page first changes it, the list as typed or pasted is the list "as pasted".
+    if (!edits.canUndo()) state.original = $("list").value;
+    syncDemo();
   });
-  body.addEventListener("keydown", (e) => {
-    const tr = e.target.closest("tr[data-row]");
-    if (!tr) return;
-    const rows = [...body.querySelectorAll("tr[data-row]")];
-    const i = rows.indexOf(tr);
-    let next = -1;
-    if (e.key === "ArrowDown") next = Math.min(i + 1, rows.length - 1);
-    else if (e.key === "ArrowUp") next = Math.max(i - 1, 0);
-    else if (e.key === "Home") next = 0;
-    else if (e.key === "End") next = rows.length - 1;
-    else if (e.key === "Enter" && e.target === tr) {
-      const row = state.rows[Number(tr.dataset.row)];
-      if (row && row.suggestions.length) {
-        e.preventDefault();
-        applySuggestion(row, row.suggestions[0]);
-      }
-      return;
-    }
-    if (next >= 0) {
-      e.preventDefault();
-      tr.tabIndex = -1;
-      rows[next].tabIndex = 0;
-      rows[next].focus();
-    }
-  });
+  for (const id of ["opt-from", "opt-to"]) $(id).addEventListener("blur", () => setTimeout(scheduleCheck, 0));
 
   $("copy-csv").addEventListener("click", async () => {
     try {
-      await navigator.clipboard.writeText(toCsv(state.cleaned));
-      exportStatus(`Copied ${plural(state.cleaned.length, "code")} as CSV.`);
+      const e = await exportOf("cleaned-csv");
+      await navigator.clipboard.writeText(e.text);
+      exportStatus(`Copied ${plural(e.count, "code")} as CSV${leftOutWords(e)}.`);
     } catch (e) {
       exportStatus(`Could not copy (${e.message}); use Download CSV instead.`);
     }
   });
-  $("download-csv").addEventListener("click", () => {
-    download("code-list.csv", "text/csv", toCsv(state.cleaned));
-    exportStatus(`Saved ${plural(state.cleaned.length, "code")} as CSV.`);
-  });
+  $("download-csv").addEventListener("click", () => saveExport("cleaned-csv", (e) => `${plural(e.count, "code")} as CSV`));
   $("download-json").addEventListener("click", () => {
     download("rollcall-report.json", "application/json", toJsonReport(state.report));
     exportStatus("Saved the JSON report.");
   });
-  $("download-fhir").addEventListener("click", () => {
-    const { resource, leftOut } = toValueSet(state.cleaned, state.report);
-    download("code-list.valueset.json", "application/fhir+json", JSON.stringify(resource, null, 2) + "\n");
-    exportStatus(`Saved the FHIR ValueSet (${plural(resource.compose.include.reduce((n, inc) => n + inc.concept.length, 0), "concept")})${leftOut ? `; ${plural(leftOut, "pattern")} left out` : ""}.`);
-  });
+  $("download-fhir").addEventListener("click", () =>
+    saveExport("fhir", (e) => `the FHIR ValueSet (${plural(e.count, "concept")})`),
+  );
+  const named = { "codes-csv": "CSV", "codes-sql": "a SQL IN (…) list", "codes-r": "an R vector", "codes-python": "a Python list" };
+  for (const b of document.querySelectorAll("button.export")) {
+    b.addEventListener("click", () =>
+      saveExport(b.dataset.format, (e) => `${plural(e.count, "billable code")} as ${named[b.dataset.format]}`),
+    );
+  }
   $("copy-link").addEventListener("click", async () => {
     await updateLink($("list").value, readOptions());
     try {
@@ -717,15 +870,38 @@ function wire() {
 
 const compareView = setupCompare({
   ask,
-  options: () => checkerOptions(readOptions()),
+  options: () => {
+    const o = readOptions();
+    return periodPending(o) ? null : checkerOptions(o);
+  },
   listA: () => $("list").value,
   ready: () => !!state.info,
+  onCompared: () => updateLink($("list").value, readOptions()),
 });
 /** The word search adds a result as a new last line of the list. */
 function addFromSearch(code, description) {
   const text = $("list").value;
   const after = text.replace(/\n$/, "") === "" ? 0 : text.replace(/\n$/, "").split("\n").length;
   return applyEdits([{ op: "add", after, code, label: description }], `Added ${code}.`);
+}
+
+// ------------------------------------------------------------------ demo --
+
+/** "Try the demo list" is offered while the list is empty. */
+function syncDemo() {
+  $("demo-row").hidden = !state.info || $("list").value.trim() !== "";
+}
+
+async function loadDemo() {
+  try {
+    const text = embedded ? embedded.demo : await (await fetch("demo-list.tsv")).text();
+    setList(text, "Put in the demo list.");
+    state.original = text;
+    runCheck();
+    $("list").focus();
+  } catch (e) {
+    $("check-status").textContent = `Could not load the demo list: ${e.message}`;
+  }
 }
 
 /** The code card adds the codes checked in it as new last lines. */
@@ -740,6 +916,7 @@ async function main() {
   document.body.dataset.state = "loading";
   wire();
   initSearch({ ask, addToList: addFromSearch });
+  renderGlossary($("glossary-list"));
   initCard({
     ask,
     loadNotes: () => (checker ? checker.loadNotes() : Promise.reject(new Error("the index is not loaded"))),
@@ -749,6 +926,7 @@ async function main() {
     replaceLine: (line, code) => applyEdits([{ op: "replace", line, code }], `Line ${line} is now ${code}.`),
   });
   syncModeFields();
+  syncUndo();
   const restored = restoreLink();
   let info;
   try {
@@ -760,6 +938,7 @@ async function main() {
   showIndexReady(info);
   compareView.enable();
   await restored;
+  syncDemo();
   if ($("list").value.trim() || $("opt-system").value !== info.vocabulary) checkPicked();
 }
 

@@ -180,22 +180,33 @@ function legend() {
 
 /**
  * Wires the compare panel. `ask(type, payload)` talks to the worker;
- * `options()` gives the check options of the page; `listA()` the page's list;
- * `ready()` whether the index is loaded.
+ * `options()` gives the check options of the page (null while they are
+ * being typed); `listA()` the page's list; `ready()` whether the index is
+ * loaded; `onCompared()` is told after each comparison (the page keeps
+ * list B in its link). Once B holds a list, a change to either list
+ * compares again.
  */
-export function setupCompare({ ask, options, listA, ready }) {
+export function setupCompare({ ask, options, listA, ready, onCompared = () => {} }) {
   const $ = (id) => document.getElementById(id);
   const button = $("compare-now");
   const status = $("compare-status");
   const out = $("compare-result");
+  const listB = $("list-b");
   let seq = 0;
+  let timer = 0;
   async function run() {
+    clearTimeout(timer);
     if (!ready()) return;
+    const opts = options();
+    if (!opts) {
+      status.textContent = "Waiting for both days of the study period.";
+      return;
+    }
     const mine = ++seq;
     status.textContent = "Comparing…";
     document.body.dataset.comparing = "true";
     try {
-      const { comparison, ms } = await ask("compare", { a: listA(), b: $("list-b").value, options: options() });
+      const { comparison, ms } = await ask("compare", { a: listA(), b: listB.value, options: opts });
       if (mine !== seq) return;
       render(comparison, out);
       out.hidden = false;
@@ -209,13 +220,29 @@ export function setupCompare({ ask, options, listA, ready }) {
       if (mine === seq) {
         document.body.dataset.comparing = "false";
         document.body.dataset.compared = String(mine);
+        onCompared();
       }
     }
   }
+  /** Compare again soon, when B holds a list. */
+  function changed() {
+    clearTimeout(timer);
+    if (!listB.value.trim()) return;
+    timer = setTimeout(run, 400);
+  }
   button.addEventListener("click", run);
+  listB.addEventListener("input", changed);
   return {
     enable() {
       button.disabled = false;
     },
+    /** List A or the options changed (its check is done): compare again when B holds a list. */
+    listAChanged: changed,
+    /** Put a list in B (from a link) and compare it. */
+    setB(text) {
+      listB.value = text;
+      changed();
+    },
+    listB: () => listB.value,
   };
 }

@@ -1,7 +1,11 @@
 // The form checker: a findings panel under every textarea marked
 // `data-rollcall-check`, live as the list is typed; while error-level
 // findings remain, the form's submit is held (or only warned about), and on
-// submit a hidden field gets a compact summary of the check. Built on the
+// submit a hidden field gets a compact summary of the check. A code read in
+// another form than the official one (a `normalized` finding: "I1O" read as
+// I10) is written in its official form before the form is sent, and the
+// panel says so; every suggestion in the panel is a button that puts it in
+// the list. Built on the
 // module API (rollcall.js); the panel lives in a shadow root so the page's
 // styles and the panel's never meet. Every string from the list reaches the
 // DOM as text (textContent), never as markup.
@@ -34,8 +38,9 @@ li:first-child { border-top: 0; }
 .sev-warning { color: #8a5a00; }
 .sev-info { color: #28527a; }
 code { font: 0.85rem ui-monospace, monospace; background: #e8edf3; padding: 0 0.25em; border-radius: 3px; }
-button { font: inherit; font-size: 0.85rem; padding: 0 0.4em; border: 1px solid #7a8797; border-radius: 4px; background: #fff; cursor: pointer; }
-button:focus-visible { outline: 2px solid #1f5fa8; outline-offset: 1px; }
+button { font: inherit; font-size: 0.85rem; padding: 0.1em 0.5em; min-height: 24px; border: 1px solid #5b6878; border-radius: 4px; background: #fff; color: #1d2430; cursor: pointer; }
+button:focus-visible { outline: 3px solid #1f5fa8; outline-offset: 2px; }
+.applied { margin: 0.5em 0 0; padding: 0.4em 0.6em; border-left: 4px solid #28527a; background: #eaf1f8; }
 .more, .caution { margin: 0.4em 0 0; font-size: 0.8rem; color: #4a5563; }
 `;
 
@@ -92,7 +97,7 @@ export function optionsOf(textarea) {
 function findingsOf(report) {
   const rows = [];
   for (const e of report.entries) {
-    for (const f of e.findings) rows.push({ lines: [e.line], code: e.code ?? e.input.trim(), ...f });
+    for (const f of e.findings) rows.push({ lines: [e.line], code: e.code ?? e.input.trim(), entry: true, ...f });
   }
   for (const f of report.list_findings) rows.push({ lines: f.lines, code: f.codes.join(", "), ...f });
   const rank = { error: 0, warning: 1, info: 2 };
@@ -185,10 +190,12 @@ class FormList {
     this.status = el("p", { class: "status", role: "status", "aria-live": "polite" });
     this.hold = el("p", { class: "hold", role: "alert", tabindex: "-1" });
     this.hold.hidden = true;
+    this.applied = el("p", { class: "applied", role: "status" });
+    this.applied.hidden = true;
     this.list = el("ul", { "aria-label": `Findings for ${this.label}` });
     this.more = el("p", { class: "more" });
     this.more.hidden = true;
-    panel.append(this.status, this.hold, this.list, this.more, el("p", { class: "caution" }, `Caution: ${CAUTION}`));
+    panel.append(this.status, this.hold, this.applied, this.list, this.more, el("p", { class: "caution" }, `Caution: ${CAUTION}`));
     root.append(panel);
     this.textarea.insertAdjacentElement("afterend", this.host);
   }
@@ -259,7 +266,16 @@ class FormList {
       sev.append(el("span", { "aria-hidden": "true" }, `${SEVERITY_ICON[f.severity] || "?"} `), f.severity);
       const message = /[.!?]$/.test(f.message) ? f.message : `${f.message}.`;
       li.append(sev, " ", el("code", {}, f.code), ` ${f.kind}: ${message}`);
-      if (f.suggestions && f.suggestions.length) {
+      // A suggestion for one line is a button that writes it on that line.
+      if (f.suggestions && f.suggestions.length && f.lines.length === 1 && f.entry) {
+        li.append(" Use: ");
+        f.suggestions.slice(0, 3).forEach((x, k) => {
+          const use = el("button", { type: "button", class: "use", title: x.description || "" }, x.code);
+          use.setAttribute("aria-label", `Use ${x.code} on line ${line}`);
+          use.addEventListener("click", () => this.replace([{ op: "replace", line, code: x.code }], `Line ${line}: now ${x.code}.`));
+          li.append(k ? " " : "", use);
+        });
+      } else if (f.suggestions && f.suggestions.length) {
         li.append(` Suggested: ${f.suggestions.slice(0, 3).map((x) => x.code).join(", ")}.`);
       }
       return li;
@@ -267,6 +283,47 @@ class FormList {
     this.list.replaceChildren(...items);
     this.more.hidden = rows.length <= SHOWN;
     this.more.textContent = rows.length > SHOWN ? `… and ${rows.length - SHOWN} more findings.` : "";
+  }
+
+  /** Apply edits to the list, say what changed, and check it again. */
+  async replace(edits, note) {
+    if (!this.checker) return;
+    try {
+      this.textarea.value = await this.checker.edit(this.textarea.value, edits);
+    } catch (e) {
+      this.applied.hidden = false;
+      this.applied.textContent = `Could not change the list: ${String(e.message || e).replace(/^Error: /, "")}`;
+      return;
+    }
+    this.applied.hidden = false;
+    this.applied.textContent = note;
+    // Other scripts of the form page hear of the change as of typing.
+    this.textarea.dispatchEvent(new Event("input", { bubbles: true }));
+    await this.check();
+  }
+
+  /**
+   * Codes read in another form than the official one (normalized
+   * findings): their official form, as edits. The form sends the list as
+   * the checker read it, never "I1O" for I10.
+   */
+  readings() {
+    if (!this.result) return [];
+    return this.result.report.entries
+      .filter((e) => e.findings.some((f) => f.kind === "normalized" && f.suggestions.length))
+      .map((e) => ({ line: e.line, from: e.input.trim(), code: e.findings.find((f) => f.kind === "normalized").suggestions[0].code }));
+  }
+
+  /** Write the official forms into the list before it is sent; true when something changed. */
+  async applyReadings() {
+    const r = this.readings();
+    if (!r.length) return false;
+    const words = r.map((x) => `line ${x.line} ${x.code} (written “${x.from.split(/[\t,]/)[0].trim()}”)`).join("; ");
+    await this.replace(
+      r.map((x) => ({ op: "replace", line: x.line, code: x.code })),
+      `Written in the official form before sending: ${words}.`,
+    );
+    return true;
   }
 
   /** Write the summary into the form's hidden field. */
@@ -314,22 +371,26 @@ function guard(form) {
     if (releasing) return;
     const stale = lists.filter((l) => l.checker && !l.fresh() && !l.problem);
     const loading = lists.filter((l) => !l.checker && !l.problem);
-    if (stale.length || loading.length) {
-      // Check the lists as they are now, then submit again with the same button.
+    const readings = lists.filter((l) => l.fresh() && l.readings().length);
+    if (stale.length || loading.length || readings.length) {
+      // Check the lists as they are now, write codes in their official form,
+      // then submit again with the same button.
       event.preventDefault();
       const submitter = event.submitter || null;
-      Promise.all(lists.map((l) => (l.fresh() || l.problem ? null : l.ready.then(() => (l.fresh() ? null : l.check()))))).then(() => {
-        if (lists.map((l) => l.holds()).some(Boolean)) return;
-        // requestSubmit dispatches the submit event at once, or none when the
-        // form's own validation fails; either way the flag is over after it.
-        releasing = true;
-        try {
-          if (submitter) form.requestSubmit(submitter);
-          else form.requestSubmit();
-        } finally {
-          releasing = false;
-        }
-      });
+      Promise.all(lists.map((l) => (l.fresh() || l.problem ? null : l.ready.then(() => (l.fresh() ? null : l.check())))))
+        .then(() => Promise.all(lists.map((l) => (l.problem ? false : l.applyReadings()))))
+        .then(() => {
+          if (lists.map((l) => l.holds()).some(Boolean)) return;
+          // requestSubmit dispatches the submit event at once, or none when the
+          // form's own validation fails; either way the flag is over after it.
+          releasing = true;
+          try {
+            if (submitter) form.requestSubmit(submitter);
+            else form.requestSubmit();
+          } finally {
+            releasing = false;
+          }
+        });
       return;
     }
     if (lists.map((l) => l.holds()).some(Boolean)) event.preventDefault();

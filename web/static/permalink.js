@@ -1,4 +1,4 @@
-// The list and options kept in the page address after "#". The fragment is
+// The list, options and the compare view's list B kept in the page address after "#". The fragment is
 // never sent to a server. Format: "#z1=" + base64url(deflate-raw(JSON)) where
 // the browser can compress, else "#v1=" + base64url(JSON).
 
@@ -32,14 +32,16 @@ const canCompress = typeof CompressionStream === "function" && (() => {
   }
 })();
 
-/** state: {text, options} -> fragment without "#". */
+/** state: {text, options, b?} -> fragment without "#" (b: the compare view's list B, kept when not empty). */
 export async function encodeState(state) {
-  const json = new TextEncoder().encode(JSON.stringify({ t: state.text, o: state.options }));
+  const data = { t: state.text, o: state.options };
+  if (state.b) data.b = state.b;
+  const json = new TextEncoder().encode(JSON.stringify(data));
   if (canCompress) return "z1=" + toBase64Url(await through(new CompressionStream("deflate-raw"), json));
   return "v1=" + toBase64Url(json);
 }
 
-/** Fragment (with or without "#") -> {text, options}, null when empty; throws on a bad link. */
+/** Fragment (with or without "#") -> {text, options, b}, null when empty; throws on a bad link. */
 export async function decodeState(fragment) {
   const f = String(fragment || "").replace(/^#/, "");
   if (!f) return null;
@@ -64,6 +66,7 @@ export async function decodeState(fragment) {
   const o = data.o && typeof data.o === "object" ? data.o : {};
   return {
     text: data.t,
+    b: typeof data.b === "string" ? data.b : "",
     options: {
       on: typeof o.on === "string" ? o.on : "",
       from: typeof o.from === "string" ? o.from : "",

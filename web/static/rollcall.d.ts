@@ -14,6 +14,10 @@ export interface IndexInfo {
   notice: string;
   byte_length: number;
   sha256: string;
+  /** The day checked when no day or period is given: today when the index
+   * covers it, else the nearest day it covers (ICD-9-CM: 2015-09-30). Set by
+   * the worker; absent from a manifest. */
+  default_day?: string;
 }
 
 /** index-manifest.json: an IndexInfo written at build time, with the index's file name. */
@@ -21,7 +25,7 @@ export interface IndexManifest extends IndexInfo {
   file?: string;
 }
 
-/** Options of one check. Give `on`, or `from` and `to`, or neither (today, UTC). Dates are YYYY-MM-DD. */
+/** Options of one check. Give `on`, or `from` and `to`, or neither (the index's default day: today, UTC, when it covers it). Dates are YYYY-MM-DD. */
 export interface CheckOptionsInput {
   on?: string | null;
   from?: string | null;

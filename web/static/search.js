@@ -1,6 +1,6 @@
 // The word search box: codes whose official wording fits the words typed,
 // suggested as you type (the worker's Checker.find), each with its status
-// today, the days it was billable, and a button that adds it to the list.
+// on the index's default day (today when the index covers it), the days it was billable, and a button that adds it to the list.
 //
 // The page hands in two functions: `ask(type, payload)` (a worker request)
 // and `addToList(code, description)`.
@@ -14,13 +14,18 @@ function text(tag, className, content) {
   return el;
 }
 
-const STATUS_WORDS = {
-  billable: "billable today",
-  header: "header today (not billable)",
-  "not-in-use": "not in use today",
-  "in-use": "in use in this release",
-  retired: "obsolete in this release",
-};
+/** A result's status in words, on the day the search judged it (`when`: "today" or "on DATE"). */
+function statusWords(status, when) {
+  return (
+    {
+      billable: `billable ${when}`,
+      header: `header ${when} (not billable)`,
+      "not-in-use": `not in use ${when}`,
+      "in-use": "in use in this release",
+      retired: "obsolete in this release",
+    }[status] || status
+  );
+}
 
 /** Fill the results list (built with DOM nodes: descriptions are data, not markup). */
 function show(list, status, query, found, addToList) {
@@ -37,22 +42,25 @@ function show(list, status, query, found, addToList) {
     status.textContent = `No code fits “${query}”.`;
     return;
   }
-  status.textContent = `${found.results.length} codes for “${query}”, best first.`;
+  const n = found.results.length;
+  status.textContent = `${n} code${n === 1 ? "" : "s"} for “${query}”, best first.`;
+  const today = new Date().toISOString().slice(0, 10);
+  const when = !found.date || found.date === today ? "today" : `on ${found.date}`;
   for (const r of found.results) {
     const li = document.createElement("li");
     li.className = "search-result";
     li.append(text("code", "search-code", r.code), " ");
     li.append(text("span", "search-desc", r.description), " ");
-    li.append(text("span", `search-status status-${r.status}`, STATUS_WORDS[r.status] || r.status), " ");
+    li.append(text("span", `search-status status-${r.status}`, statusWords(r.status, when)), " ");
     const span = r.status === "in-use" || r.status === "retired"
       ? (r.billable_from === r.billable_to && r.billable_from ? `release ${r.billable_from}` : "")
       : r.billable_from
         ? `billable ${r.billable_from} to ${r.billable_to}`
         : "never billable (a header only)";
     li.append(text("span", "search-dates", span), " ");
-    const add = text("button", "search-add", "Add to list");
+    // The visible words are the button's whole name (no hidden label to disagree with them).
+    const add = text("button", "search-add", `Add ${r.code} to the list`);
     add.type = "button";
-    add.setAttribute("aria-label", `Add ${r.code} to the list`);
     add.addEventListener("click", () => addToList(r.code, r.description));
     li.append(add);
     list.append(li);

@@ -7,7 +7,8 @@
 //      instead of fetching rollcall-web_bg.wasm beside this file)
 //   <- {id, ok: true, result: true}
 //   -> {id, type: "load", bytes: ArrayBuffer, manifest: object}
-//   <- {id, ok: true, result: IndexInfo}
+//   <- {id, ok: true, result: IndexInfo}   (with default_day: the day checked
+//      when none is given, inside the index's coverage)
 //   -> {id, type: "check", text: string, options: CheckOptionsInput, system?: string}
 //      (system: a shape-only system, loinc, snomed, ...: the rows with no
 //      system cell are checked by its shape rules instead of the index)
@@ -21,6 +22,10 @@
 //   <- {id, ok: true, result: {code: Span[] | null}}
 //   -> {id, type: "digest", text: string}
 //   <- {id, ok: true, result: "hex SHA-256 of the text as UTF-8"}
+//   -> {id, type: "export", text, options, format, system?: string, url?: string}
+//   <- {id, ok: true, result: {format, filename, mime, text, count, left_out}}
+//      (the CLI's check --format FORMAT: cleaned-csv, fhir, codes-csv, codes-sql,
+//      codes-r, codes-python)
 //   -> {id, type: "find", query: string, limit: number}
 //   <- {id, ok: true, result: {query, date, results: Found[]}}
 //   -> {id, type: "card", code: string, options: CheckOptionsInput}
@@ -91,6 +96,7 @@ function load(bytes, manifest) {
     }
   }
   checker = c;
+  info.default_day = c.defaultDay();
   return info;
 }
 
@@ -250,6 +256,12 @@ self.onmessage = async (event) => {
         break;
       case "digest":
         result = wasm_bindgen.sha256Hex(new TextEncoder().encode(String(msg.text ?? "")));
+        break;
+      case "export":
+        if (!checker) throw new Error("the index is not loaded");
+        result = JSON.parse(
+          checker.exportJson(String(msg.text ?? ""), msg.options ?? {}, String(msg.format ?? ""), String(msg.system ?? ""), String(msg.url ?? "")),
+        );
         break;
       case "card":
         if (!checker) throw new Error("the index is not loaded");

@@ -283,3 +283,34 @@ fn check_shapes_json_checks_a_shape_only_system() {
         .unwrap_err();
     assert!(message(err).contains("bundled index"));
 }
+
+#[wasm_bindgen_test]
+fn the_icd9cm_index_is_checked_on_a_day_it_covers_when_none_is_given() {
+    // The final ICD-9-CM release (FY2015) was in force until 2015-09-30
+    // (CMS: ICD-10 from 2015-10-01); 250.00 is billable in it.
+    let mut c = Checker::new(include_bytes!("../../vocab/icd9cm.rcx").to_vec()).unwrap();
+    assert_eq!(c.default_day(), "2015-09-30");
+    let report: serde_json::Value =
+        serde_json::from_str(&c.check_json("250.00\n", options("{}")).unwrap()).unwrap();
+    assert_eq!(report["options"]["on"], "2015-09-30");
+    assert_eq!(report["entries"][0]["status"], "valid");
+}
+
+#[wasm_bindgen_test]
+fn exports_leave_out_error_entries_and_name_them() {
+    let c = Checker::new(INDEX.to_vec()).unwrap();
+    let opts = r#"{"from":"2019-01-01","to":"2024-12-31","billable":true}"#;
+    // E11 is a header in every release (only its subcodes are billable).
+    let e: serde_json::Value = serde_json::from_str(
+        &c.export_json("E11\nE11.9\n", options(opts), "codes-sql", "", "")
+            .unwrap(),
+    )
+    .unwrap();
+    assert_eq!(e["count"], 1);
+    assert_eq!(e["left_out"][0], "line 1 E11 (header)");
+    assert!(e["text"].as_str().unwrap().contains("'E11.9'"));
+    let bad = c
+        .export_json("E11.9\n", options(opts), "xml", "", "")
+        .unwrap_err();
+    assert!(message(bad).contains("codes-python"));
+}
