@@ -30,9 +30,11 @@ if ! wasm-bindgen --version 2>/dev/null | grep -q " $wb\$"; then
   cargo install wasm-bindgen-cli --version "$wb"
 fi
 
-if [ ! -x "$ROOT/tests/e2e/node_modules/.bin/wasm-opt" ] || [ ! -d "$ROOT/tests/e2e/node_modules/playwright-core" ]; then
-  say "installing npm packages of tests/e2e (playwright-core, binaryen@132)"
-  (cd "$ROOT/tests/e2e" && npm ci --no-audit --no-fund)
+# npm ci again whenever the lockfile changed since the last install.
+E2E="$ROOT/tests/e2e"
+if [ ! -x "$E2E/node_modules/.bin/wasm-opt" ] || ! cmp -s "$E2E/package-lock.json" "$E2E/node_modules/.rollcall-lock"; then
+  say "installing npm packages of tests/e2e (playwright-core, binaryen@132, axe-core, the FHIR schema)"
+  (cd "$E2E" && npm ci --no-audit --no-fund && cp package-lock.json node_modules/.rollcall-lock)
 fi
 
 if [ "$want_browser" = 1 ] && { [ ! -x /usr/bin/chromium ] || [ ! -x /usr/bin/chromedriver ]; }; then

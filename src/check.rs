@@ -1023,11 +1023,8 @@ fn judge(
                     Some(f) => f.clone(),
                     None => {
                         let left = &mut memo.label_searches;
-                        let f = crate::label::mismatch(view, &key.1, ord, period, left).map(
-                            |(msg, sugg)| {
-                                Finding::new(Kind::LabelMismatch, Severity::Warning, msg, sugg)
-                            },
-                        );
+                        let f = crate::label::judge(view, &key.1, ord, period, left)
+                            .map(crate::label::Judgement::finding);
                         memo.labels.insert(key, f.clone());
                         f
                     }

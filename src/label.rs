@@ -1,11 +1,12 @@
 //! The label check: does the label written beside a code fit the code's
 //! official wording, and which codes does the label itself point to? Used
-//! for `label-mismatch` findings and for the label-driven suggestions of
-//! unknown and malformed codes. The thresholds are in the README.
+//! for `label-mismatch` and `label-unrecognised` findings and for the
+//! label-driven suggestions of unknown and malformed codes. A label is read
+//! through the synonym layer (`crate::synonyms`). The thresholds are in the README.
 
 use crate::index::View;
 use crate::model::Period;
-use crate::report::Suggestion;
+use crate::report::{Finding, Kind, Severity, Suggestion};
 use crate::search::{self, Fit, SearchOptions};
 
 /// A label with every word (this share, by rarity) in the code's wordings
@@ -25,7 +26,9 @@ pub const SUGGESTED: usize = 5;
 
 /// Codes the label fits well, best first: by fit (in steps of a tenth),
 /// then nearness to `near` in the hierarchy (characters shared at the
-/// start), then search rank. `extra` are codes to consider besides the
+/// start), then fewest words the label does not mean
+/// ([`crate::synonyms::unsaid`]), then the share of the description the
+/// label has (in tenths), then search rank. `extra` are codes to consider besides the
 /// search's (the near codes of a mistyped one).
 pub fn candidates(
     view: &View<'_>,
@@ -52,16 +55,35 @@ pub fn candidates(
             c.push((o, f, rank));
         }
     }
-    let key = |(o, f, rank): &(u32, Fit, usize)| {
+    // A code that adds what a plain label does not mean (secondary, open,
+    // subsequent encounter) comes after those that do not: "lung cancer"
+    // is the primary malignant neoplasm first.
+    let said = crate::words::words(label);
+    let unsaid =
+        |o: u32| crate::synonyms::unsaid(&said, &crate::words::words(&view.description(o)));
+    let mut c: Vec<(u32, Fit, usize, usize)> = c
+        .into_iter()
+        .map(|(o, f, r)| (o, f, r, unsaid(o)))
+        .collect();
+    let key = |(o, f, rank, extra): &(u32, Fit, usize, usize)| {
         (
             std::cmp::Reverse((f.label * 10.0 + 1e-3).floor() as i32),
             std::cmp::Reverse(search::shared_start(near, &view.code(*o)).min(4)),
+            *extra,
             std::cmp::Reverse((f.description * 10.0 + 1e-3).floor() as i32),
             *rank,
         )
     };
     c.sort_by_key(key);
-    c.into_iter().map(|(o, f, _)| (o, f)).collect()
+    c.into_iter().map(|(o, f, _, _)| (o, f)).collect()
+}
+
+/// Whether the code at `o` is for "other" forms and the label does not
+/// say so: a label naming a condition plainly does not name its "Other ..."
+/// code (those are the specified forms classified nowhere else).
+fn names_other(view: &View<'_>, o: u32, reading: &[String]) -> bool {
+    let other = "other".to_string();
+    !reading.contains(&other) && crate::words::words(&view.description(o)).contains(&other)
 }
 
 /// Why a code is suggested for a label, in words.
@@ -77,18 +99,121 @@ pub fn reason(view: &View<'_>, f: &Fit, near: &str, o: u32) -> String {
     r
 }
 
-/// The label-mismatch message and suggestions, if the label does not fit
-/// the code at `ord`. A search for better codes takes one of `searches_left`.
-pub fn mismatch(
+/// What the label check found beside one code, as facts; [`Judgement::finding`]
+/// writes the sentence.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Judgement {
+    /// The label as written.
+    pub label: String,
+    /// The code, dotted.
+    pub code: String,
+    /// Its official description.
+    pub description: String,
+    /// How well the label fits the code (its best reading; 0 to 1).
+    pub fit: f32,
+    /// What rollcall concludes.
+    pub verdict: Verdict,
+    /// Codes the label fits well, best first.
+    pub suggestions: Vec<Suggestion>,
+}
+
+/// The conclusion of the label check on a label that does not plainly fit.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Verdict {
+    /// The label says one side of [`crate::synonyms::OPPOSITES`] and the
+    /// description the other (`label` as the label reads, `official` as the
+    /// description says).
+    Contradicts {
+        /// The label's word (`diastolic`).
+        label: &'static str,
+        /// The description's word (`systolic`).
+        official: &'static str,
+    },
+    /// Another code (dotted) fits the label clearly better.
+    FitsAnother(String),
+    /// No code fits the label well, or the label was not searched
+    /// (`searched` false): rollcall cannot say the label contradicts the code.
+    Unrecognised {
+        /// Whether codes for the label were searched.
+        searched: bool,
+    },
+}
+
+impl Judgement {
+    /// `label-mismatch` (a warning) when the label contradicts the code or
+    /// fits another clearly better; `label-unrecognised` (a note) when
+    /// rollcall does not understand the label.
+    pub fn kind(&self) -> Kind {
+        match self.verdict {
+            Verdict::Unrecognised { .. } => Kind::LabelUnrecognised,
+            _ => Kind::LabelMismatch,
+        }
+    }
+
+    /// The finding's severity (see [`kind`](Self::kind)).
+    pub fn severity(&self) -> Severity {
+        match self.verdict {
+            Verdict::Unrecognised { .. } => Severity::Info,
+            _ => Severity::Warning,
+        }
+    }
+
+    /// The sentence for people.
+    pub fn message(&self) -> String {
+        let (label, code, desc) = (&self.label, &self.code, &self.description);
+        let pct = (self.fit * 100.0).round();
+        match &self.verdict {
+            Verdict::Contradicts { label: l, official } => {
+                let mut m = format!(
+                    "the label \"{label}\" does not fit {code}, whose description is \"{desc}\": the label reads \"{l}\" where the description says \"{official}\""
+                );
+                if let Some(s) = self.suggestions.first() {
+                    m.push_str(&format!("; it fits {} better", s.code));
+                }
+                m
+            }
+            Verdict::FitsAnother(other) => format!(
+                "the label \"{label}\" does not fit {code}, whose description is \"{desc}\" ({pct}% of the label's words found in its wordings); it fits {other} better"
+            ),
+            Verdict::Unrecognised { searched: true } => format!(
+                "rollcall does not recognise the label \"{label}\" ({pct}% of its words found in the wordings of {code}, \"{desc}\", and no code fits it well), so it cannot say whether the label fits the code"
+            ),
+            Verdict::Unrecognised { searched: false } => format!(
+                "rollcall does not recognise the label \"{label}\" ({pct}% of its words found in the wordings of {code}, \"{desc}\"; codes for it were not searched, as only the first labels of a long list are), so it cannot say whether the label fits the code"
+            ),
+        }
+    }
+
+    /// The finding.
+    pub fn finding(self) -> Finding {
+        Finding::new(
+            self.kind(),
+            self.severity(),
+            self.message(),
+            self.suggestions,
+        )
+    }
+}
+
+/// The label check of `label` beside the code at `ord`: nothing when the
+/// label fits (one of its readings has every word in the code's wordings,
+/// or fits it as well as any other code), else what rollcall concludes. A
+/// search for better codes takes one of `searches_left`.
+pub fn judge(
     view: &View<'_>,
     label: &str,
     ord: u32,
     period: &Period,
     searches_left: &mut usize,
-) -> Option<(String, Vec<Suggestion>)> {
+) -> Option<Judgement> {
+    // No description (an ICD-10-PCS node above the body part): nothing to
+    // compare with.
+    let desc = view.description(ord);
+    if desc.trim().is_empty() {
+        return None;
+    }
     // The common cases first, without weighing words: the label is the
     // description, or every one of its words is in it.
-    let desc = view.description(ord);
     if label.trim().eq_ignore_ascii_case(desc.trim()) {
         return None;
     }
@@ -100,46 +225,74 @@ pub fn mismatch(
     if words.iter().all(|w| desc_words.contains(w)) {
         return None;
     }
-    let given = search::fit(view, label, ord);
+    let (given, reading) = search::best_fit(view, label, ord);
     if given.label >= FITS {
         return None;
     }
+    // A header's wordings speak for the codes under it (the tabular list
+    // gives an inclusion term such as "Hyperthyroidism NOS" at E05.9, whose
+    // codes E05.90 and E05.91 tell a crisis apart): a label that fits an
+    // ancestor fits the code. The label's words the code's own description
+    // has (a 7th character's "initial encounter") need not be in the ancestor's.
+    let rest: Vec<&str> = words
+        .iter()
+        .filter(|w| !desc_words.contains(w))
+        .map(String::as_str)
+        .collect();
+    let rest = rest.join(" ");
+    let via_ancestor = view
+        .ancestors(ord)
+        .any(|a| search::fit(view, &rest, a).label >= FITS);
+    let contra = crate::synonyms::contradiction(&reading, &desc_words);
     let code = view.code(ord);
     let search = *searches_left > 0;
     *searches_left = searches_left.saturating_sub(1);
     let better: Vec<(u32, Fit)> = if search {
         candidates(view, label, &code, period, &[])
             .into_iter()
-            .filter(|(o, f)| *o != ord && f.label > given.label)
+            .filter(|(o, f)| {
+                *o != ord && f.label > given.label && !view.ancestors(ord).any(|a| a == *o)
+            })
             .collect()
     } else {
         Vec::new()
     };
-    let best = better.first().map_or(0.0, |(_, f)| f.label);
-    if given.label >= POOR && best < given.label + BETTER_BY && best < FITS {
-        return None;
-    }
-    let shown = view.display(&code);
-    let mut msg = format!(
-        "the label \"{label}\" does not fit {shown}, whose description is \"{desc}\" ({}% of the label's words found in its wordings)",
-        (given.label * 100.0).round()
-    );
-    if better.is_empty() {
-        msg.push_str(if search {
-            "; no code fits the label well, so none is suggested"
-        } else {
-            "; codes for the label were not searched (only the first labels of a long list are)"
-        });
+    let better: Vec<(u32, Fit)> = if via_ancestor {
+        // The label fits through an ancestor: only a code the label names
+        // outright (every word, and most of its description) is better.
+        better
+            .into_iter()
+            .filter(|(o, f)| {
+                f.label >= FITS
+                    && f.description >= CONFIDENT
+                    && f.description > given.description
+                    && !names_other(view, *o, &reading)
+            })
+            .collect()
     } else {
-        msg.push_str(&format!(
-            "; it fits {} better",
-            view.display(&view.code(better[0].0))
-        ));
-    }
-    let sugg = better
+        better
+    };
+    let best = better.first().map_or(0.0, |(_, f)| f.label);
+    let clearly_better =
+        !better.is_empty() && (via_ancestor || best >= given.label + BETTER_BY || best >= FITS);
+    let verdict = match contra {
+        Some((l, official)) => Verdict::Contradicts { label: l, official },
+        None if clearly_better => Verdict::FitsAnother(view.display(&view.code(better[0].0))),
+        None if via_ancestor => return None,
+        None if given.label < POOR => Verdict::Unrecognised { searched: search },
+        None => return None,
+    };
+    let suggestions = better
         .iter()
         .take(SUGGESTED)
         .map(|(o, f)| crate::check::suggestion(view, *o, reason(view, f, &code, *o)))
         .collect();
-    Some((msg, sugg))
+    Some(Judgement {
+        label: label.to_string(),
+        code: view.display(&code),
+        description: desc,
+        fit: given.label,
+        verdict,
+        suggestions,
+    })
 }

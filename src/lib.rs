@@ -21,6 +21,8 @@
 //! - [`words`] normalises description and label words; [`search`] ranks
 //!   codes for words over the index's word map (BM25, prefix and edit-distance
 //!   matching); [`find`] puts a code or code start before the words.
+//! - [`synonyms`] reads clinicians' words as the official wording (shorthand,
+//!   everyday words, HPO synonyms) for the label check and the search alike.
 //! - [`model`] holds the owned release model that indexes are written from.
 //!
 //! Memory: an opened index borrows its bytes; the only allocations on open are
@@ -47,6 +49,7 @@ pub mod report;
 pub mod search;
 pub mod sha256;
 pub mod shapecheck;
+pub mod synonyms;
 pub mod systems;
 pub mod translate;
 pub mod words;

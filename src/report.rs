@@ -69,6 +69,9 @@ pub enum Kind {
     Ambiguous,
     /// The label written beside a code does not fit its official description.
     LabelMismatch,
+    /// The label beside a code fits no code well: rollcall does not
+    /// understand it, so it cannot say the label contradicts the code.
+    LabelUnrecognised,
     /// Valid, but the release qualifies its use (LOINC `DISCOURAGED`, `TRIAL`).
     ReleaseStatus,
 }
@@ -94,6 +97,7 @@ impl Kind {
             Kind::ShapeOnly => "shape-only",
             Kind::Ambiguous => "ambiguous",
             Kind::LabelMismatch => "label-mismatch",
+            Kind::LabelUnrecognised => "label-unrecognised",
             Kind::ReleaseStatus => "release-status",
         }
     }

@@ -2,12 +2,15 @@
 //! the last word matched as a prefix while typing, misspelt words matched
 //! through a Levenshtein automaton on the word map, then the best candidates
 //! re-ranked by how well their official description fits the query (whole
-//! phrases, few words left over). [`fit`] scores one label against one code.
+//! phrases, few words left over; a category's general code first for a
+//! short query). A query and a label are taken in each of their readings
+//! ([`crate::synonyms`]: clinicians' words as the official wording), the
+//! best one counting. [`fit`] scores one label against one code.
 
 use crate::date::Date;
 use crate::index::View;
 use crate::model::Period;
-use crate::words;
+use crate::{synonyms, words};
 use fst::automaton::Str;
 use fst::{Automaton, IntoStreamer, Streamer};
 use serde::Serialize;
@@ -184,7 +187,8 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
     out
 }
 
-/// The codes that best fit `query`, best first.
+/// The codes that best fit `query`, best first: each code scored by the
+/// best of the query's readings searched.
 ///
 /// ```no_run
 /// let index = rollcall::Index::open(std::fs::read("vocab/icd10cm.rcx").unwrap()).unwrap();
@@ -205,7 +209,49 @@ pub fn search_within(
     opts: &SearchOptions,
     within: Option<&[u32]>,
 ) -> Vec<Hit> {
-    let mut q = words::words(query);
+    let readings = synonyms::readings(&words::words(query));
+    let mut hits: Vec<Hit> = Vec::new();
+    let mut at: std::collections::HashMap<u32, usize> = std::collections::HashMap::new();
+    // A long query is mostly official words already: its own reading alone
+    // keeps its search within the time of one.
+    let searched = if readings[0].len() > LONG_QUERY {
+        1
+    } else {
+        SEARCHED_READINGS
+    };
+    for q in readings.iter().take(searched) {
+        for h in search_words(view, q, opts, within) {
+            match at.get(&h.ord) {
+                Some(&i) if hits[i].score >= h.score => {}
+                Some(&i) => hits[i] = h,
+                None => {
+                    at.insert(h.ord, hits.len());
+                    hits.push(h);
+                }
+            }
+        }
+    }
+    hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
+    hits.truncate(opts.limit.max(1));
+    hits
+}
+
+/// Readings of a query searched (its own words and the three with most
+/// replaced): each costs a search.
+const SEARCHED_READINGS: usize = 4;
+
+/// A query of more words than this is searched in its own words only.
+const LONG_QUERY: usize = 8;
+
+/// The codes of `within` (all when none) that best fit the normalised
+/// words `q` (one reading).
+fn search_words(
+    view: &View<'_>,
+    q: &[String],
+    opts: &SearchOptions,
+    within: Option<&[u32]>,
+) -> Vec<Hit> {
+    let mut q = q.to_vec();
     let mut seen = std::collections::HashSet::new();
     q.retain(|w| seen.insert(w.clone()));
     if q.is_empty() || view.is_empty() {
@@ -281,7 +327,22 @@ pub fn search_within(
             .total_cmp(&score[*a as usize])
             .then(a.cmp(b))
     });
-    any.truncate(RERANK);
+    // A short query also re-ranks the codes of few words beyond the
+    // strongest: the category's general code for it ("Pneumonia,
+    // unspecified organism") is among them, however many rare codes
+    // ("Gonococcal pneumonia") are shorter still.
+    if q.len() <= SHORT_QUERY && any.len() > RERANK {
+        let few: Vec<u32> = any[RERANK..]
+            .iter()
+            .copied()
+            .filter(|&o| view.word_count(o) as usize <= q.len() + 3)
+            .take(RERANK)
+            .collect();
+        any.truncate(RERANK);
+        any.extend(few);
+    } else {
+        any.truncate(RERANK);
+    }
     let total: f32 = weights.iter().sum();
     let mut idf_cache = std::collections::HashMap::new();
     let mut hits: Vec<Hit> = any
@@ -302,6 +363,13 @@ pub fn search_within(
                 .max(((cover[o as usize] + common_found) / total).min(1.0));
             let mut s = score[o as usize] / total.max(1e-6);
             s += 0.6 * f.label + 0.5 * f.description + 0.2 * phrase(&q, &desc);
+            if f.label >= 0.99 && general(&q, &desc) {
+                s += GENERAL_BONUS;
+            }
+            if first_encounter(&q, &desc) {
+                s += INITIAL_BONUS;
+            }
+            s -= UNSAID_PENALTY * synonyms::unsaid(&q, &desc) as f32;
             if let Some(p) = &opts.period {
                 if view.billable_in(o, p) {
                     s += 0.1;
@@ -320,6 +388,60 @@ pub fn search_within(
     hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
     hits.truncate(opts.limit.max(1));
     hits
+}
+
+/// Words that leave a description as general as the query it fits
+/// ("Pneumonia, unspecified organism" for `pneumonia`; "Type 2 diabetes
+/// mellitus without complications" for `type 2 diabetes mellitus`): the
+/// ICD-10-CM wording of a category's residual code (common practice).
+const GENERAL_WORDS: &[&str] = &[
+    "achieved",
+    "complication",
+    "having",
+    "nos",
+    "not",
+    "organism",
+    "remission",
+    "site",
+    "uncomplicated",
+    "unspecified",
+    "without",
+];
+
+/// Queries of at most this many words prefer the general code.
+const SHORT_QUERY: usize = 2;
+
+/// Score added to a code whose description is the query's words and
+/// [`GENERAL_WORDS`] alone: a short query ranks the common code above the
+/// rare specific ones, unless its other words point to them.
+const GENERAL_BONUS: f32 = 0.3;
+
+/// Whether every word of `desc` is a query word or one of [`GENERAL_WORDS`].
+fn general(q: &[String], desc: &[String]) -> bool {
+    desc.iter()
+        .all(|d| GENERAL_WORDS.contains(&d.as_str()) || q.iter().any(|w| same_word(w, d) > 0.0))
+}
+
+/// Score added to an injury code for the initial encounter when the query
+/// names no encounter: of the 7th characters A, D and S the initial encounter
+/// is the one a search for the injury means first (common practice).
+const INITIAL_BONUS: f32 = 0.1;
+
+/// Score taken from a code per word it adds that a query saying neither
+/// side does not mean ([`synonyms::unsaid`]: "lung cancer" is the primary
+/// malignant neoplasm before the secondary one).
+const UNSAID_PENALTY: f32 = 0.15;
+
+/// Whether `desc` is an initial encounter and `q` names no encounter.
+fn first_encounter(q: &[String], desc: &[String]) -> bool {
+    desc.windows(2)
+        .any(|w| w[0] == "initial" && w[1] == "encounter")
+        && !q.iter().any(|w| {
+            matches!(
+                w.as_str(),
+                "initial" | "subsequent" | "sequela" | "encounter"
+            )
+        })
 }
 
 /// Characters two codes share at the start.
@@ -396,9 +518,28 @@ fn in_posting(view: &View<'_>, w: &str, ord: u32) -> bool {
 
 /// How well `label` fits the code at `ord`: its words against the official
 /// description and, for the label's share, the code's other official
-/// wordings too (inclusion terms, older descriptions).
+/// wordings too (inclusion terms, older descriptions); the best of the
+/// label's readings ([`synonyms::readings`]).
 pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
-    let mut q = words::words(label);
+    best_fit(view, label, ord).0
+}
+
+/// [`fit`], with the reading that fits best (the label's own words when
+/// none fits better).
+pub fn best_fit(view: &View<'_>, label: &str, ord: u32) -> (Fit, Vec<String>) {
+    let desc = words::words(&view.description(ord));
+    let mut best: Option<(Fit, Vec<String>)> = None;
+    for r in synonyms::readings(&words::words(label)) {
+        let f = fit_reading(view, &r, &desc, ord);
+        if best.as_ref().is_none_or(|(b, _)| f.label > b.label) {
+            best = Some((f, r));
+        }
+    }
+    best.unwrap_or_default()
+}
+
+fn fit_reading(view: &View<'_>, reading: &[String], desc: &[String], ord: u32) -> Fit {
+    let mut q = reading.to_vec();
     let mut seen = std::collections::HashSet::new();
     q.retain(|w| seen.insert(w.clone()));
     let n = view.len() as u32;
@@ -406,16 +547,7 @@ pub fn fit(view: &View<'_>, label: &str, ord: u32) -> Fit {
         .iter()
         .map(|w| idf(n, view.word_codes(w).max(1)))
         .collect();
-    let desc = words::words(&view.description(ord));
-    fit_words(
-        view,
-        &q,
-        &weights,
-        &desc,
-        ord,
-        true,
-        &mut Default::default(),
-    )
+    fit_words(view, &q, &weights, desc, ord, true, &mut Default::default())
 }
 
 /// A code found by [`find`], ready to show (its JSON form is part of the

@@ -2,7 +2,9 @@
 //! (built by `vocab-build`) and for a query or a label in a list: lower case,
 //! accents folded to ASCII, split on anything that is not a letter or digit,
 //! a short stop-word list dropped, a few clinical abbreviations expanded, and
-//! a plural `s` taken off. The two tables below are the whole of it (see the README).
+//! a plural `s` taken off. The two tables below are the whole of it (see the README);
+//! clinicians' phrases are read as the official wording later, at query time,
+//! by `crate::synonyms`, so that the index's words stay as the releases give them.
 
 /// Words that carry no meaning for matching (common practice for English
 /// text search; `with`, `without`, `other` and `unspecified` are kept, as they

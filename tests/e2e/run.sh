@@ -6,7 +6,7 @@ set -euo pipefail
 E2E=$(cd "$(dirname "$0")" && pwd)
 ROOT=$(cd "$E2E/../.." && pwd)
 cd "$E2E"
-[ -d node_modules/playwright-core ] || npm ci --no-audit --no-fund
+cmp -s package-lock.json node_modules/.rollcall-lock || { npm ci --no-audit --no-fund && cp package-lock.json node_modules/.rollcall-lock; }
 (cd "$ROOT" && cargo build --profile fast --quiet -p rollcall --bin rollcall)
 bash "$ROOT/web/build.sh"
 node "$ROOT/web/build-single.mjs"

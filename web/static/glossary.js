@@ -19,7 +19,8 @@ export const KINDS = [
   ["other-system", "Not a code of the system checked, but shaped like a code of another one (an ICD-9-CM code in an ICD-10-CM list)."],
   ["shape-only", "Checked by its shape and check digit only: rollcall holds no content for this system, so it cannot tell whether the code exists."],
   ["ambiguous", "Could be several codes of the system (a 10-digit NDC without hyphens)."],
-  ["label-mismatch", "The label written beside the code does not fit the code's official description: one of the two may be wrong."],
+  ["label-mismatch", "The label written beside the code contradicts the code's official description (systolic for diastolic, left for right, type 1 for type 2) or fits another code clearly better: one of the two may be wrong."],
+  ["label-unrecognised", "rollcall does not understand the label written beside the code (no code fits it well), so it cannot say whether the label fits; worth a look, nothing to fix."],
   ["release-status", "In the release, but the release qualifies its use (for example, a term to use no longer, with terms to consider instead)."],
 ];
 
