@@ -188,9 +188,12 @@ test("the notes file is fetched the first time a card is opened; until then the 
   // The other facts are there, and a line says the notes are loading.
   assert.match(await page.textContent("#card-panel .card-notes-state"), /notes of the tabular list are loading/);
   assert.ok(await page.$("#card-panel .card-children input[value='E11.9']"));
+  // A box ticked while the notes load stays ticked when they arrive.
+  await page.check("#card-panel input[value='E11.9']");
   release();
   await page.waitForFunction(() => document.getElementById("card-panel").dataset.notes === "loaded", null, { timeout: 30_000 });
   assert.equal(await page.$("#card-panel .card-notes-state"), null);
+  assert.equal(await page.isChecked("#card-panel input[value='E11.9']"), true);
   const want = cliCard("E11", "2026-06-01").notes.map((n) => n.text);
   const got = await page.$$eval("#card-panel .card-notes li .card-note-text", (l) => l.map((x) => x.textContent));
   assert.deepEqual(got, want);
