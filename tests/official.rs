@@ -227,3 +227,32 @@ fn placeholder_headers_come_from_the_tabular_list() {
     assert!(v.ordinal("S0000X").is_none());
     assert_eq!(v.code(v.parent(s).unwrap()), "S0000");
 }
+
+/// Source: the release history file, whose 190 codes new on 2026-10-01
+/// have no description (its provenance notes say so). Each is described by
+/// the wording of the nearest code above it, with the day it was added, so
+/// no suggestion is a bare code.
+#[test]
+fn codes_without_wording_are_described_by_the_code_above_them() {
+    let history = common::source("icd10cm-history-FY2016-FY2027.tsv.gz");
+    let bare: Vec<&str> = history
+        .lines()
+        .skip(1)
+        .filter_map(|l| {
+            let f: Vec<&str> = l.split('\t').collect();
+            (f.len() >= 4 && f[3].trim().is_empty()).then_some(f[0])
+        })
+        .collect();
+    assert_eq!(bare.len(), 190);
+    let index = common::index();
+    let v = index.view();
+    for code in bare {
+        let ord = v.ordinal(code).expect("in the index");
+        let d = v.description_or_note(ord);
+        assert!(
+            d.contains("new on 2026-10-01; its own wording is not in the bundled release files"),
+            "{code}: {d}"
+        );
+        assert!(!d.starts_with('('), "{code}: {d}");
+    }
+}

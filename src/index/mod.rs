@@ -1084,10 +1084,46 @@ impl<'a> View<'a> {
     /// file, headers of positional hierarchies).
     pub fn description_or_note(&self, ord: u32) -> String {
         let d = self.description(ord);
-        if d.is_empty() {
-            "(no description in the bundled release files)".to_string()
-        } else {
-            d
+        if !d.is_empty() {
+            return d;
+        }
+        // A code new in the latest release may come before its wording does:
+        // say what is known, the nearest ancestor's wording and the day.
+        let since = self.billable(ord).map(|p| p.from).min();
+        let above = self
+            .ancestors(ord)
+            .find(|&a| !self.description(a).is_empty());
+        match (above, since) {
+            (Some(a), Some(day)) => format!(
+                "{} (a code under {}, new on {day}; its own wording is not in the bundled release files)",
+                self.description(a),
+                self.display(&self.code(a))
+            ),
+            (Some(a), None) => format!(
+                "{} (a code under {}; its own wording is not in the bundled release files)",
+                self.description(a),
+                self.display(&self.code(a))
+            ),
+            // A new category: the section it falls in, or follows in code
+            // order when the bundled tabular predates it.
+            (None, since) => {
+                let code = self.code(ord);
+                let cat = code.get(..3).unwrap_or(&code);
+                let i = self
+                    .tree
+                    .sections
+                    .partition_point(|s| s.first.as_str() <= cat);
+                match (i.checked_sub(1).and_then(|i| self.tree.sections.get(i)), since) {
+                    (Some(sec), Some(day)) => format!(
+                        "{} (a category {} the section {}-{}, new on {day}; its own wording is not in the bundled release files)",
+                        sec.title,
+                        if cat <= sec.last.as_str() { "of" } else { "after" },
+                        self.display(&sec.first),
+                        self.display(&sec.last)
+                    ),
+                    _ => "(no description in the bundled release files)".to_string(),
+                }
+            }
         }
     }
 
