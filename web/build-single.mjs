@@ -1,8 +1,10 @@
 // The single-file page: one HTML file with the page's script, styles, the
-// Wasm, the worker, the bundled index and its notes file inside, for a shared drive or an
-// e-mail. It works opened from file:// with no network at all. The Wasm and
-// the index are stored gzip-compressed in base64 and unpacked in the page
-// with DecompressionStream; the worker starts from a Blob URL.
+// Wasm, the worker (with the workbook reader), the bundled index and its notes
+// file inside, for a shared drive or an e-mail. It works opened from file://
+// with no network at all. The Wasm files, the index and the notes are stored
+// gzip-compressed in base64 and unpacked with DecompressionStream (the
+// workbook reader's in the worker, on first use; the notes when a card is
+// first opened); the worker starts from a Blob URL.
 // Usage: node web/build-single.mjs [DIST] [OUT]   (after web/build.sh)
 import fs from "node:fs";
 import path from "node:path";
@@ -79,6 +81,8 @@ function embeddedModule() {
   const manifest = JSON.parse(read("index-manifest.json").toString("utf8"));
   const index = read(manifest.file || "icd10cm.rcx");
   const wasm = read("rollcall-web_bg.wasm");
+  const bookGlue = read("rollcall-workbook.js").toString("utf8");
+  const bookWasm = read("rollcall-workbook_bg.wasm");
   // The notes file's manifest: its name is the one the Trunk post-build
   // gives it (the core's System::notes_manifest).
   const notesManifest = JSON.parse(read("manifest-icd10cm-notes.json").toString("utf8"));
@@ -87,17 +91,23 @@ function embeddedModule() {
   const gz = (bytes) => zlib.gzipSync(bytes, { level: 9 }).toString("base64");
   const indexGz = gz(index);
   const wasmGz = gz(wasm);
+  const bookGz = gz(bookWasm);
   const notesGz = gz(notes);
   const sizes = {
     index: index.length,
     indexGz: indexGz.length,
     wasm: wasm.length,
     wasmGz: wasmGz.length,
+    book: bookWasm.length,
+    bookGz: bookGz.length,
     notes: notes.length,
     notesGz: notesGz.length,
   };
+  // The worker carries the workbook reader (its glue, and its Wasm as gzip
+  // in base64), which it unpacks only when a workbook is checked.
+  const workerSource = `${glue}\n;\n${bookGlue}\n;\nconst WORKBOOK_WASM_GZ = "${bookGz}";\n${worker}`;
   const code = `// The single-file page's contents: the index, its notes, the Wasm and the worker.
-const WORKER_SOURCE = ${JSON.stringify(`${glue}\n;\n${worker}`)};
+const WORKER_SOURCE = ${JSON.stringify(workerSource)};
 const WASM_GZ = "${wasmGz}";
 const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
@@ -166,7 +176,9 @@ function main() {
   console.log(`build-single: ${OUT}`);
   console.log(`build-single: ${bytes.toLocaleString("en-US")} bytes (${kib(bytes)}; ${kib(gzipped)} gzipped)`);
   console.log(
-    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; notes ${kib(sizes.notes)} raw, ${kib(sizes.notesGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64`,
+    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; notes ${kib(sizes.notes)} raw, ${kib(sizes.notesGz)} as gzip+base64; ` +
+      `Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64; ` +
+      `workbook reader Wasm ${kib(sizes.book)} raw, ${kib(sizes.bookGz)} as gzip+base64`,
   );
 }
 

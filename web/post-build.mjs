@@ -1,6 +1,7 @@
 // After `trunk build`: subresource integrity and Content-Security-Policy
 // hashes for every page in the built folder (web/build.sh runs it).
-//   - worker.js gets the SRI hash of the Wasm, which it then fetches with it;
+//   - worker.js gets the SRI hashes of the checker's Wasm and of the workbook
+//     reader's, which it then fetches with them;
 //   - each page's <script src> and stylesheet <link> get `integrity`, and an
 //     import map gives the integrity of every module they import;
 //   - every inline <script> (the import map included) and <style> is hashed
@@ -58,18 +59,28 @@ export function sealCsp(html, file) {
 
 function main() {
   if (!fs.existsSync(DIST)) die(`no built folder at ${DIST}`);
-  // 1. The worker fetches the Wasm with its integrity.
-  const wasm = fs.readFileSync(path.join(DIST, "rollcall-web_bg.wasm"));
+  // 1. The worker fetches the checker's Wasm, and the workbook reader's on
+  //    first use, with their integrity.
   const workerFile = path.join(DIST, "worker.js");
-  const worker = fs.readFileSync(workerFile, "utf8");
-  const slot = /const WASM_INTEGRITY = "[^"]*";/;
-  if (!slot.test(worker)) die("worker.js has no WASM_INTEGRITY line to fill in");
-  fs.writeFileSync(workerFile, worker.replace(slot, `const WASM_INTEGRITY = "${sri(wasm)}";`));
+  let worker = fs.readFileSync(workerFile, "utf8");
+  for (const [name, file] of [
+    ["WASM_INTEGRITY", "rollcall-web_bg.wasm"],
+    ["WORKBOOK_WASM_INTEGRITY", "rollcall-workbook_bg.wasm"],
+  ]) {
+    const target = path.join(DIST, file);
+    if (!fs.existsSync(target)) die(`${file} is not in the build`);
+    const slot = new RegExp(`const ${name} = "[^"]*";`);
+    if (!slot.test(worker)) die(`worker.js has no ${name} line to fill in`);
+    worker = worker.replace(slot, `const ${name} = "${sri(fs.readFileSync(target))}";`);
+  }
+  fs.writeFileSync(workerFile, worker);
 
-  // 2. Integrity of every module the pages may import.
+  // 2. Integrity of every module the pages may import (the worker and the
+  //    Wasm glue it loads with importScripts are no modules).
+  const workerScripts = new Set(["worker.js", "rollcall-web.js", "rollcall-workbook.js"]);
   const modules = {};
   for (const f of fs.readdirSync(DIST).sort()) {
-    if (f.endsWith(".js") && f !== "worker.js" && f !== "rollcall-web.js") {
+    if (f.endsWith(".js") && !workerScripts.has(f)) {
       modules[`./${f}`] = sri(fs.readFileSync(path.join(DIST, f)));
     }
   }

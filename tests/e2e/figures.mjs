@@ -28,7 +28,9 @@ function sizes() {
       jsGz += gz(b);
     }
   }
-  console.log(`wasm                 ${kb(wasm.length)} raw, ${kb(gz(wasm))} gzip   (target <= 250 KiB gzip)`);
+  const book = fs.readFileSync(path.join(DIST, "rollcall-workbook_bg.wasm"));
+  console.log(`wasm                 ${kb(wasm.length)} raw, ${kb(gz(wasm))} gzip   (target <= 250,000 bytes gzip)`);
+  console.log(`workbook reader wasm ${kb(book.length)} raw, ${kb(gz(book))} gzip   (fetched with the first workbook)`);
   console.log(`index                ${kb(index.length)} raw, ${kb(gz(index))} gzip`);
   console.log(`html+js+css          ${kb(js)} raw, ${kb(jsGz)} gzip`);
 }

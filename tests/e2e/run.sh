@@ -11,4 +11,4 @@ cmp -s package-lock.json node_modules/.rollcall-lock || { npm ci --no-audit --no
 bash "$ROOT/web/build.sh"
 node "$ROOT/web/build-single.mjs"
 mkdir -p out
-node --test --test-concurrency=1 --test-reporter=spec page.test.mjs embed.test.mjs search.test.mjs card.test.mjs export.test.mjs work.test.mjs drafts.test.mjs
+node --test --test-concurrency=1 --test-reporter=spec page.test.mjs embed.test.mjs search.test.mjs card.test.mjs export.test.mjs work.test.mjs drafts.test.mjs workbook.test.mjs

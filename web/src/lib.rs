@@ -759,8 +759,11 @@ impl Checker {
         Ok(out)
     }
 
-    /// Check a file as the CLI reads it (a spreadsheet workbook, or text in
-    /// UTF-8 or UTF-16): the report as JSON text, as [`Checker::check_json`].
+    /// Check a file as the CLI reads it (text in UTF-8 or UTF-16): the
+    /// report as JSON text, as [`Checker::check_json`]. The page's checker is
+    /// built without the cell reader, so a workbook here gets a message; the
+    /// worker reads workbooks with the workbook module and
+    /// [`Checker::check_sheets_json`].
     #[wasm_bindgen(js_name = checkBytesJson)]
     pub fn check_bytes_json(
         &mut self,
@@ -770,6 +773,37 @@ impl Checker {
         let (opts, reading) = self.options_and_reading(options)?;
         let draft = rollcall::list::read_bytes(bytes, reading)
             .map_err(|e| fail("cannot read the file", e))?;
+        let (report, coverage) = self.checked(&draft, &opts);
+        let out = serde_json::to_string(&report)
+            .map_err(|e| fail("could not hand the result to the page", e))?;
+        self.last = Some(coverage);
+        Ok(out)
+    }
+
+    /// Check the sheets of a workbook as the CLI checks the workbook file:
+    /// `sheets_json` is the JSON text of the sheets' cells (an array of
+    /// `{ name, first_row, rows, numbers }`, as the page's workbook module
+    /// `rollcall_workbook.sheets` gives them). The report as JSON text, as
+    /// [`Checker::check_json`]; each entry names its sheet and row.
+    #[wasm_bindgen(js_name = checkSheetsJson)]
+    pub fn check_sheets_json(
+        &mut self,
+        sheets_json: &str,
+        options: JsCheckOptions,
+    ) -> Result<String, JsValue> {
+        let (opts, reading) = self.options_and_reading(options)?;
+        if !matches!(reading, Reading::Auto | Reading::Workbook) {
+            return Err(fail(
+                "bad check options",
+                format!(
+                    "the sheets of a workbook are read as a workbook, not as \u{201c}{}\u{201d}; give the reading auto or workbook",
+                    reading.name()
+                ),
+            ));
+        }
+        let sheets: Vec<rollcall::list::workbook::Sheet> = serde_json::from_str(sheets_json)
+            .map_err(|e| fail("cannot read the workbook's sheets", e))?;
+        let draft = rollcall::list::workbook::from_sheets(&sheets);
         let (report, coverage) = self.checked(&draft, &opts);
         let out = serde_json::to_string(&report)
             .map_err(|e| fail("could not hand the result to the page", e))?;

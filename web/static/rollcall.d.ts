@@ -274,7 +274,8 @@ export class Checker {
   /** Check a list; the report in the CLI's JSON schema. */
   check(list: List, options?: CheckOptionsInput): Promise<Report>;
   checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
-  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods) or text in any form. */
+  /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods; each entry names its sheet and row)
+   * or text in any form. The worker loads the workbook reader (a Wasm module of its own) with the first workbook. */
   checkFile(file: Blob | ArrayBuffer | Uint8Array, options?: CheckOptionsInput): Promise<CheckResult>;
   /** How the core reads the list, and where each code sits in the text. */
   read(list: List, reading?: string): Promise<{ reading: ReadFacts; tokens: DraftToken[] }>;

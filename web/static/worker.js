@@ -14,6 +14,10 @@
 //      system cell are checked by its shape rules instead of the index)
 //   <- {id, ok: true, result: {report, coverage, checkMs, totalMs, loaded: string[]}}
 //      (loaded: the systems whose indexes are loaded, this one's first)
+//   -> {id, type: "checkBytes", bytes: ArrayBuffer, options: CheckOptionsInput}
+//   <- the same reply as "check"; a workbook (.xlsx, .xls, .ods) is read by
+//      the workbook module (rollcall-workbook.js and its Wasm, loaded on
+//      first use), any other file as text
 //   -> {id, type: "edit", text: string, edits: Edit[]}   (replace / remove / add)
 //   <- {id, ok: true, result: string}   (the list with the edits applied)
 //   -> {id, type: "compare", a: string, b: string, options: CheckOptionsInput}
@@ -35,7 +39,7 @@
 //      manifest the binding names, or given, as the single-file page does)
 //   <- {id, ok: true, result: true | false}   (false: the system keeps no notes)
 //   any failure: {id, ok: false, error: "readable message"}
-/* global wasm_bindgen */
+/* global wasm_bindgen, rollcall_workbook, WORKBOOK_WASM_GZ */
 "use strict";
 
 // The single-file page builds this worker from one Blob with the glue in it.
@@ -64,6 +68,63 @@ function startWasm(bytes) {
     wasmReady = wasm_bindgen({ module_or_path: source });
   }
   return wasmReady;
+}
+
+// The workbook reader (calamine) is a Wasm module of its own, loaded the
+// first time a workbook is checked, so the checker every page load fetches
+// stays without it. Set by web/post-build.mjs to the SRI hash of its Wasm.
+const WORKBOOK_WASM_INTEGRITY = "";
+
+let workbookReady = null;
+
+/** The workbook module's `sheets` function, loading the module on first use. */
+function workbookReader() {
+  if (!workbookReady) {
+    workbookReady = (async () => {
+      // The single-file page puts the module's glue and its Wasm (gzip,
+      // base64) in front of this file; the served page has them beside it.
+      if (typeof rollcall_workbook === "undefined") importScripts("./rollcall-workbook.js");
+      let source;
+      if (typeof WORKBOOK_WASM_GZ !== "undefined") {
+        source = await gunzipBase64(WORKBOOK_WASM_GZ);
+      } else {
+        const url = new URL("./rollcall-workbook_bg.wasm", self.location.href);
+        source = WORKBOOK_WASM_INTEGRITY
+          ? await fetch(url, { integrity: WORKBOOK_WASM_INTEGRITY }).catch((e) => {
+              throw new Error(
+                `the workbook reader's Wasm file (rollcall-workbook_bg.wasm) could not be loaded or does not match its integrity hash (${e.message}); ` +
+                  "the page's files may be damaged or from different builds; save the sheet as CSV (CSV UTF-8) and drop that instead",
+              );
+            })
+          : url;
+      }
+      await rollcall_workbook({ module_or_path: source });
+      return rollcall_workbook.sheets;
+    })();
+    // A failed load is tried again with the next workbook.
+    workbookReady.catch(() => {
+      workbookReady = null;
+    });
+  }
+  return workbookReady;
+}
+
+async function gunzipBase64(base64) {
+  const text = atob(base64);
+  const bytes = new Uint8Array(text.length);
+  for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
+  const stream = new Blob([bytes]).stream().pipeThrough(new DecompressionStream("gzip"));
+  return new Uint8Array(await new Response(stream).arrayBuffer());
+}
+
+/** Whether the bytes are read as a workbook, as the command line decides:
+ * told so, or (reading "auto") a zip (.xlsx, .ods) or OLE2 file (.xls). */
+function readAsWorkbook(bytes, options) {
+  const reading = String(options.reading ?? "").trim() || "auto";
+  if (reading === "workbook") return true;
+  if (reading !== "auto") return false;
+  const starts = (magic) => magic.every((b, i) => bytes[i] === b);
+  return starts([0x50, 0x4b, 0x03, 0x04]) || starts([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1]);
 }
 
 let checker = null;
@@ -181,16 +242,32 @@ function needed(report) {
 async function check(text, options, system, bytes) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
+  // A dropped file's bytes are read as the command line reads them: a
+  // workbook's cells by the workbook module, then its sheets by the checker.
+  let sheets = null;
+  if (bytes && readAsWorkbook(bytes, options)) {
+    const read = await workbookReader();
+    try {
+      sheets = read(bytes);
+    } catch (err) {
+      // A readable Error from the reader, or a trap of its Wasm.
+      if (err instanceof Error && !(err instanceof WebAssembly.RuntimeError)) throw err;
+      throw new Error(
+        `cannot read the file: the workbook reader stopped (${err && err.message ? err.message : err}); save the workbook again as .xlsx, or the sheet as CSV (CSV UTF-8), and try again`,
+      );
+    }
+  }
   // One JSON string across the boundary is much faster than building the
-  // report object by object (see Checker.checkJson). A dropped file's bytes
-  // (a workbook) are read by the core as the command line reads them.
+  // report object by object (see Checker.checkJson).
   const run = () =>
     JSON.parse(
-      bytes
-        ? checker.checkBytesJson(bytes, options)
-        : system
-          ? checker.checkShapesJson(system, text, options)
-          : checker.checkJson(text, options),
+      sheets !== null
+        ? checker.checkSheetsJson(sheets, options)
+        : bytes
+          ? checker.checkBytesJson(bytes, options)
+          : system
+            ? checker.checkShapesJson(system, text, options)
+            : checker.checkJson(text, options),
     );
   let report = run();
   const wanted = needed(report);

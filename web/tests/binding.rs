@@ -314,3 +314,47 @@ fn exports_leave_out_error_entries_and_name_them() {
         .unwrap_err();
     assert!(message(bad).contains("codes-python"));
 }
+
+/// A workbook's sheets as the workbook module hands them over: read as the
+/// core reads the workbook file, each entry with its sheet and row; a workbook's
+/// bytes given to `checkBytesJson` get a message, as this build has no cell
+/// reader. E11.9 is billable over the period (FY2024 code file).
+#[wasm_bindgen_test]
+fn sheets_are_checked_as_the_workbook_is_read() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let sheets = r#"[
+        {"name": "Notes", "first_row": 1, "rows": [["Larkfield study: draft list"]], "numbers": 0},
+        {"name": "Codes", "first_row": 3, "rows": [["Code", "Label"], ["E11.9", "diabetes"]], "numbers": 0}
+    ]"#;
+    let opts = r#"{"on":"2024-01-01"}"#;
+    let got: serde_json::Value =
+        serde_json::from_str(&c.check_sheets_json(sheets, options(opts)).unwrap()).unwrap();
+    assert_eq!(got["reading"]["as"], "workbook");
+    assert_eq!(
+        got["reading"]["sheets"],
+        serde_json::json!([
+            {"name": "Notes", "rows": 1, "codes": 0},
+            {"name": "Codes", "rows": 2, "codes": 1}
+        ])
+    );
+    let e = got["entries"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|e| e["code"] == "E11.9")
+        .expect("E11.9 read");
+    assert_eq!(
+        (&e["status"], &e["sheet"], &e["row"]),
+        (&"valid".into(), &"Codes".into(), &4.into())
+    );
+    let wrong = c
+        .check_sheets_json(sheets, options(r#"{"reading":"lines"}"#))
+        .unwrap_err();
+    assert!(message(wrong).contains("read as a workbook"));
+    let broken = c.check_sheets_json("[{", options("{}")).unwrap_err();
+    assert!(message(broken).contains("cannot read the workbook's sheets"));
+    let bytes = c
+        .check_bytes_json(b"PK\x03\x04 a zip", options("{}"))
+        .unwrap_err();
+    assert!(message(bytes).contains("reads no workbooks"));
+}
