@@ -750,6 +750,17 @@ pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<
         .collect()
 }
 
+/// The part of `period` up to the index's last covered day (that day alone
+/// when the whole period lies past it); see the `beyond-coverage` finding.
+fn within_coverage(view: &View<'_>, period: &Period) -> Period {
+    let last = view.meta().coverage_to;
+    if period.to <= last || !view.meta().open_ended() {
+        *period
+    } else {
+        Period::new(period.from.min(last), last)
+    }
+}
+
 /// The code's status on each part of the period, in order.
 fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<SpanKind>)> {
     let mut spans: Vec<(Period, SpanKind)> = view
@@ -1090,7 +1101,7 @@ fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
     if code.len() != 7 {
         return None;
     }
-    let base = &code[..6];
+    let base = code.get(..6)?;
     let stem = base.trim_end_matches('X');
     let ord = view.ordinal(base).or_else(|| view.ordinal(stem))?;
     let rule = view.seventh_rule(ord)?;
@@ -1160,7 +1171,9 @@ fn judge_dates(
         obsolete(view, ctx, ord, shown, e);
         return;
     }
-    let segs = segments(view, ord, period);
+    // Past the last covered day the index knows nothing (the next release
+    // is not out): a code in use on that day is not retired for it.
+    let segs = segments(view, ord, &within_coverage(view, period));
     let billable: Vec<Period> = view.billable(ord).collect();
     let header: Vec<Period> = view.header(ord).collect();
     let all: Vec<Period> = billable.iter().chain(&header).copied().collect();
@@ -1176,8 +1189,13 @@ fn judge_dates(
     }
     if only(Some(SpanKind::Header)) {
         e.status = Status::Header;
-        let under = billable_under(view, ord, period);
-        let have = under.iter().filter(|o| ctx.reached.contains(o)).count();
+        // Up to the last covered day, as the segments: a period wholly past
+        // it would otherwise count no codes under a header in use that day.
+        let under = billable_under(view, ord, &within_coverage(view, period));
+        let have = under
+            .iter()
+            .filter(|o| ctx.reached.contains(o) || ctx.listed.contains_key(o))
+            .count();
         let mut msg = format!(
             "{shown} is a header, not a billable code, {span_text}; it covers {} billable code{}, {}",
             under.len(),

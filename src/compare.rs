@@ -256,9 +256,11 @@ pub fn compare_among<D: AsRef<[u8]>>(
     let mut differences = grouper.runs(Side::A, &only_a, &touched_b);
     differences.extend(grouper.runs(Side::B, &only_b, &touched_a));
     differences.sort_by(|x, y| {
-        x.codes[0]
-            .code
-            .cmp(&y.codes[0].code)
+        fn first(d: &Difference) -> Option<&str> {
+            d.codes.first().map(|c| c.code.as_str())
+        }
+        first(x)
+            .cmp(&first(y))
             .then(x.side.name().cmp(y.side.name()))
     });
 
@@ -374,6 +376,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
         let view = self.view;
         let mut out = Vec::new();
         let mut within_of: HashMap<u32, (usize, usize)> = HashMap::new();
+        let mut categories = OtherByCategory::default();
         let mut i = 0;
         while i < only.len() {
             let mut node = only[i];
@@ -387,7 +390,13 @@ impl<'v, 'a> Grouper<'v, 'a> {
                 }
             }
             let end = view.subtree_end(node);
-            let j = i + count_in(&only[i..], node, end);
+            let mut j = i + count_in(&only[i..], node, end);
+            if j == i {
+                // Only a damaged index gives a subtree that misses the
+                // code it was climbed from: the code is its own run.
+                node = only[i];
+                j = i + 1;
+            }
             let parent = view.parent(node);
             let (within_total, within_only) = match parent {
                 // Siblings share a parent: its part of `only` is counted once.
@@ -427,7 +436,7 @@ impl<'v, 'a> Grouper<'v, 'a> {
                 side,
                 description: view.description_or_note(node),
                 all_of: j - i > 1 || node != only[i],
-                nearest: nearest(view, node, other),
+                nearest: nearest(view, node, other, &mut categories),
                 within,
                 within_total,
                 within_only,
@@ -442,9 +451,41 @@ impl<'v, 'a> Grouper<'v, 'a> {
     }
 }
 
+/// The first two codes of the other list (in its order) in each category,
+/// worked out once per list on first need: asking each code's category for
+/// every difference made a compare on a graph quadratic.
+#[derive(Default)]
+struct OtherByCategory(Option<HashMap<u32, [Option<u32>; 2]>>);
+
+impl OtherByCategory {
+    /// The first code of `other` in `node`'s category that is not `node`.
+    fn first(&mut self, view: &View<'_>, node: u32, other: &[u32]) -> Option<u32> {
+        let by = self.0.get_or_insert_with(|| {
+            let mut by: HashMap<u32, [Option<u32>; 2]> = HashMap::new();
+            for &o in other {
+                let two = by.entry(view.category(o)).or_default();
+                if let Some(slot) = two.iter_mut().find(|s| s.is_none()) {
+                    *slot = Some(o);
+                }
+            }
+            by
+        });
+        by.get(&view.category(node))?
+            .iter()
+            .flatten()
+            .copied()
+            .find(|&o| o != node)
+    }
+}
+
 /// The code of `other` (sorted) closest to `node` in the hierarchy, no
 /// further off than the node's category.
-fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
+fn nearest(
+    view: &View<'_>,
+    node: u32,
+    other: &[u32],
+    categories: &mut OtherByCategory,
+) -> Option<Nearest> {
     let make = |o: u32, relation| Nearest {
         code: view.display(&view.code(o)),
         description: view.description_or_note(o),
@@ -457,7 +498,7 @@ fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
         return Some(make(a, Relation::Parent));
     }
     if view.is_graph() {
-        return nearest_in_graph(view, node, other).map(|(o, r)| make(o, r));
+        return nearest_in_graph(view, node, other, categories).map(|(o, r)| make(o, r));
     }
     let end = view.subtree_end(node);
     let under = other.partition_point(|&o| o <= node);
@@ -493,7 +534,12 @@ fn nearest(view: &View<'_>, node: u32, other: &[u32]) -> Option<Nearest> {
 
 /// [`nearest`] in a stated hierarchy, past the ancestors: a code below,
 /// then one sharing a parent, then one of the same category.
-fn nearest_in_graph(view: &View<'_>, node: u32, other: &[u32]) -> Option<(u32, Relation)> {
+fn nearest_in_graph(
+    view: &View<'_>,
+    node: u32,
+    other: &[u32],
+    categories: &mut OtherByCategory,
+) -> Option<(u32, Relation)> {
     let has = |o: &u32| other.binary_search(o).is_ok();
     if let Some(c) = view.descendants(node).find(has) {
         return Some((c, Relation::Child));
@@ -503,11 +549,8 @@ fn nearest_in_graph(view: &View<'_>, node: u32, other: &[u32]) -> Option<(u32, R
             return Some((s, Relation::Sibling));
         }
     }
-    let cat = view.category(node);
-    other
-        .iter()
-        .copied()
-        .find(|&o| o != node && view.category(o) == cat)
+    categories
+        .first(view, node, other)
         .map(|o| (o, Relation::SameCategory))
 }
 

@@ -77,17 +77,19 @@ impl Date {
 
     /// The day before.
     pub fn pred(self) -> Date {
-        Date(self.0 - 1)
+        // Saturating: days read from a damaged index may be at the ends of i32.
+        Date(self.0.saturating_sub(1))
     }
 
     /// The day after.
     pub fn succ(self) -> Date {
-        Date(self.0 + 1)
+        Date(self.0.saturating_add(1))
     }
 
     /// Year, month and day.
     pub fn ymd(self) -> (i32, u32, u32) {
-        civil_from_days(self.0)
+        let (y, m, d) = civil_from_days(self.0);
+        (y as i32, m, d)
     }
 }
 
@@ -128,8 +130,9 @@ fn days_from_civil(y: i32, m: u32, d: u32) -> i32 {
     era * 146097 + doe - 719468
 }
 
-fn civil_from_days(z: i32) -> (i32, u32, u32) {
-    let z = z + 719468;
+// In i64: any i32 day (a damaged index may hold one) stays in range.
+fn civil_from_days(z: i32) -> (i64, u32, u32) {
+    let z = z as i64 + 719468;
     let era = if z >= 0 { z } else { z - 146096 } / 146097;
     let doe = z - era * 146097;
     let yoe = (doe - doe / 1460 + doe / 36524 - doe / 146096) / 365;

@@ -40,8 +40,13 @@ enum Start {
 /// Codes for `query` as of `day`, best first (see the module docs); the
 /// last word is taken as a prefix when `typing`.
 pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Finds {
-    let day = if view.meta().snapshot() {
-        view.meta().coverage_from
+    // As `search::find`: a one-release vocabulary as of its release, and a
+    // day past the coverage as of its last day.
+    let meta = view.meta();
+    let day = if meta.snapshot() {
+        meta.coverage_from
+    } else if meta.open_ended() && day > meta.coverage_to {
+        meta.coverage_to
     } else {
         day
     };

@@ -93,7 +93,8 @@ pub fn reason(view: &View<'_>, f: &Fit, near: &str, o: u32) -> String {
         (f.label * 100.0).round()
     );
     let code = view.code(o);
-    if near.len() >= 3 && code.starts_with(&near[..3]) {
+    // `near` is what the list holds: its first three bytes may split a character.
+    if near.get(..3).is_some_and(|head| code.starts_with(head)) {
         r.push_str(", same category");
     }
     r

@@ -1,6 +1,7 @@
 //! Checks over the list as a whole: the same code twice (`duplicate`), every
 //! billable code under a node present (`roll-up`), and most but not all of
-//! them present (`sibling-gap`). `redundant` is judged per entry in `check`.
+//! them present (`sibling-gap`), and a period running past what the index
+//! knows (`beyond-coverage`). `redundant` is judged per entry in `check`.
 
 use crate::check::{billable_under, name_codes, suggestion, ListContext, Marks, NAMED_LIMIT};
 use crate::index::View;
@@ -10,10 +11,34 @@ use crate::report::{Kind, ListFinding, Severity, Suggestion};
 
 /// Runs the whole-list checks.
 pub(crate) fn run(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFinding> {
-    let mut out = duplicates(view, ctx);
+    let mut out: Vec<ListFinding> = beyond_coverage(view, period).into_iter().collect();
+    out.extend(duplicates(view, ctx));
     out.extend(roll_ups(view, period, ctx));
     out.extend(sibling_gaps(view, period, ctx));
     out
+}
+
+/// Rule: the period runs past the last day the index covers. The index
+/// cannot tell what happened after it (a release not yet out), so entries
+/// are judged up to that day and this one finding says so. Not for a
+/// vocabulary that ends there ([`crate::model::Meta::open_ended`]).
+fn beyond_coverage(view: &View<'_>, period: &Period) -> Option<ListFinding> {
+    let meta = view.meta();
+    if !meta.open_ended() || period.to <= meta.coverage_to {
+        return None;
+    }
+    Some(ListFinding {
+        kind: Kind::BeyondCoverage,
+        severity: Severity::Warning,
+        lines: vec![],
+        codes: vec![],
+        message: format!(
+            "the index knows {} until {}; the period runs past it, so codes are judged up to that day",
+            meta.title, meta.coverage_to
+        ),
+        suggestions: vec![],
+        coverage_to: Some(meta.coverage_to),
+    })
 }
 
 fn lines_of(ctx: &ListContext, ords: &[u32]) -> Vec<usize> {
@@ -46,6 +71,7 @@ fn duplicates(view: &View<'_>, ctx: &ListContext) -> Vec<ListFinding> {
             let shown = view.display(&view.code(o));
             let l: Vec<String> = lines.iter().map(|n| n.to_string()).collect();
             ListFinding {
+                coverage_to: None,
                 kind: Kind::Duplicate,
                 severity: Severity::Warning,
                 lines: lines.clone(),
@@ -158,6 +184,7 @@ fn roll_ups(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<ListFind
             )
         };
         out.push(ListFinding {
+            coverage_to: None,
             kind: Kind::RollUp,
             severity: Severity::Info,
             lines: lines_of(ctx, &u),
@@ -202,6 +229,7 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
         }
         let shown = view.display(&view.code(n));
         out.push(ListFinding {
+            coverage_to: None,
             kind: Kind::SiblingGap,
             severity: Severity::Info,
             lines: lines_of(ctx, &have),

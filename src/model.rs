@@ -215,6 +215,16 @@ impl Meta {
         self.coverage_from == self.coverage_to
     }
 
+    /// Whether the vocabulary may go on past the index's last covered day
+    /// (a release the index does not have yet): not for one release only,
+    /// nor for a vocabulary whose last release it holds ([`System::frozen`]).
+    ///
+    /// [`System::frozen`]: crate::systems::System::frozen
+    pub fn open_ended(&self) -> bool {
+        !self.snapshot()
+            && !crate::systems::System::parse(&self.vocabulary).is_some_and(|s| s.frozen())
+    }
+
     /// The day a check is made on when no day or study period is given:
     /// `today` when the index covers it, else the nearest day it covers (an
     /// ICD-9-CM index covering 2014-10-01 to 2015-09-30 is checked on its

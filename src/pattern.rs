@@ -80,7 +80,8 @@ impl Pattern {
         match self {
             Pattern::Prefix(p) => code.starts_with(p.as_str()),
             Pattern::Range(lo, hi) => {
-                code >= lo.as_str() && &code[..code.len().min(hi.len())] <= hi.as_str()
+                // Bytes, not str: the cut may fall inside a character.
+                code >= lo.as_str() && code.as_bytes()[..code.len().min(hi.len())] <= *hi.as_bytes()
             }
         }
     }

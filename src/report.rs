@@ -74,6 +74,8 @@ pub enum Kind {
     LabelUnrecognised,
     /// Valid, but the release qualifies its use (LOINC `DISCOURAGED`, `TRIAL`).
     ReleaseStatus,
+    /// The period runs past the last day the index knows the vocabulary.
+    BeyondCoverage,
 }
 
 impl Kind {
@@ -99,6 +101,7 @@ impl Kind {
             Kind::LabelMismatch => "label-mismatch",
             Kind::LabelUnrecognised => "label-unrecognised",
             Kind::ReleaseStatus => "release-status",
+            Kind::BeyondCoverage => "beyond-coverage",
         }
     }
 }
@@ -265,6 +268,10 @@ pub struct ListFinding {
     pub message: String,
     /// Codes to consider.
     pub suggestions: Vec<Suggestion>,
+    /// `beyond-coverage`: the last day the index knows (the period's end is
+    /// the report's `options.to`). Absent for every other kind.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub coverage_to: Option<Date>,
 }
 
 /// The index a report was made against.

@@ -109,39 +109,91 @@ fn same_word(a: &str, b: &str) -> f32 {
 /// Credit for a label word matched one edit away.
 const MISSPELT: f32 = 0.8;
 
-/// Words within `most` edits of `word`, as an automaton over the word map:
-/// the state is the last row of the edit-distance table (a few bytes, as
-/// words are short), so nothing is built ahead of the walk.
+/// Most edits the automaton below allows (see [`allowed_edits`]).
+const MAX_EDITS: usize = 2;
+/// Width of its band of the edit-distance table.
+const BAND: usize = 2 * MAX_EDITS + 1;
+
+/// Words within `most` edits of `word`, as an automaton over the word map.
+/// Only the cells of the edit-distance table within `most` of its diagonal
+/// can be `most` or less, so the state is that band of the last row (five
+/// bytes) and the number of bytes read: each step costs the same whatever
+/// the length of the word (a long pasted word is no slower per step).
 struct Edits<'w> {
     word: &'w [u8],
     most: u8,
 }
 
-impl Automaton for Edits<'_> {
-    type State = Vec<u8>;
+/// Bytes read, and the band of the last row: cell `k` is column
+/// `read + k - most` of the table, every value capped at `most + 1`.
+type Band = (usize, [u8; BAND]);
 
-    fn start(&self) -> Vec<u8> {
-        (0..=self.word.len()).map(|i| i.min(255) as u8).collect()
-    }
-
-    fn is_match(&self, row: &Vec<u8>) -> bool {
-        row.last().is_some_and(|&d| d <= self.most)
-    }
-
-    fn can_match(&self, row: &Vec<u8>) -> bool {
-        row.iter().any(|&d| d <= self.most)
-    }
-
-    fn accept(&self, row: &Vec<u8>, byte: u8) -> Vec<u8> {
-        let mut next = Vec::with_capacity(row.len());
-        next.push(row[0].saturating_add(1));
-        for (j, &c) in self.word.iter().enumerate() {
-            let sub = row[j].saturating_add(u8::from(c != byte));
-            let del = row[j + 1].saturating_add(1);
-            let ins = next[j].saturating_add(1);
-            next.push(sub.min(del).min(ins));
+impl Edits<'_> {
+    /// A new automaton; `most` is capped at [`MAX_EDITS`].
+    fn new(word: &[u8], most: u32) -> Edits<'_> {
+        Edits {
+            word,
+            most: most.min(MAX_EDITS as u32) as u8,
         }
-        next
+    }
+
+    fn cap(&self) -> u8 {
+        self.most + 1
+    }
+
+    /// The column of band cell `k` after `read` bytes, if it is in the table.
+    fn column(&self, read: usize, k: usize) -> Option<usize> {
+        let j = (read + k).checked_sub(self.most as usize)?;
+        (j <= self.word.len()).then_some(j)
+    }
+}
+
+impl Automaton for Edits<'_> {
+    type State = Band;
+
+    fn start(&self) -> Band {
+        let mut band = [self.cap(); BAND];
+        for (k, cell) in band.iter_mut().enumerate() {
+            if let Some(j) = self.column(0, k) {
+                *cell = j.min(self.cap() as usize) as u8;
+            }
+        }
+        (0, band)
+    }
+
+    fn is_match(&self, &(read, band): &Band) -> bool {
+        // The last column, if the band holds it.
+        (self.word.len() + self.most as usize)
+            .checked_sub(read)
+            .and_then(|k| band.get(k))
+            .is_some_and(|&d| d <= self.most)
+    }
+
+    fn can_match(&self, (_, band): &Band) -> bool {
+        band.iter().any(|&d| d <= self.most)
+    }
+
+    fn accept(&self, &(read, old): &Band, byte: u8) -> Band {
+        let cap = self.cap();
+        let read = read.saturating_add(1);
+        let mut band = [cap; BAND];
+        for k in 0..BAND {
+            let Some(j) = self.column(read, k) else {
+                continue;
+            };
+            // Column j of the new row from columns j - 1 and j of the old one
+            // (old cells k and k + 1) and column j - 1 of the new (cell k - 1).
+            let d = if j == 0 {
+                read.min(cap as usize) as u8
+            } else {
+                let sub = old[k].saturating_add(u8::from(self.word[j - 1] != byte));
+                let del = old.get(k + 1).map_or(cap, |d| d.saturating_add(1));
+                let ins = k.checked_sub(1).map_or(cap, |i| band[i].saturating_add(1));
+                sub.min(del).min(ins)
+            };
+            band[k] = d.min(cap);
+        }
+        (read, band)
     }
 }
 
@@ -166,10 +218,7 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
     }
     let d = allowed_edits(w);
     if out.is_empty() && d > 0 {
-        let aut = Edits {
-            word: w.as_bytes(),
-            most: d as u8,
-        };
+        let aut = Edits::new(w.as_bytes(), d);
         let mut s = map.search(aut).into_stream();
         while let Some((k, off)) = s.next() {
             let k = std::str::from_utf8(k).unwrap_or("");
@@ -574,9 +623,13 @@ pub struct Found {
 /// taken as a prefix when `typing` (search as you type). Codes in use on
 /// `day` are preferred.
 pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Vec<Found> {
-    // A one-release vocabulary (HPO) is as of its release.
-    let day = if view.meta().snapshot() {
-        view.meta().coverage_from
+    // A one-release vocabulary (HPO) is as of its release; past the last
+    // day an index covers, as of that day (it knows nothing later).
+    let meta = view.meta();
+    let day = if meta.snapshot() {
+        meta.coverage_from
+    } else if meta.open_ended() && day > meta.coverage_to {
+        meta.coverage_to
     } else {
         day
     };
@@ -625,10 +678,7 @@ mod tests {
 
     #[test]
     fn the_edit_automaton_accepts_words_within_its_edits() {
-        let aut = Edits {
-            word: b"femur",
-            most: 1,
-        };
+        let aut = Edits::new(b"femur", 1);
         let run = |w: &[u8]| {
             let mut st = aut.start();
             for &b in w {
@@ -638,6 +688,46 @@ mod tests {
         };
         assert!(run(b"femur") && run(b"femor") && run(b"femurs") && run(b"emur"));
         assert!(!run(b"fenor") && !run(b"lemon"));
+    }
+
+    /// The banded automaton agrees with the full edit-distance table on
+    /// every pair of short words over a small alphabet (both at most one
+    /// or two edits, or both not), and it stops where no match can follow.
+    #[test]
+    fn the_banded_automaton_agrees_with_the_full_table() {
+        let alphabet = b"abc";
+        let mut all: Vec<Vec<u8>> = vec![Vec::new()];
+        for len in 1..=5 {
+            let mut w = vec![0usize; len];
+            loop {
+                all.push(w.iter().map(|&i| alphabet[i]).collect());
+                let Some(i) = w.iter().rposition(|&i| i + 1 < alphabet.len()) else {
+                    break;
+                };
+                w[i] += 1;
+                w[i + 1..].iter_mut().for_each(|x| *x = 0);
+            }
+        }
+        for most in 1..=2u32 {
+            for a in all.iter().step_by(7) {
+                let aut = Edits::new(a, most);
+                for b in &all {
+                    let mut st = aut.start();
+                    let mut alive = true;
+                    for &x in b {
+                        alive &= aut.can_match(&st);
+                        st = aut.accept(&st, x);
+                    }
+                    let (sa, sb) = (
+                        std::str::from_utf8(a).unwrap(),
+                        std::str::from_utf8(b).unwrap(),
+                    );
+                    let within = edits(sa, sb) <= most as usize;
+                    assert_eq!(aut.is_match(&st), within, "{sa} {sb} {most}");
+                    assert!(alive || !within, "{sa} {sb} {most}: stopped early");
+                }
+            }
+        }
     }
 
     #[test]

@@ -107,6 +107,7 @@ pub fn check_shapes_draft(system: System, draft: &Draft, options: &CheckOptions)
         .into_iter()
         .filter(|(_, l)| l.len() > 1)
         .map(|(code, l)| ListFinding {
+            coverage_to: None,
             kind: Kind::Duplicate,
             severity: Severity::Warning,
             message: format!(

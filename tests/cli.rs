@@ -799,3 +799,83 @@ fn show_takes_the_notes_file_written_with_its_index_only() {
     assert_eq!(o.status.code(), Some(2));
     assert!(err(&o).contains("--notes goes with show"), "{}", err(&o));
 }
+
+fn rollcall_bytes(args: &[&str], stdin: &[u8]) -> Output {
+    let mut c = Command::new(env!("CARGO_BIN_EXE_rollcall"));
+    c.args(args).current_dir(root());
+    c.stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped());
+    let mut child = c.spawn().unwrap();
+    let _ = child.stdin.take().unwrap().write_all(stdin);
+    child.wait_with_output().unwrap()
+}
+
+/// UTF-16 with its byte order mark (FF FE little-endian, FE FF big-endian:
+/// the Unicode Standard, section 23.8), as spreadsheets save "Unicode text".
+fn utf16(text: &str, big_endian: bool) -> Vec<u8> {
+    let mut b = if big_endian {
+        vec![0xFE, 0xFF]
+    } else {
+        vec![0xFF, 0xFE]
+    };
+    for u in text.encode_utf16() {
+        b.extend(if big_endian {
+            u.to_be_bytes()
+        } else {
+            u.to_le_bytes()
+        });
+    }
+    b
+}
+
+#[test]
+fn utf16_big_endian_lists_are_read_like_little_endian_ones() {
+    let list = "E11.9\tType 2 diabetes mellitus without complications\nI10\n";
+    let args = ["check", "-", "--on", "2026-01-01", "--format", "json"];
+    let plain = rollcall(&args, Some(list));
+    let le = rollcall_bytes(&args, &utf16(list, false));
+    let be = rollcall_bytes(&args, &utf16(list, true));
+    assert_eq!(be.status.code(), Some(0), "{}", err(&be));
+    assert_eq!(out(&le), out(&plain));
+    assert_eq!(out(&be), out(&plain));
+}
+
+#[test]
+fn a_utf16_list_with_an_odd_last_byte_is_refused_not_cut_short() {
+    let mut bytes = utf16("E11.9\nI10\n", false);
+    bytes.push(b'E');
+    let o = rollcall_bytes(&["check", "-", "--on", "2026-01-01"], &bytes);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("odd number of bytes"), "{}", err(&o));
+}
+
+#[test]
+fn a_nul_byte_is_no_code_and_its_line_is_kept() {
+    // A NUL character in a cell is no character of any code: the line is
+    // reported (never dropped), and the message does not end blank where
+    // the NUL was.
+    let o = rollcall_bytes(
+        &["check", "-", "--on", "2026-01-01", "--format", "json"],
+        b"E11.9\nI1\x000\n",
+    );
+    let v: serde_json::Value = serde_json::from_str(&out(&o)).unwrap_or_default();
+    let lines: Vec<u64> = v["entries"]
+        .as_array()
+        .map(|a| a.iter().filter_map(|e| e["line"].as_u64()).collect())
+        .unwrap_or_default();
+    if o.status.code() == Some(2) {
+        assert!(err(&o).contains("line 2"), "{}", err(&o));
+    } else {
+        assert!(lines.contains(&2), "{}", out(&o));
+    }
+}
+
+#[test]
+fn a_lone_surrogate_in_utf16_is_refused() {
+    let mut bytes = utf16("E11.9\n", false);
+    bytes.extend([0x00, 0xD8, b'\n', 0]);
+    let o = rollcall_bytes(&["check", "-", "--on", "2026-01-01"], &bytes);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("UTF-16"), "{}", err(&o));
+}

@@ -79,9 +79,37 @@ impl<'a> In<'a> {
     }
 }
 
+/// The `n` bytes of `data` from byte `at`, if they are all there. Offsets
+/// and counts come from the file, so the end is computed without overflow
+/// (a 32-bit `usize` in Wasm overflows far sooner).
+#[inline]
+pub fn bytes_at(data: &[u8], at: usize, n: usize) -> Option<&[u8]> {
+    data.get(at..at.checked_add(n)?)
+}
+
+/// Entry `i` of a table of `width`-byte entries, if it is there.
+#[inline]
+pub fn entry(data: &[u8], i: usize, width: usize) -> Option<&[u8]> {
+    bytes_at(data, i.checked_mul(width)?, width)
+}
+
 /// The little-endian `u32` at byte `at` of `data`, if it is there.
 #[inline]
 pub fn u32_at(data: &[u8], at: usize) -> Option<u32> {
-    let b = data.get(at..at + 4)?;
+    let b = bytes_at(data, at, 4)?;
     Some(u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
+}
+
+/// The little-endian `u32` entry `i` of a table of them, if it is there.
+#[inline]
+pub fn u32_entry(data: &[u8], i: usize) -> Option<u32> {
+    let b = entry(data, i, 4)?;
+    Some(u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
+}
+
+/// The little-endian `u16` entry `i` of a table of them, if it is there.
+#[inline]
+pub fn u16_entry(data: &[u8], i: usize) -> Option<u16> {
+    let b = entry(data, i, 2)?;
+    Some(u16::from_le_bytes([b[0], b[1]]))
 }

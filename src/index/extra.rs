@@ -14,7 +14,7 @@
 //!
 //! [`Hierarchy::Explicit`]: crate::model::Hierarchy::Explicit
 
-use super::bytes::{u32_at, In, Out};
+use super::bytes::{u16_entry, u32_entry, In, Out};
 use crate::model::Release;
 use std::collections::HashMap;
 
@@ -31,10 +31,9 @@ pub struct Links<'a> {
 /// The `i`-th number of a table of 2- or 4-byte numbers.
 fn num(b: &[u8], i: usize, wide: bool) -> Option<u32> {
     if wide {
-        u32_at(b, i * 4)
+        u32_entry(b, i)
     } else {
-        b.get(i * 2..i * 2 + 2)
-            .map(|x| u16::from_le_bytes([x[0], x[1]]) as u32)
+        u16_entry(b, i).map(u32::from)
     }
 }
 
@@ -48,11 +47,12 @@ impl<'a> Links<'a> {
         };
         let w = if wide { 4 } else { 2 };
         let b = &b[1..];
-        let off_len = (n + 1) * w;
+        let off_len = n.checked_add(1)?.checked_mul(w)?;
         let off = b.get(..off_len)?;
         let total = num(off, n, wide)? as usize;
-        let ords = b.get(off_len..off_len + total * w)?;
-        let rest = &b[off_len + total * w..];
+        let end = total.checked_mul(w)?.checked_add(off_len)?;
+        let ords = b.get(off_len..end)?;
+        let rest = &b[end..];
         let links = Links { off, ords, wide };
         if !check {
             return Some((links, rest));
@@ -75,7 +75,10 @@ impl<'a> Links<'a> {
     pub fn of(&self, ord: u32) -> impl Iterator<Item = u32> + 'a {
         let (i, wide) = (ord as usize, self.wide);
         let from = num(self.off, i, wide).unwrap_or(0) as usize;
-        let to = num(self.off, i + 1, wide).unwrap_or(0) as usize;
+        let to = i
+            .checked_add(1)
+            .and_then(|j| num(self.off, j, wide))
+            .unwrap_or(0) as usize;
         let ords = self.ords;
         (from..to.max(from)).filter_map(move |k| num(ords, k, wide))
     }

@@ -62,8 +62,10 @@ pub struct MapView<'a> {
     groups: &'a [u8],
 }
 
-/// Decodes the section (`None` for a damaged one).
-pub fn read(b: &[u8]) -> Option<Vec<MapView<'_>>> {
+/// Decodes the section (`None` for a damaged one). With `check`, each
+/// mapping's fst is checked against its own checksum (done once, when the
+/// index is opened: lookups and streams trust its nodes).
+pub fn read(b: &[u8], check: bool) -> Option<Vec<MapView<'_>>> {
     let mut r = In::new(b);
     let n = r.varint()?;
     let mut out = Vec::new();
@@ -74,6 +76,9 @@ pub fn read(b: &[u8]) -> Option<Vec<MapView<'_>>> {
         let to = r.str()?;
         let len = r.varint()? as usize;
         let map = fst::Map::new(r.take(len)?).ok()?;
+        if check && map.as_fst().verify().is_err() {
+            return None;
+        }
         let len = r.varint()? as usize;
         let groups = r.take(len)?;
         out.push(MapView {

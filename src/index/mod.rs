@@ -20,7 +20,7 @@ use crate::model::{
     Section, SeventhRule, Source, Successor,
 };
 use crate::sha256;
-use bytes::{u32_at, In};
+use bytes::{u16_entry, u32_at, u32_entry, In};
 use std::fmt;
 
 /// First bytes of every index file.
@@ -192,14 +192,19 @@ impl<D: AsRef<[u8]>> Index<D> {
         // Mappings are optional; a damaged section is refused here.
         let maps = find.get(&b"MAPS"[..]).copied();
         if let Some((o, n)) = maps {
-            maps::read(&bytes[o..o + n]).ok_or(IndexError::Corrupt("mappings"))?;
+            maps::read(&bytes[o..o + n], true).ok_or(IndexError::Corrupt("mappings"))?;
         }
         let tree_at = sec(b"TREE", "chapters missing")?;
         let tree = read_tree(&bytes[tree_at.0..tree_at.0 + tree_at.1])
             .ok_or(IndexError::Corrupt("chapters"))?;
         let fst = sec(b"CFST", "code map missing")?;
+        // Every fst is walked on trust (lookups, automata, reading a code
+        // back from its rank): each one's own checksum (CRC-32C) is checked
+        // here so a damaged one is refused, not followed.
         let map = fst::Map::new(&bytes[fst.0..fst.0 + fst.1])
-            .map_err(|_| IndexError::Corrupt("code map"))?;
+            .ok()
+            .filter(|m| m.as_fst().verify().is_ok())
+            .ok_or(IndexError::Corrupt("code map"))?;
         let len = map.len();
         let pard = sec(b"PARD", "parents missing")?;
         let subt = sec(b"SUBT", "subtrees missing")?;
@@ -212,8 +217,6 @@ impl<D: AsRef<[u8]>> Index<D> {
         let doff = sec(b"DOFF", "descriptions missing")?;
         let desc = sec(b"DESC", "descriptions missing")?;
         let wfst = sec(b"WFST", "word map missing")?;
-        // The word map is walked by automata, which trust its nodes: its own
-        // checksum (CRC-32C) is checked here so a damaged one is refused.
         fst::Map::new(&bytes[wfst.0..wfst.0 + wfst.1])
             .ok()
             .filter(|m| m.as_fst().verify().is_ok())
@@ -225,20 +228,24 @@ impl<D: AsRef<[u8]>> Index<D> {
             .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
             .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
+        // The code map states how many records there are: every size derived
+        // from it is computed without overflow (a damaged map may claim any).
+        let times = |n: usize, w: usize| n.checked_mul(w);
         let rec_blocks = len.div_ceil(REC_BLOCK);
-        let wide = pard.1 == len * 4 && len > 0;
+        let wide = times(len, 4) == Some(pard.1) && len > 0;
         let col = if wide { 4 } else { 2 };
-        if pard.1 != len * col
-            || subt.1 != len * col
-            || cnts.1 != len * 4
-            || spbk.1 != rec_blocks * 4
-            || spof.1 != len * 2
-            || scbk.1 != rec_blocks * 4
-            || span.1 % 8 != 0
-            || succ.1 % 8 != 0
-            || doff.1 != len.div_ceil(write::DESC_BLOCK) * 4
-            || wlen.1 != len
-        {
+        let sizes_agree = times(len, col) == Some(pard.1)
+            && times(len, col) == Some(subt.1)
+            && times(len, 4) == Some(cnts.1)
+            && times(rec_blocks, 4) == Some(spbk.1)
+            && times(len, 2) == Some(spof.1)
+            && times(rec_blocks, 4) == Some(scbk.1)
+            && span.1 % 8 == 0
+            && succ.1 % 8 == 0
+            && times(len.div_ceil(write::DESC_BLOCK), 4) == Some(doff.1)
+            && wlen.1 == len
+            && u32::try_from(len).is_ok();
+        if !sizes_agree {
             return Err(IndexError::Corrupt("table sizes disagree"));
         }
         let layout = Layout {
@@ -330,7 +337,10 @@ impl<D: AsRef<[u8]>> Index<D> {
             len: l.len,
             meta: &self.meta,
             tree: &self.tree,
-            mappings: self.maps.and_then(|m| maps::read(s(m))).unwrap_or_default(),
+            mappings: self
+                .maps
+                .and_then(|m| maps::read(s(m), false))
+                .unwrap_or_default(),
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
             extra: extra::read(|t| slice_of(b, &self.extras, t), l.len, false).unwrap_or_default(),
@@ -691,7 +701,10 @@ impl<'a> View<'a> {
     /// Ordinal of an undotted, upper-case code.
     #[inline]
     pub fn ordinal(&self, code: &str) -> Option<u32> {
-        self.map.get(code).map(|o| o as u32)
+        self.map
+            .get(code)
+            .filter(|&o| o < self.len as u64)
+            .map(|o| o as u32)
     }
 
     /// The undotted code at an ordinal, read back from the fst: outputs are
@@ -724,14 +737,14 @@ impl<'a> View<'a> {
         let mut acc = 0u64;
         let mut key = Vec::with_capacity(8);
         for _ in 0..64 {
-            if node.is_final() && acc + node.final_output().value() == target {
+            if node.is_final() && acc.saturating_add(node.final_output().value()) == target {
                 return String::from_utf8(key).unwrap_or_default();
             }
             // Outputs grow with the input byte, so binary-search the transitions.
             let (mut lo, mut hi) = (0usize, node.len());
             while lo < hi {
                 let mid = (lo + hi) / 2;
-                if acc + node.transition(mid).out.value() <= target {
+                if acc.saturating_add(node.transition(mid).out.value()) <= target {
                     lo = mid + 1;
                 } else {
                     hi = mid;
@@ -739,7 +752,7 @@ impl<'a> View<'a> {
             }
             let pick = lo.checked_sub(1).map(|i| node.transition(i));
             let Some(t) = pick else { break };
-            acc += t.out.value();
+            acc = acc.saturating_add(t.out.value());
             key.push(t.inp);
             node = fst.node(t.addr);
         }
@@ -765,22 +778,20 @@ impl<'a> View<'a> {
     fn column(&self, data: &[u8], ord: u32) -> u32 {
         let i = ord as usize;
         if self.wide {
-            data.get(i * 4..i * 4 + 4)
-                .map_or(0, |b| u32::from_le_bytes([b[0], b[1], b[2], b[3]]))
+            u32_entry(data, i).unwrap_or(0)
         } else {
             Self::u16_at(data, i) as u32
         }
     }
 
     fn u16_at(data: &[u8], i: usize) -> u16 {
-        data.get(i * 2..i * 2 + 2)
-            .map_or(0, |b| u16::from_le_bytes([b[0], b[1]]))
+        u16_entry(data, i).unwrap_or(0)
     }
 
     #[inline]
     fn count(&self, ord: u32, field: usize) -> usize {
-        self.cnts
-            .get(ord as usize * 4 + field)
+        bytes::entry(self.cnts, ord as usize, 4)
+            .and_then(|b| b.get(field))
             .copied()
             .unwrap_or(0) as usize
     }
@@ -837,11 +848,12 @@ impl<'a> View<'a> {
     /// the subtree of `ord` is `ord..end`. A graph's descendants are not a
     /// range (see [`descendants`](Self::descendants)); there it is `ord + 1`.
     pub fn subtree_end(&self, ord: u32) -> u32 {
+        let next = ord.saturating_add(1);
         if self.extra.graph.is_some() {
-            return ord + 1;
+            return next;
         }
         let size = self.column(self.subt, ord).max(1);
-        (ord + size).min(self.len as u32).max(ord + 1)
+        ord.saturating_add(size).min(self.len as u32).max(next)
     }
 
     /// The category a node belongs to, for tallies: in a prefix hierarchy
@@ -867,7 +879,7 @@ impl<'a> View<'a> {
     /// a prefix hierarchy (no allocation), a walk of the children in a graph.
     pub fn descendants(&self, ord: u32) -> Descendants {
         let Some((_, children)) = &self.extra.graph else {
-            return Descendants::Range(ord + 1..self.subtree_end(ord));
+            return Descendants::Range(ord.saturating_add(1)..self.subtree_end(ord));
         };
         let mut seen = std::collections::HashSet::new();
         let mut stack: Vec<u32> = children.of(ord).collect();
@@ -890,7 +902,7 @@ impl<'a> View<'a> {
         } else {
             self.subtree_end(ord)
         };
-        let mut next = ord + 1;
+        let mut next = ord.saturating_add(1);
         let tree = std::iter::from_fn(move || {
             if next >= end {
                 return None;
@@ -942,23 +954,25 @@ impl<'a> View<'a> {
     fn run_start(&self, blocks: &[u8], ord: u32, len_of: impl Fn(u32) -> usize) -> usize {
         let block = ord as usize / REC_BLOCK;
         let first = (block * REC_BLOCK) as u32;
-        let base = u32_at(blocks, block * 4).unwrap_or(0) as usize;
-        base + (first..ord).map(len_of).sum::<usize>()
+        let base = u32_entry(blocks, block).unwrap_or(0) as usize;
+        (first..ord).map(len_of).fold(base, usize::saturating_add)
     }
 
     fn spans_of(&self, ord: u32) -> (usize, usize, usize) {
         let nb = self.count(ord, 0);
         let nh = self.count(ord, 1);
-        let start = u32_at(self.spbk, ord as usize / REC_BLOCK * 4).unwrap_or(0) as usize
-            + Self::u16_at(self.spof, ord as usize) as usize;
+        let start = (u32_entry(self.spbk, ord as usize / REC_BLOCK).unwrap_or(0) as usize)
+            .saturating_add(Self::u16_at(self.spof, ord as usize) as usize);
         let total = self.spans.len() / 8;
         let s = start.min(total);
-        (s, (s + nb).min(total), (s + nb + nh).min(total))
+        let m = s.saturating_add(nb).min(total);
+        (s, m, m.saturating_add(nh).min(total))
     }
 
     fn period_at(&self, i: usize) -> Period {
-        let f = u32_at(self.spans, i * 8).unwrap_or(0) as i32;
-        let t = u32_at(self.spans, i * 8 + 4).unwrap_or(0) as i32;
+        let pair = bytes::entry(self.spans, i, 8).unwrap_or(&[]);
+        let f = u32_at(pair, 0).unwrap_or(0) as i32;
+        let t = u32_at(pair, 4).unwrap_or(0) as i32;
         Period::new(Date::from_days(f), Date::from_days(t))
     }
 
@@ -983,18 +997,20 @@ impl<'a> View<'a> {
     fn succ_of(&self, ord: u32) -> (usize, usize) {
         let start = self.run_start(self.scbk, ord, |o| self.count(o, 2));
         let total = self.succ.len() / 8;
-        (start.min(total), (start + self.count(ord, 2)).min(total))
+        let s = start.min(total);
+        (s, s.saturating_add(self.count(ord, 2)).min(total))
     }
 
     /// Successors and the day each took over.
     pub fn successors(&self, ord: u32) -> impl Iterator<Item = (u32, Date)> + '_ {
         let (start, end) = self.succ_of(ord);
         (start..end).map(move |i| {
+            let pair = bytes::entry(self.succ, i, 8).unwrap_or(&[]);
             (
-                u32_at(self.succ, i * 8)
+                u32_at(pair, 0)
                     .unwrap_or(0)
                     .min(self.len.saturating_sub(1) as u32),
-                Date::from_days(u32_at(self.succ, i * 8 + 4).unwrap_or(0) as i32),
+                Date::from_days(u32_at(pair, 4).unwrap_or(0) as i32),
             )
         })
     }
@@ -1022,7 +1038,7 @@ impl<'a> View<'a> {
             return String::new();
         }
         let block = ord as usize / write::DESC_BLOCK;
-        let Some(off) = u32_at(self.doff, block * 4) else {
+        let Some(off) = u32_entry(self.doff, block) else {
             return String::new();
         };
         let mut r = In::new(self.desc);

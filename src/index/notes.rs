@@ -277,7 +277,10 @@ impl NoteTable {
         let Some(&(first, count)) = self.at.get(&(tag, owner)) else {
             return Vec::new();
         };
-        let notes = self.notes.get(first..first + count).unwrap_or_default();
+        let notes = self
+            .notes
+            .get(first..first.saturating_add(count))
+            .unwrap_or_default();
         notes
             .iter()
             .map(|&(kind, pos)| {

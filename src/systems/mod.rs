@@ -111,6 +111,14 @@ impl System {
         }
     }
 
+    /// Whether the vocabulary has had its last release, so that the end of
+    /// an index's coverage is the end of its codes: ICD-9-CM, frozen after
+    /// FY2015 and replaced in the US by ICD-10-CM and ICD-10-PCS from
+    /// 2015-10-01 (the HIPAA code set rule, 45 CFR 162.1002; from memory).
+    pub fn frozen(self) -> bool {
+        self == System::Icd9cm
+    }
+
     /// `a` or `an`, as said before the title.
     pub fn article(self) -> &'static str {
         match self {

@@ -55,7 +55,8 @@ pub(super) fn cpt(c: &str) -> Shape {
     if all_digits(&u) {
         return fits(u, "has the CPT Category I shape (five digits)");
     }
-    if !all_digits(&u[..4]) {
+    // `u` has five bytes, but not necessarily five characters.
+    if !u.get(..4).is_some_and(all_digits) {
         return fails(
             "a CPT code has five characters: five digits (99213), or four digits and F, T, U or M",
         );

@@ -96,6 +96,8 @@ export interface ListFinding {
   codes: string[];
   message: string;
   suggestions: Suggestion[];
+  /** `beyond-coverage` only: the last day the index knows. */
+  coverage_to?: string;
 }
 
 /** The check report: the same schema as the CLI's `--format json`. */
