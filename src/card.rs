@@ -67,6 +67,11 @@ pub struct Card {
     pub siblings: Vec<Child>,
     /// The tabular list's notes stated at it, then those it inherits, nearest first.
     pub notes: Vec<CardNote>,
+    /// Whether `notes` could be read: `loaded` (the notes file is at hand),
+    /// `not-loaded` (the system's notes are in a notes file not added to
+    /// the index, so `notes` is empty for that reason alone) or `none`
+    /// (rollcall keeps no notes for this vocabulary).
+    pub notes_status: &'static str,
     /// The 7th-character rule in force at it, if any.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub seventh_character: Option<Seventh>,
@@ -264,6 +269,7 @@ fn blank(view: &View<'_>, code: String, status: &'static str) -> Card {
         children: Vec::new(),
         siblings: Vec::new(),
         notes: Vec::new(),
+        notes_status: notes_status(view),
         seventh_character: None,
         successors: Vec::new(),
         predecessors: Vec::new(),
@@ -579,6 +585,22 @@ fn status_over(timeline: &[Segment], period: &Period) -> &'static str {
         [one] => one,
         [] => "not-in-use",
         _ => "changes",
+    }
+}
+
+/// Whether the notes of the view's vocabulary are at hand (see
+/// [`Card::notes_status`]); which systems have notes is
+/// [`crate::systems::System::notes_file`]'s to say.
+pub fn notes_status(view: &View<'_>) -> &'static str {
+    let has_file = crate::systems::System::parse(&view.meta().vocabulary)
+        .and_then(|s| s.notes_file())
+        .is_some();
+    if view.has_notes() {
+        "loaded"
+    } else if has_file {
+        "not-loaded"
+    } else {
+        "none"
     }
 }
 

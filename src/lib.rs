@@ -60,7 +60,7 @@ pub use check::{
 };
 pub use compare::{compare, Comparison};
 pub use date::{Date, DateError};
-pub use index::{Index, IndexError, View};
+pub use index::{Index, IndexError, NotesFile, View};
 pub use list::{parse_list, read, Draft, InputLine, LineKind, Reading};
 pub use report::{
     Entry, Finding, Kind, ListFinding, Report, Severity, Status, Suggestion, Summary, SystemPart,

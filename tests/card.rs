@@ -7,11 +7,11 @@ mod common;
 use common::*;
 use rollcall::card::{self, Cards};
 use rollcall::model::NoteKind;
-use rollcall::CheckOptions;
+use rollcall::{CheckOptions, Index, IndexError, NotesFile};
 use std::collections::{BTreeMap, BTreeSet};
 
 fn cards_of(codes: &[&str], opts: &CheckOptions) -> Cards {
-    let index = index();
+    let index = index_with_notes();
     let icd9 = icd9_index();
     card::cards(&index, &[icd9.view()], codes, opts)
 }
@@ -185,6 +185,81 @@ fn notes_of_named_nodes_equal_the_april_2026_tabular_xml() {
     let rule = s06.seventh_character.as_ref().unwrap();
     assert_eq!(rule.at, "S06");
     assert_eq!(rule.extensions[0], ('A', "initial encounter".to_string()));
+}
+
+/// Source: the same April 2026 XML: E11 has notes there (an Excludes1 and a
+/// Use additional code). Without the notes file the card says the notes
+/// are not loaded instead of showing none; ICD-9-CM keeps no notes.
+#[test]
+fn without_the_notes_file_the_card_says_the_notes_are_not_loaded() {
+    let index = index();
+    let c = card::cards(&index, &[], &["E11"], &on("2026-06-01"));
+    assert_eq!(c.cards[0].notes_status, "not-loaded");
+    assert!(c.cards[0].notes.is_empty());
+    let text = rollcall::render::cards_text(&c);
+    assert!(
+        text.contains("notes of the tabular list: not loaded"),
+        "{text}"
+    );
+    let with = cards_of(&["E11"], &on("2026-06-01"));
+    assert_eq!(with.cards[0].notes_status, "loaded");
+    assert!(!xml_notes("E11").is_empty() && !with.cards[0].notes.is_empty());
+    let icd9 = icd9_index();
+    let c = card::cards(&icd9, &[], &["250.00"], &on("2015-06-01"));
+    assert_eq!(c.cards[0].notes_status, "none");
+}
+
+/// A notes file names the release and build of the index it was written
+/// with and pairs with that one only: the bundled notes are refused by the
+/// ICD-9-CM index and by an ICD-10-CM index of another release (the
+/// bundled release written again under the tag FY2026, a release of our
+/// own making), and that release's notes by the bundled index.
+#[test]
+fn a_notes_file_of_another_release_is_refused() {
+    let notes = || NotesFile::open(notes_bytes()).unwrap();
+    assert_eq!(notes().release(), "FY2027");
+    let mut icd9 = icd9_index();
+    let e = icd9.add_notes(notes()).unwrap_err();
+    assert!(matches!(e, IndexError::NotesOfAnotherIndex { .. }));
+    assert!(e.to_string().contains("icd10cm release FY2027"), "{e}");
+    assert!(!icd9.has_notes());
+
+    let mut release = index_with_notes().to_release();
+    assert!(!release.notes.is_empty());
+    release.meta.release = "FY2026".into();
+    let other = rollcall::index::write::write(&release).unwrap();
+    let other_notes = rollcall::index::write::notes(&release, &other)
+        .unwrap()
+        .unwrap();
+    let mut other = Index::open(other).unwrap();
+    let e = other.add_notes(notes()).unwrap_err();
+    assert!(
+        e.to_string().contains("written for icd10cm release FY2027")
+            && e.to_string().contains("icd10cm release FY2026"),
+        "{e}"
+    );
+    let mut bundled = index();
+    let e = bundled
+        .add_notes(NotesFile::open(other_notes.clone()).unwrap())
+        .unwrap_err();
+    assert!(e.to_string().contains("release FY2026"), "{e}");
+    assert!(!bundled.has_notes());
+    // Its own notes pair, and give the same card as the bundled ones.
+    other
+        .add_notes(NotesFile::open(other_notes).unwrap())
+        .unwrap();
+    let a = card::cards(&other, &[], &["E11.621"], &on("2026-06-01"));
+    let b = card::cards(&index_with_notes(), &[], &["E11.621"], &on("2026-06-01"));
+    assert_eq!(a.cards[0].notes, b.cards[0].notes);
+    // A notes file is no index, and an index no notes file.
+    assert!(matches!(
+        Index::open(notes_bytes()),
+        Err(IndexError::NotesNotIndex)
+    ));
+    assert!(matches!(
+        NotesFile::open(std::fs::read(root().join("vocab/icd10cm.rcx")).unwrap()),
+        Err(IndexError::NotNotes)
+    ));
 }
 
 /// Source: the same April 2026 XML, chapter 4's own notes (between its

@@ -760,6 +760,46 @@ fn find_takes_a_code_first() {
     assert!(out(&o).starts_with("E11.621"), "{}", out(&o));
 }
 
+/// `show --index` of the bundled index's file gets the bundled notes
+/// (they were written for it: same SHA-256); `--notes` gives a notes file
+/// and is refused by an index of another release or vocabulary. Source
+/// for the note: the CDC tabular list XML, April 2026 (E11: "Includes:
+/// diabetes NOS").
+#[test]
+fn show_takes_the_notes_file_written_with_its_index_only() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let index = format!("{root}/vocab/icd10cm.rcx");
+    let notes = format!("{root}/vocab/icd10cm-notes.rcx");
+    let o = rollcall(
+        &["show", "E11", "--on", "2026-06-01", "--index", &index],
+        None,
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", err(&o));
+    assert!(out(&o).contains("Includes: diabetes NOS"), "{}", out(&o));
+    let o = rollcall(
+        &["show", "E11", "--on", "2026-06-01", "--notes", &notes],
+        None,
+    );
+    assert!(out(&o).contains("Includes: diabetes NOS"), "{}", out(&o));
+    let icd9 = format!("{root}/vocab/icd9cm.rcx");
+    let o = rollcall(
+        &["show", "250.00", "--index", &icd9, "--notes", &notes],
+        None,
+    );
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        err(&o).contains("the notes file was written for icd10cm release FY2027"),
+        "{}",
+        err(&o)
+    );
+    let o = rollcall(&["show", "E11", "--index", &notes], None);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("this is a notes file"), "{}", err(&o));
+    let o = rollcall(&["check", "-", "--notes", &notes], Some("E11.9\n"));
+    assert_eq!(o.status.code(), Some(2));
+    assert!(err(&o).contains("--notes goes with show"), "{}", err(&o));
+}
+
 fn rollcall_bytes(args: &[&str], stdin: &[u8]) -> Output {
     let mut c = Command::new(env!("CARGO_BIN_EXE_rollcall"));
     c.args(args).current_dir(root());

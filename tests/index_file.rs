@@ -197,3 +197,43 @@ fn damaged_graph_sections_never_panic() {
         "{opened} opened, {refused} refused"
     );
 }
+
+/// A damaged notes file never panics: bytes flipped in its notes (the
+/// index it names left whole, so it still pairs), added unverified, then
+/// cards of codes with notes at every level.
+#[test]
+fn damaged_notes_never_panic() {
+    let good = notes_bytes();
+    let mut seed: u64 = 0x2545f4914f6cdd1d;
+    let mut next = || {
+        seed ^= seed << 13;
+        seed ^= seed >> 7;
+        seed ^= seed << 17;
+        seed
+    };
+    let mut paired = 0;
+    for round in 0..40 {
+        let mut b = good.clone();
+        for _ in 0..(1 + round % 5) * 10 {
+            // Past the header, the directory and the PAIR section.
+            let at = 200 + (next() as usize) % (b.len() - 200);
+            b[at] = next() as u8;
+        }
+        let Ok(notes) = rollcall::NotesFile::open(b) else {
+            continue;
+        };
+        assert!(notes.verify().is_err());
+        let mut idx = index();
+        if idx.add_notes(notes).is_ok() {
+            paired += 1;
+            let c = rollcall::card::cards(
+                &idx,
+                &[],
+                &["E11.621", "S06.0X1A", "O24.4", "B03", "Z99"],
+                &on("2026-06-01"),
+            );
+            assert_eq!(c.cards.len(), 5);
+        }
+    }
+    assert!(paired > 0);
+}

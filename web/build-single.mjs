@@ -1,9 +1,10 @@
 // The single-file page: one HTML file with the page's script, styles, the
-// Wasm, the worker (with the workbook reader) and the bundled index inside,
-// for a shared drive or an e-mail. It works opened from file:// with no
-// network at all. The Wasm files and the index are stored gzip-compressed in
-// base64 and unpacked with DecompressionStream (the workbook reader's in the
-// worker, on first use); the worker starts from a Blob URL.
+// Wasm, the worker (with the workbook reader), the bundled index and its notes
+// file inside, for a shared drive or an e-mail. It works opened from file://
+// with no network at all. The Wasm files, the index and the notes are stored
+// gzip-compressed in base64 and unpacked with DecompressionStream (the
+// workbook reader's in the worker, on first use; the notes when a card is
+// first opened); the worker starts from a Blob URL.
 // Usage: node web/build-single.mjs [DIST] [OUT]   (after web/build.sh)
 import fs from "node:fs";
 import path from "node:path";
@@ -82,10 +83,16 @@ function embeddedModule() {
   const wasm = read("rollcall-web_bg.wasm");
   const bookGlue = read("rollcall-workbook.js").toString("utf8");
   const bookWasm = read("rollcall-workbook_bg.wasm");
+  // The notes file's manifest: its name is the one the Trunk post-build
+  // gives it (the core's System::notes_manifest).
+  const notesManifest = JSON.parse(read("manifest-icd10cm-notes.json").toString("utf8"));
+  if (notesManifest.index_sha256 !== manifest.sha256) die("the notes file was not written with the bundled index");
+  const notes = read(notesManifest.file);
   const gz = (bytes) => zlib.gzipSync(bytes, { level: 9 }).toString("base64");
   const indexGz = gz(index);
   const wasmGz = gz(wasm);
   const bookGz = gz(bookWasm);
+  const notesGz = gz(notes);
   const sizes = {
     index: index.length,
     indexGz: indexGz.length,
@@ -93,15 +100,19 @@ function embeddedModule() {
     wasmGz: wasmGz.length,
     book: bookWasm.length,
     bookGz: bookGz.length,
+    notes: notes.length,
+    notesGz: notesGz.length,
   };
   // The worker carries the workbook reader (its glue, and its Wasm as gzip
   // in base64), which it unpacks only when a workbook is checked.
   const workerSource = `${glue}\n;\n${bookGlue}\n;\nconst WORKBOOK_WASM_GZ = "${bookGz}";\n${worker}`;
-  const code = `// The single-file page's contents: the index, the Wasm and the worker.
+  const code = `// The single-file page's contents: the index, its notes, the Wasm and the worker.
 const WORKER_SOURCE = ${JSON.stringify(workerSource)};
 const WASM_GZ = "${wasmGz}";
 const INDEX_GZ = "${indexGz}";
 const MANIFEST = ${JSON.stringify(manifest)};
+const NOTES_GZ = "${notesGz}";
+const NOTES_MANIFEST = ${JSON.stringify(notesManifest)};
 const DEMO = ${JSON.stringify(read("demo-list.tsv").toString("utf8"))};
 
 async function gunzip(base64) {
@@ -117,6 +128,7 @@ export const embedded = {
   demo: DEMO,
   index: () => gunzip(INDEX_GZ),
   wasm: () => gunzip(WASM_GZ),
+  notes: { bytes: () => gunzip(NOTES_GZ), manifest: NOTES_MANIFEST },
   worker: () => new Worker(URL.createObjectURL(new Blob([WORKER_SOURCE], { type: "text/javascript" }))),
 };
 `;
@@ -164,7 +176,8 @@ function main() {
   console.log(`build-single: ${OUT}`);
   console.log(`build-single: ${bytes.toLocaleString("en-US")} bytes (${kib(bytes)}; ${kib(gzipped)} gzipped)`);
   console.log(
-    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64; ` +
+    `build-single: index ${kib(sizes.index)} raw, ${kib(sizes.indexGz)} as gzip+base64; notes ${kib(sizes.notes)} raw, ${kib(sizes.notesGz)} as gzip+base64; ` +
+      `Wasm ${kib(sizes.wasm)} raw, ${kib(sizes.wasmGz)} as gzip+base64; ` +
       `workbook reader Wasm ${kib(sizes.book)} raw, ${kib(sizes.bookGz)} as gzip+base64`,
   );
 }

@@ -38,6 +38,37 @@ static BUNDLED_INDEXES: &[(System, &[u8], &str)] = &[
 ];
 static BUNDLED: &[u8] = BUNDLED_INDEXES[0].1;
 
+/// The bundled notes files (the tabular list's notes, for `show`), each
+/// written by vocab-build with the bundled index of its system (the file
+/// `System::notes_file` names).
+static BUNDLED_NOTES: &[(System, &[u8])] = &[(
+    System::Icd10cm,
+    include_bytes!("../../vocab/icd10cm-notes.rcx"),
+)];
+
+/// Adds the notes of `path` (`--notes`) to the index, or else the bundled
+/// notes of its system when they were written for it (the bundled index,
+/// or the same file given with `--index`).
+fn add_notes(index: &mut Index<&'static [u8]>, path: Option<&str>) -> Result<(), String> {
+    use rollcall::NotesFile;
+    if let Some(p) = path {
+        let bytes = std::fs::read(p).map_err(|e| format!("cannot read the notes {p}: {e}"))?;
+        let bytes: &'static [u8] = Box::leak(bytes.into_boxed_slice());
+        let notes = NotesFile::open(bytes).map_err(|e| format!("{p}: {e}"))?;
+        notes.verify().map_err(|e| format!("{p}: {e}"))?;
+        return index.add_notes(notes).map_err(|e| format!("{p}: {e}"));
+    }
+    let system = System::parse(&index.meta().vocabulary);
+    let bundled = BUNDLED_NOTES.iter().find(|(s, _)| Some(*s) == system);
+    if let Some((_, bytes)) = bundled {
+        let notes = NotesFile::open(*bytes).map_err(|e| e.to_string())?;
+        if notes.pairs_with(index).is_ok() {
+            index.add_notes(notes).map_err(|e| e.to_string())?;
+        }
+    }
+    Ok(())
+}
+
 /// The bundled index of `system`, opened (a header check; no copy).
 fn bundled(system: System) -> Option<Result<Index<&'static [u8]>, String>> {
     BUNDLED_INDEXES
@@ -62,7 +93,7 @@ usage:
   rollcall find WORDS...|CODE [WORDS...] [--date DATE] [--limit N] [--format text|json]
                         [--index PATH]
   rollcall show CODE... [--on DATE | --from DATE --to DATE] [--system NAME | --index PATH]
-                        [--format text|json]
+                        [--notes PATH] [--format text|json]
 
   FILE       any list or draft: plain lines (code, then an optional label), CSV or TSV
              with a code column, markdown, prose, SQL/R/Python literals, JSON or a FHIR
@@ -99,7 +130,9 @@ usage:
   show       a card per code, node or code start: status and timeline across the
              releases, chapter, section and ancestors, children and siblings in force
              on the day (the last day of a period), the tabular list's notes, successors,
-             predecessors and GEM mappings; an unknown code gets the check's suggestions
+             predecessors and GEM mappings; an unknown code gets the check's suggestions;
+             --notes: the notes file vocab-build wrote beside an --index (NAME-notes.rcx;
+             the bundled ICD-10-CM notes are built in)
 
 exit status: 0 no errors found (compare: and both lists reach the same codes),
              1 error-level findings (compare: or the lists differ), 2 usage or input error.
@@ -127,6 +160,8 @@ struct Args {
     billable: bool,
     format: Option<String>,
     index: Option<String>,
+    /// show: a notes file for the index.
+    notes: Option<String>,
     system: Option<String>,
     /// translate: the target system.
     into: Option<String>,
@@ -156,6 +191,7 @@ fn parse(argv: &[String]) -> Result<Args, Usage> {
             "--billable" => a.billable = true,
             "--format" => a.format = Some(value()?),
             "--index" => a.index = Some(value()?),
+            "--notes" => a.notes = Some(value()?),
             "--system" => a.system = Some(value()?),
             "--into" => a.into = Some(value()?),
             "--valueset-url" => a.valueset_url = Some(value()?),
@@ -205,6 +241,12 @@ enum Loaded {
 
 impl Loaded {
     fn index(&self) -> &Index<&'static [u8]> {
+        match self {
+            Loaded::Bundled(i) | Loaded::File(i, _) => i,
+        }
+    }
+
+    fn index_mut(&mut self) -> &mut Index<&'static [u8]> {
         match self {
             Loaded::Bundled(i) | Loaded::File(i, _) => i,
         }
@@ -414,6 +456,12 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
     }
     let a = parse(argv).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"))?;
     let format = a.format.clone().unwrap_or_else(|| "text".into());
+    if a.notes.is_some() && a.command != "show" {
+        return Err(format!(
+            "--notes goes with show (the notes are for code cards), not with {}",
+            a.command
+        ));
+    }
     match a.command.as_str() {
         "check" => {
             let export = rollcall::export::FORMATS.contains(&format.as_str());
@@ -621,7 +669,7 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
                 ));
             }
             if a.billable || a.into.is_some() {
-                return Err("show takes codes, --on or --from/--to, --system, --index and --format".into());
+                return Err("show takes codes, --on or --from/--to, --system, --index, --notes and --format".into());
             }
             if a.files.is_empty() {
                 return Err("show needs one or more codes, e.g. rollcall show E11.6".into());
@@ -630,7 +678,8 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
             let opts = options(&a, default_day(&target)).map_err(|Usage(m)| m)?;
             let codes: Vec<&str> = a.files.iter().map(String::as_str).collect();
             let cards = match target {
-                Target::Index(l) => {
+                Target::Index(mut l) => {
+                    add_notes(l.index_mut(), a.notes.as_deref())?;
                     let i = l.index();
                     rollcall::card::cards(i, &companions(i)?, &codes, &opts)
                 }

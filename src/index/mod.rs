@@ -1,6 +1,9 @@
 //! Index files: a cheap, zero-copy [`Index::open`] over bytes, an explicit
 //! [`Index::verify`] of the checksum, and a [`View`] with the lookups the
 //! checker needs (code to ordinal through an `fst` map, side tables by ordinal).
+//! The tabular list's notes are a file of their own in the same container
+//! ([`NotesFile`]), added to the index it was written for with
+//! [`Index::add_notes`]: only the code card needs them.
 
 mod bytes;
 mod extra;
@@ -9,6 +12,7 @@ mod notes;
 pub mod write;
 
 pub use maps::MapView;
+pub use notes::NotesFile;
 
 use crate::date::Date;
 use crate::model::{
@@ -21,6 +25,8 @@ use std::fmt;
 
 /// First bytes of every index file.
 pub const MAGIC: &[u8; 8] = b"RCALLIX\x1a";
+/// First bytes of a notes file (same container, other contents).
+pub const NOTES_MAGIC: &[u8; 8] = b"RCALLNT\x1a";
 /// The index format this build reads and writes.
 pub const FORMAT_VERSION: u32 = 2;
 pub(crate) const HEADER_LEN: usize = 56;
@@ -32,6 +38,17 @@ pub(crate) const REC_BLOCK: usize = 64;
 pub enum IndexError {
     /// Not an index file at all.
     NotAnIndex,
+    /// A notes file where an index was expected.
+    NotesNotIndex,
+    /// Not a notes file (an index, or something else) where a notes file was expected.
+    NotNotes,
+    /// A notes file written for another index.
+    NotesOfAnotherIndex {
+        /// The vocabulary and release the notes file names.
+        notes: String,
+        /// The vocabulary and release of the index.
+        index: String,
+    },
     /// Written by another format version.
     Version {
         /// The version this build reads.
@@ -64,6 +81,21 @@ impl fmt::Display for IndexError {
                 f,
                 "this is not a rollcall index file (its first bytes are wrong); \
                  point to a file written by vocab-build"
+            ),
+            IndexError::NotesNotIndex => write!(
+                f,
+                "this is a notes file (the tabular list's notes of an index), not an index; \
+                 point to the index file itself"
+            ),
+            IndexError::NotNotes => write!(
+                f,
+                "this is not a rollcall notes file (its first bytes are wrong); \
+                 point to the notes file vocab-build wrote beside the index"
+            ),
+            IndexError::NotesOfAnotherIndex { notes, index } => write!(
+                f,
+                "the notes file was written for {notes}, not for this index ({index}); \
+                 use the notes file vocab-build wrote with this index"
             ),
             IndexError::Version { expected, got } => write!(
                 f,
@@ -138,8 +170,8 @@ pub struct Index<D> {
     maps: Option<(usize, usize)>,
     /// Where the optional sections of [`extra`] are.
     extras: Vec<([u8; 4], (usize, usize))>,
-    /// Where the tabular list's notes are, if the index has them.
-    notes: Option<(usize, usize)>,
+    /// The tabular list's notes, once a notes file is added.
+    notes: Option<NotesFile<D>>,
 }
 
 impl<D: AsRef<[u8]>> Index<D> {
@@ -147,46 +179,10 @@ impl<D: AsRef<[u8]>> Index<D> {
     /// tables. No copy of the large tables; the checksum is left to [`verify`](Self::verify).
     pub fn open(data: D) -> Result<Index<D>, IndexError> {
         let bytes = data.as_ref();
-        if bytes.len() < 12 || &bytes[..8] != MAGIC {
-            return Err(IndexError::NotAnIndex);
+        if bytes.starts_with(NOTES_MAGIC) {
+            return Err(IndexError::NotesNotIndex);
         }
-        let version = u32_at(bytes, 8).unwrap_or(0);
-        if version != FORMAT_VERSION {
-            return Err(IndexError::Version {
-                expected: FORMAT_VERSION,
-                got: version,
-            });
-        }
-        let mut r = In::new(bytes);
-        r.pos = 12;
-        let count = r.u32().ok_or(IndexError::Corrupt("header"))? as usize;
-        let total = r
-            .take(8)
-            .map(|b| u64::from_le_bytes(b.try_into().unwrap_or([0; 8])))
-            .ok_or(IndexError::Truncated {
-                expected: HEADER_LEN as u64,
-                got: bytes.len() as u64,
-            })?;
-        if (bytes.len() as u64) < total || bytes.len() < HEADER_LEN {
-            return Err(IndexError::Truncated {
-                expected: total.max(HEADER_LEN as u64),
-                got: bytes.len() as u64,
-            });
-        }
-        if bytes.len() as u64 != total {
-            return Err(IndexError::Corrupt("extra bytes after the end"));
-        }
-        r.pos = HEADER_LEN;
-        let mut find = std::collections::HashMap::new();
-        for _ in 0..count.min(64) {
-            let tag = r.take(4).ok_or(IndexError::Corrupt("directory"))?;
-            let off = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
-            let len = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
-            if off.checked_add(len).is_none_or(|end| end > bytes.len()) {
-                return Err(IndexError::Corrupt("a section lies outside the file"));
-            }
-            find.insert(tag.to_vec(), (off, len));
-        }
+        let find = container(bytes, MAGIC).ok_or(IndexError::NotAnIndex)??;
         let sec = |tag: &[u8; 4], what: &'static str| {
             find.get(&tag[..]).copied().ok_or(IndexError::Corrupt(what))
         };
@@ -232,9 +228,6 @@ impl<D: AsRef<[u8]>> Index<D> {
             .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
             .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
-        // The notes are read on first use (a damaged section reads as none),
-        // so opening stays a header check.
-        let notes = find.get(&b"NOTE"[..]).copied();
         // The code map states how many records there are: every size derived
         // from it is computed without overflow (a damaged map may claim any).
         let times = |n: usize, w: usize| n.checked_mul(w);
@@ -280,21 +273,28 @@ impl<D: AsRef<[u8]>> Index<D> {
             tree,
             maps,
             extras,
-            notes,
+            notes: None,
         })
+    }
+
+    /// Adds the notes file written for this index (the tabular list's
+    /// notes, for the code card). A notes file of another index, or of
+    /// another build of the same release, is refused: its notes name codes
+    /// by their place in the index they were written for.
+    pub fn add_notes(&mut self, notes: NotesFile<D>) -> Result<(), IndexError> {
+        notes.pairs_with(self)?;
+        self.notes = Some(notes);
+        Ok(())
+    }
+
+    /// Whether a notes file has been added.
+    pub fn has_notes(&self) -> bool {
+        self.notes.is_some()
     }
 
     /// Recomputes the content checksum and compares it with the header's.
     pub fn verify(&self) -> Result<(), IndexError> {
-        let bytes = self.data.as_ref();
-        let got = sha256::digest(&bytes[HEADER_LEN..]);
-        if got[..] != bytes[24..56] {
-            return Err(IndexError::ChecksumMismatch {
-                expected: sha256::hex(&bytes[24..56]),
-                got: sha256::hex(&got),
-            });
-        }
-        Ok(())
+        verify_sum(self.data.as_ref())
     }
 
     /// The content checksum stated in the header, lower-case hex.
@@ -344,7 +344,7 @@ impl<D: AsRef<[u8]>> Index<D> {
             predecessors: std::cell::OnceCell::new(),
             known: Default::default(),
             extra: extra::read(|t| slice_of(b, &self.extras, t), l.len, false).unwrap_or_default(),
-            notes_at: self.notes.map(s),
+            notes_at: self.notes.as_ref().map(NotesFile::section),
             notes: std::cell::OnceCell::new(),
         }
     }
@@ -405,8 +405,8 @@ impl<D: AsRef<[u8]>> Index<D> {
             .into_iter()
             .map(|(tag, at, kind, text)| Note {
                 owner: match tag {
-                    notes::Notes::CODE => NoteOwner::Code(v.code(at)),
-                    notes::Notes::CHAPTER => NoteOwner::Chapter(at as u16),
+                    notes::NoteTable::CODE => NoteOwner::Code(v.code(at)),
+                    notes::NoteTable::CHAPTER => NoteOwner::Chapter(at as u16),
                     _ => NoteOwner::Section(at as u16),
                 },
                 kind,
@@ -415,6 +415,75 @@ impl<D: AsRef<[u8]>> Index<D> {
             .collect(),
         }
     }
+}
+
+/// The sections of a file of the container format (see [`write`]): checks
+/// the magic (`None` when it is not `magic`), the version and the length,
+/// and reads the directory (tag to offset and length).
+#[allow(clippy::type_complexity)]
+fn container(
+    bytes: &[u8],
+    magic: &[u8; 8],
+) -> Option<Result<std::collections::HashMap<Vec<u8>, Range>, IndexError>> {
+    if bytes.len() < 12 || &bytes[..8] != magic {
+        return None;
+    }
+    Some(directory(bytes))
+}
+
+fn directory(bytes: &[u8]) -> Result<std::collections::HashMap<Vec<u8>, Range>, IndexError> {
+    let version = u32_at(bytes, 8).unwrap_or(0);
+    if version != FORMAT_VERSION {
+        return Err(IndexError::Version {
+            expected: FORMAT_VERSION,
+            got: version,
+        });
+    }
+    let mut r = In::new(bytes);
+    r.pos = 12;
+    let count = r.u32().ok_or(IndexError::Corrupt("header"))? as usize;
+    let total = r
+        .take(8)
+        .map(|b| u64::from_le_bytes(b.try_into().unwrap_or([0; 8])))
+        .ok_or(IndexError::Truncated {
+            expected: HEADER_LEN as u64,
+            got: bytes.len() as u64,
+        })?;
+    if (bytes.len() as u64) < total || bytes.len() < HEADER_LEN {
+        return Err(IndexError::Truncated {
+            expected: total.max(HEADER_LEN as u64),
+            got: bytes.len() as u64,
+        });
+    }
+    if bytes.len() as u64 != total {
+        return Err(IndexError::Corrupt("extra bytes after the end"));
+    }
+    r.pos = HEADER_LEN;
+    let mut find = std::collections::HashMap::new();
+    for _ in 0..count.min(64) {
+        let tag = r.take(4).ok_or(IndexError::Corrupt("directory"))?;
+        let off = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
+        let len = r.u32().ok_or(IndexError::Corrupt("directory"))? as usize;
+        if off.checked_add(len).is_none_or(|end| end > bytes.len()) {
+            return Err(IndexError::Corrupt("a section lies outside the file"));
+        }
+        find.insert(tag.to_vec(), (off, len));
+    }
+    Ok(find)
+}
+
+/// Recomputes the content checksum of a container file and compares it
+/// with the header's.
+fn verify_sum(bytes: &[u8]) -> Result<(), IndexError> {
+    let got = sha256::digest(bytes.get(HEADER_LEN..).unwrap_or_default());
+    let stated = bytes.get(24..HEADER_LEN).unwrap_or_default();
+    if got[..] != *stated {
+        return Err(IndexError::ChecksumMismatch {
+            expected: sha256::hex(stated),
+            got: sha256::hex(&got),
+        });
+    }
+    Ok(())
 }
 
 /// The bytes of an optional section, if the directory has it.
@@ -602,9 +671,10 @@ pub struct View<'a> {
     known: std::cell::RefCell<std::collections::HashMap<u32, Box<str>>>,
     /// The optional sections (stated hierarchy, statuses, alternate ids).
     extra: extra::Extra<'a>,
-    /// The `NOTE` section's bytes, read into [`notes`](Self::notes) on first use.
+    /// The `NOTE` section's bytes (of the added notes file), read into
+    /// [`notes`](Self::notes) on first use.
     notes_at: Option<&'a [u8]>,
-    notes: std::cell::OnceCell<notes::Notes>,
+    notes: std::cell::OnceCell<notes::NoteTable>,
 }
 
 impl<'a> View<'a> {
@@ -1073,15 +1143,16 @@ impl<'a> View<'a> {
         }
     }
 
-    fn notes_table(&self) -> (&notes::Notes, &'a [u8]) {
+    fn notes_table(&self) -> (&notes::NoteTable, &'a [u8]) {
         let data = self.notes_at.unwrap_or_default();
         let table = self
             .notes
-            .get_or_init(|| notes::Notes::read(data).unwrap_or_default());
+            .get_or_init(|| notes::NoteTable::read(data).unwrap_or_default());
         (table, data)
     }
 
-    /// Whether the index carries the tabular list's notes.
+    /// Whether the tabular list's notes are at hand (a notes file was
+    /// added to the index, see [`Index::add_notes`]).
     pub fn has_notes(&self) -> bool {
         self.notes_at.is_some()
     }

@@ -1,8 +1,12 @@
-//! The optional `NOTE` section: the tabular list's instructional notes
-//! (ICD-10-CM), written only when a release has notes, so the other indexes
-//! keep their bytes.
+//! The notes file: the tabular list's instructional notes (ICD-10-CM) in a
+//! file of their own, since only the code card needs them and most uses of
+//! the index never open one. Same container as an index (header with its
+//! own magic [`NOTES_MAGIC`], format version, length and SHA-256, then a
+//! directory) with two sections: `PAIR`, the index the notes belong to (its
+//! vocabulary, release and content SHA-256: notes name codes by ordinal, so
+//! they pair with that one build only), and `NOTE`, the notes.
 //!
-//! The text is coded by words: notes repeat a small vocabulary ("diabetes",
+//! In `NOTE` the text is coded by words: notes repeat a small vocabulary ("diabetes",
 //! "(E08.-)", "due to"), so each distinct space-separated token is stored
 //! once, in byte order and front-coded (the bytes shared with the token
 //! before, then the rest), and each note is a list of token numbers. On the
@@ -17,8 +21,120 @@
 //! (varints).
 
 use super::bytes::{In, Out};
+use super::{container, verify_sum, Index, IndexError, HEADER_LEN, NOTES_MAGIC};
 use crate::model::{Note, NoteKind, NoteOwner};
+use crate::sha256;
 use std::collections::HashMap;
+
+/// An opened notes file over bytes the caller owns. [`open`](Self::open)
+/// checks the header and the `PAIR` section; [`verify`](Self::verify) the
+/// checksum; the notes are read when the card first asks for them.
+pub struct NotesFile<D> {
+    data: D,
+    vocabulary: String,
+    release: String,
+    index_sha256: [u8; 32],
+    note: (usize, usize),
+}
+
+impl<D: AsRef<[u8]>> NotesFile<D> {
+    /// Checks the header, directory and `PAIR` section (no copy).
+    pub fn open(data: D) -> Result<NotesFile<D>, IndexError> {
+        let bytes = data.as_ref();
+        let find = container(bytes, NOTES_MAGIC).ok_or(IndexError::NotNotes)??;
+        let sec = |tag: &[u8; 4], what: &'static str| {
+            find.get(&tag[..]).copied().ok_or(IndexError::Corrupt(what))
+        };
+        let (o, n) = sec(b"PAIR", "the index it belongs to is not named")?;
+        let mut r = In::new(&bytes[o..o + n]);
+        let (vocabulary, release, sum) = (|| {
+            Some((
+                r.str()?.to_string(),
+                r.str()?.to_string(),
+                <[u8; 32]>::try_from(r.take(32)?).ok()?,
+            ))
+        })()
+        .ok_or(IndexError::Corrupt("the index it belongs to"))?;
+        let note = sec(b"NOTE", "notes missing")?;
+        Ok(NotesFile {
+            data,
+            vocabulary,
+            release,
+            index_sha256: sum,
+            note,
+        })
+    }
+
+    /// Recomputes the content checksum and compares it with the header's.
+    pub fn verify(&self) -> Result<(), IndexError> {
+        verify_sum(self.data.as_ref())
+    }
+
+    /// The content checksum stated in the header, lower-case hex.
+    pub fn checksum(&self) -> String {
+        sha256::hex(&self.data.as_ref()[24..HEADER_LEN])
+    }
+
+    /// The vocabulary of the index the notes belong to.
+    pub fn vocabulary(&self) -> &str {
+        &self.vocabulary
+    }
+
+    /// The release of the index the notes belong to.
+    pub fn release(&self) -> &str {
+        &self.release
+    }
+
+    /// The content SHA-256 of the index the notes belong to, lower-case hex.
+    pub fn index_checksum(&self) -> String {
+        sha256::hex(&self.index_sha256)
+    }
+
+    /// The raw bytes.
+    pub fn bytes(&self) -> &[u8] {
+        self.data.as_ref()
+    }
+
+    /// Whether these are the notes of `index` (the same build: its content
+    /// SHA-256); the error names both releases.
+    pub fn pairs_with<E: AsRef<[u8]>>(&self, index: &Index<E>) -> Result<(), IndexError> {
+        if index.checksum() == self.index_checksum() {
+            return Ok(());
+        }
+        let m = index.meta();
+        let short = |h: String| h[..12.min(h.len())].to_string();
+        Err(IndexError::NotesOfAnotherIndex {
+            notes: format!(
+                "{} release {} (index SHA-256 {}…)",
+                self.vocabulary,
+                self.release,
+                short(self.index_checksum())
+            ),
+            index: format!(
+                "{} release {}, SHA-256 {}…",
+                m.vocabulary,
+                m.release,
+                short(index.checksum())
+            ),
+        })
+    }
+
+    /// The `NOTE` section's bytes.
+    pub(super) fn section(&self) -> &[u8] {
+        let (o, n) = self.note;
+        &self.data.as_ref()[o..o + n]
+    }
+}
+
+/// The `PAIR` section: the vocabulary, release and content SHA-256 of the
+/// index the notes belong to.
+pub fn pair(vocabulary: &str, release: &str, index_sha256: &[u8]) -> Vec<u8> {
+    let mut out = Out::default();
+    out.str(vocabulary);
+    out.str(release);
+    out.buf.extend_from_slice(index_sha256);
+    out.buf
+}
 
 const CHAPTER: u8 = 0;
 const SECTION: u8 = 1;
@@ -109,15 +225,15 @@ pub fn write(notes: &[Note], ordinal: &HashMap<&str, u32>) -> Result<Vec<u8>, St
 /// passed to each lookup): the tokens, each note's kind and where its
 /// text starts, and each owner's first note and note count.
 #[derive(Default)]
-pub struct Notes {
+pub struct NoteTable {
     tokens: Vec<String>,
     notes: Vec<(NoteKind, usize)>,
     at: HashMap<(u8, u32), (usize, usize)>,
 }
 
-impl Notes {
+impl NoteTable {
     /// Reads the section's tables (`None`: damaged).
-    pub fn read(data: &[u8]) -> Option<Notes> {
+    pub fn read(data: &[u8]) -> Option<NoteTable> {
         let mut r = In::new(data);
         let n = r.varint()? as usize;
         let mut tokens = Vec::with_capacity(n.min(data.len()));
@@ -154,7 +270,7 @@ impl Notes {
                 }
             }
         }
-        Some(Notes { tokens, notes, at })
+        Some(NoteTable { tokens, notes, at })
     }
 
     fn of(&self, data: &[u8], tag: u8, owner: u32) -> Vec<(NoteKind, String)> {
@@ -245,7 +361,7 @@ mod tests {
         ];
         let ordinal: HashMap<&str, u32> = [("E11", 7)].into_iter().collect();
         let bytes = write(&notes, &ordinal).unwrap();
-        let n = Notes::read(&bytes).unwrap();
+        let n = NoteTable::read(&bytes).unwrap();
         assert_eq!(
             n.of_code(&bytes, 7),
             vec![

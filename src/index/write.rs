@@ -4,9 +4,10 @@
 //! a 56-byte header (magic, format version, section count, total length,
 //! SHA-256 of everything after the header), a directory of
 //! `(tag, offset, length)` triples, then the sections, each 4-byte aligned.
+//! A notes file ([`notes`]) is the same container with its own magic.
 
 use super::bytes::Out;
-use super::{FORMAT_VERSION, HEADER_LEN, MAGIC, REC_BLOCK};
+use super::{FORMAT_VERSION, HEADER_LEN, MAGIC, NOTES_MAGIC, REC_BLOCK};
 use crate::model::Release;
 use crate::sha256;
 use std::collections::HashMap;
@@ -37,6 +38,8 @@ pub enum WriteError {
     /// A parent, alternate id or code to consider names no code, or the
     /// parent links form a cycle.
     Links(String),
+    /// The notes were to name as their index bytes that are no index.
+    NotAnIndex,
 }
 
 impl std::fmt::Display for WriteError {
@@ -57,6 +60,10 @@ impl std::fmt::Display for WriteError {
             WriteError::Fst(e) => write!(f, "building the code map failed: {e}"),
             WriteError::TooLarge(e) => write!(f, "the release does not fit the index format ({e})"),
             WriteError::Links(e) => write!(f, "{e}"),
+            WriteError::NotAnIndex => write!(
+                f,
+                "a notes file names the index it belongs to: give the bytes of that index"
+            ),
         }
     }
 }
@@ -66,7 +73,8 @@ impl std::error::Error for WriteError {}
 /// Descriptions are front-coded in blocks of this many records.
 pub const DESC_BLOCK: usize = 16;
 
-/// Serialises a release into index bytes.
+/// Serialises a release into index bytes (its notes go to a file of their
+/// own: see [`notes`]).
 pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
     let codes = &release.codes;
     for pair in codes.windows(2) {
@@ -287,13 +295,33 @@ pub fn write(release: &Release) -> Result<Vec<u8>, WriteError> {
         ));
     }
     sections.extend(super::extra::write(release, &ordinal).map_err(WriteError::Links)?);
-    // NOTE: the tabular list's notes, only when the release has some.
-    let notes = super::notes::write(&release.notes, &ordinal).map_err(WriteError::Links)?;
-    if !notes.is_empty() {
-        sections.push((*b"NOTE", notes));
-    }
 
-    Ok(assemble(&sections))
+    Ok(assemble(MAGIC, &sections))
+}
+
+/// The notes file of a release (`None` when it has no notes), naming the
+/// index `index` (the bytes [`write`] gave for the same release) as the
+/// one it belongs to: its `PAIR` section, then `NOTE`.
+pub fn notes(release: &Release, index: &[u8]) -> Result<Option<Vec<u8>>, WriteError> {
+    if release.notes.is_empty() {
+        return Ok(None);
+    }
+    let ordinal: HashMap<&str, u32> = release
+        .codes
+        .iter()
+        .enumerate()
+        .map(|(i, c)| (c.code.as_str(), i as u32))
+        .collect();
+    let sum = index
+        .get(24..HEADER_LEN)
+        .filter(|_| index.starts_with(MAGIC))
+        .ok_or(WriteError::NotAnIndex)?;
+    let pair = super::notes::pair(&release.meta.vocabulary, &release.meta.release, sum);
+    let note = super::notes::write(&release.notes, &ordinal).map_err(WriteError::Links)?;
+    Ok(Some(assemble(
+        NOTES_MAGIC,
+        &[(*b"PAIR", pair), (*b"NOTE", note)],
+    )))
 }
 
 /// The `WFST`, `POST` and `WLEN` sections, in that order.
@@ -339,7 +367,7 @@ fn word_map(release: &Release) -> Result<WordMap, WriteError> {
     Ok((wfst, post.buf, wlen))
 }
 
-fn assemble(sections: &[([u8; 4], Vec<u8>)]) -> Vec<u8> {
+fn assemble(magic: &[u8; 8], sections: &[([u8; 4], Vec<u8>)]) -> Vec<u8> {
     let dir_len = sections.len() * 12;
     let mut offset = HEADER_LEN + dir_len;
     let mut dir = Out::default();
@@ -355,7 +383,7 @@ fn assemble(sections: &[([u8; 4], Vec<u8>)]) -> Vec<u8> {
         offset += data.len();
     }
     let mut out = Vec::with_capacity(offset);
-    out.extend_from_slice(MAGIC);
+    out.extend_from_slice(magic);
     out.extend_from_slice(&FORMAT_VERSION.to_le_bytes());
     out.extend_from_slice(&(sections.len() as u32).to_le_bytes());
     out.extend_from_slice(&(offset as u64).to_le_bytes());

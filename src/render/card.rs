@@ -164,8 +164,20 @@ fn card_text(s: &mut String, c: &Card) {
             );
         }
     }
-    if !c.notes.is_empty() || c.seventh_character.is_some() {
-        let _ = writeln!(s, "  notes of the tabular list:");
+    // A code's card says so when the notes file was not given, rather than
+    // showing no notes.
+    let unloaded =
+        c.notes_status == "not-loaded" && c.problem.is_none() && c.status != "code-start";
+    if !c.notes.is_empty() || c.seventh_character.is_some() || unloaded {
+        let _ = writeln!(
+            s,
+            "  notes of the tabular list:{}",
+            if unloaded {
+                " not loaded (they are in a notes file of their own, which was not given)"
+            } else {
+                ""
+            }
+        );
         for n in &c.notes {
             let from = if n.level == "code" && n.at == c.code {
                 String::new()

@@ -91,6 +91,26 @@ impl System {
         )
     }
 
+    /// The file of the bundled notes of the system (the tabular list's
+    /// notes, kept apart from the index: only the code card needs them),
+    /// if it has one. It sits beside the index, and the page lists it in
+    /// [`notes_manifest`](Self::notes_manifest).
+    pub fn notes_file(self) -> Option<&'static str> {
+        match self {
+            System::Icd10cm => Some("icd10cm-notes.rcx"),
+            _ => None,
+        }
+    }
+
+    /// The name of the manifest beside the page that lists the notes file
+    /// (its release, size and SHA-256), if the system has one.
+    pub fn notes_manifest(self) -> Option<&'static str> {
+        match self {
+            System::Icd10cm => Some("manifest-icd10cm-notes.json"),
+            _ => None,
+        }
+    }
+
     /// Whether the vocabulary has had its last release, so that the end of
     /// an index's coverage is the end of its codes: ICD-9-CM, frozen after
     /// FY2015 and replaced in the US by ICD-10-CM and ICD-10-PCS from

@@ -1,7 +1,7 @@
 //! Shared fixtures: the bundled index and the official source files.
 #![allow(dead_code)]
 
-use rollcall::{CheckOptions, Date, Index};
+use rollcall::{CheckOptions, Date, Index, NotesFile};
 use std::io::Read;
 use std::path::PathBuf;
 
@@ -15,6 +15,24 @@ pub fn index() -> Index<Vec<u8>> {
         .expect("vocab/icd10cm.rcx (run vocab-build)");
     let index = Index::open(bytes).expect("bundled index opens");
     index.verify().expect("bundled index checksum");
+    index
+}
+
+/// The bundled notes file of the ICD-10-CM index (the April 2026 tabular
+/// list's notes), as committed in vocab/.
+pub fn notes_bytes() -> Vec<u8> {
+    std::fs::read(root().join("vocab/icd10cm-notes.rcx"))
+        .expect("vocab/icd10cm-notes.rcx (run vocab-build)")
+}
+
+/// The bundled index with its notes file added.
+pub fn index_with_notes() -> Index<Vec<u8>> {
+    let mut index = index();
+    let notes = NotesFile::open(notes_bytes()).expect("bundled notes open");
+    notes.verify().expect("bundled notes checksum");
+    index
+        .add_notes(notes)
+        .expect("the bundled notes pair with the bundled index");
     index
 }
 

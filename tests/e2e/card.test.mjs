@@ -159,3 +159,52 @@ test("a search result opens its card, with the GEMs of the ICD-9-CM index", asyn
   assert.deepEqual(page.errors, []);
   await page.close();
 });
+
+// Source: the CDC tabular XML 2026-04-01 (vocab-build/sources): E11's own
+// notes include "diabetes NOS" (Includes) and an Excludes1 naming E08.-.
+test("the notes file is fetched the first time a card is opened; until then the card says the notes are loading", async () => {
+  const page = await context.newPage();
+  page.errors = [];
+  page.on("pageerror", (e) => page.errors.push(e.message));
+  const fetched = [];
+  // The worker's requests, too (they are the context's).
+  const seen = (r) => fetched.push(new URL(r.url()).pathname);
+  context.on("request", seen);
+  // Hold the notes file back a little, so the loading line can be seen.
+  let release;
+  const held = new Promise((r) => (release = r));
+  await page.route("**/icd10cm-notes.rcx", async (route) => {
+    await held;
+    await route.continue();
+  });
+  await page.goto(`${origin}/`);
+  await page.waitForFunction(() => document.body.dataset.state === "ready", null, { timeout: 30_000 });
+  await page.fill("#opt-on", "2026-06-01");
+  await afterCheck(page, () => page.fill("#list", "E11\n"));
+  const notesAsked = () => fetched.filter((p) => /icd10cm-notes/.test(p));
+  assert.deepEqual(notesAsked(), [], "no notes fetched before a card is opened");
+  await page.click('#findings tbody tr[data-line="1"] td.input code');
+  await cardOf(page, "E11");
+  // The other facts are there, and a line says the notes are loading.
+  assert.match(await page.textContent("#card-panel .card-notes-state"), /notes of the tabular list are loading/);
+  assert.ok(await page.$("#card-panel .card-children input[value='E11.9']"));
+  // A box ticked while the notes load stays ticked when they arrive.
+  await page.check("#card-panel input[value='E11.9']");
+  release();
+  await page.waitForFunction(() => document.getElementById("card-panel").dataset.notes === "loaded", null, { timeout: 30_000 });
+  assert.equal(await page.$("#card-panel .card-notes-state"), null);
+  assert.equal(await page.isChecked("#card-panel input[value='E11.9']"), true);
+  const want = cliCard("E11", "2026-06-01").notes.map((n) => n.text);
+  const got = await page.$$eval("#card-panel .card-notes li .card-note-text", (l) => l.map((x) => x.textContent));
+  assert.deepEqual(got, want);
+  assert.ok(got.includes("diabetes NOS"), got.join("|"));
+  assert.deepEqual(notesAsked(), ["/manifest-icd10cm-notes.json", "/icd10cm-notes.rcx"]);
+  // Another card uses the notes already loaded.
+  await page.click('#card-panel .card-notes .card-link[data-code="E08"]');
+  await cardOf(page, "E08");
+  assert.equal(await page.evaluate(() => document.getElementById("card-panel").dataset.notes), "loaded");
+  assert.equal(notesAsked().length, 2);
+  assert.deepEqual(page.errors, []);
+  context.off("request", seen);
+  await page.close();
+});

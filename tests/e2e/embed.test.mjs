@@ -435,6 +435,9 @@ test("the single-file page works from file:// with every network request blocked
     { errors: expected.summary.errors, warnings: expected.summary.warnings, infos: expected.summary.infos },
   );
   await page.waitForSelector("#strips .strip-row");
+  // A code card gets the notes embedded in the file (no fetch).
+  await page.click("#findings tbody tr[data-line] td.input code");
+  await page.waitForFunction(() => document.getElementById("card-panel").dataset.notes === "loaded", null, { timeout: 30_000 });
   const foreign = seen.filter((u) => !(u.startsWith("file://") || u.startsWith("blob:") || u.startsWith("data:")));
   assert.deepEqual(foreign, [], "requests beyond the file");
   assert.deepEqual(await page.evaluate(() => window.__csp), [], "CSP violations");

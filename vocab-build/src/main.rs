@@ -33,7 +33,8 @@ vocab-build: write a rollcall index from official release files
 
 usage:
   vocab-build                      build the bundled indexes (vocab-build/sources ->
-                                   vocab/icd10cm.rcx, icd10pcs.rcx, icd9cm.rcx, hpo.rcx)
+                                   vocab/icd10cm.rcx, icd10pcs.rcx, icd9cm.rcx, hpo.rcx,
+                                   and icd10cm-notes.rcx, the tabular notes)
   vocab-build [--vocabulary icd10cm|icd10pcs|icd9cm] [FILES...] --out PATH
   vocab-build --hpo FILE.obo --out PATH
   vocab-build --loinc Loinc.csv [--loinc-map-to MapTo.csv] --release-date DAY [--release TAG] --out PATH
@@ -65,6 +66,8 @@ imports of releases a site is licensed for (each builds an index of its own):
   --id ID, --title TITLE       vocabulary id and name of a --table import
 
 Without --history, billable dates come from the order and code files' periods.
+The notes of the newest --tabular go to a notes file beside the index (PATH's name
+with -notes: icd10cm-notes.rcx for icd10cm.rcx), which pairs with that index only.
 --vocabulary icd10pcs builds an ICD-10-PCS index: no dots, and the hierarchy by
 position (every prefix of a code is a node above it); the default is icd10cm.
 ";
@@ -565,17 +568,40 @@ fn build_import(a: &Arg, o: &Import, dest: &Path) -> Result<(), String> {
     write_release(&release, dest, started)
 }
 
-/// Writes the index file and says what it holds.
+/// The notes file written beside an index: `NAME-notes.rcx` for
+/// `NAME.rcx` (so `vocab/icd10cm-notes.rcx`, the bundled one's name in
+/// `System::notes_file`).
+fn notes_path(index: &Path) -> PathBuf {
+    let stem = index
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    index.with_file_name(format!("{stem}-notes.rcx"))
+}
+
+/// Writes the index file, and the notes file beside it when the release
+/// has notes, and says what they hold.
 fn write_release(
     release: &rollcall::Release,
     dest: &Path,
     started: std::time::Instant,
 ) -> Result<(), String> {
     let bytes = rollcall::index::write::write(release).map_err(|x| x.to_string())?;
+    let notes = rollcall::index::write::notes(release, &bytes).map_err(|x| x.to_string())?;
     if let Some(dir) = dest.parent() {
         std::fs::create_dir_all(dir).map_err(|x| format!("{}: {x}", dir.display()))?;
     }
     std::fs::write(dest, &bytes).map_err(|x| format!("{}: {x}", dest.display()))?;
+    if let Some(notes) = notes {
+        let at = notes_path(dest);
+        std::fs::write(&at, &notes).map_err(|x| format!("{}: {x}", at.display()))?;
+        eprintln!(
+            "wrote {} ({} bytes, {} tabular notes, for the index below)",
+            at.display(),
+            notes.len(),
+            release.notes.len()
+        );
+    }
     eprintln!(
         "wrote {} ({} bytes, {} entries, release {}, coverage {} to {}) in {:.1} s",
         dest.display(),

@@ -56,10 +56,27 @@ fn rebuilding_the_bundled_index_gives_the_committed_bytes() {
     let built = std::fs::read(&out).unwrap();
     let committed = std::fs::read(root.join("vocab/icd10cm.rcx")).unwrap();
     let _ = std::fs::remove_file(&out);
+    // The tabular notes are written beside the index, NAME-notes.rcx.
+    let notes_out =
+        out.with_file_name(format!("rollcall-rebuild-{}-notes.rcx", std::process::id()));
+    let built_notes = std::fs::read(&notes_out).unwrap();
+    let committed_notes = std::fs::read(root.join("vocab/icd10cm-notes.rcx")).unwrap();
+    let _ = std::fs::remove_file(&notes_out);
     assert!(
         built == committed,
         "vocab/icd10cm.rcx is out of date: run `cargo run --release -p vocab-build`"
     );
+    assert!(
+        built_notes == committed_notes,
+        "vocab/icd10cm-notes.rcx is out of date: run `cargo run --release -p vocab-build`"
+    );
+    // The notes name the index they were written with, and pair with it.
+    let mut index = rollcall::Index::open(committed).unwrap();
+    let notes = rollcall::NotesFile::open(committed_notes).unwrap();
+    notes.verify().unwrap();
+    assert_eq!(notes.release(), index.meta().release);
+    assert_eq!(notes.index_checksum(), index.checksum());
+    assert!(index.add_notes(notes).is_ok());
 }
 
 #[test]

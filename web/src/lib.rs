@@ -227,6 +227,10 @@ export interface Card {
   children: CardChild[];
   siblings: CardChild[];
   notes: CardNote[];
+  /** "loaded"; "not-loaded": the notes file is not added yet (see
+   * Checker.addNotes), so `notes` is empty for that reason alone; "none":
+   * no notes are kept for this vocabulary. */
+  notes_status: "loaded" | "not-loaded" | "none";
   seventh_character?: { at: string; extensions: [string, string][] };
   successors: { code: string; description: string; effective: string | null }[];
   predecessors: { code: string; description: string; effective: string | null }[];
@@ -345,6 +349,36 @@ pub fn describe_index<D: AsRef<[u8]>>(
         notice: meta.notice.clone(),
         byte_length,
         sha256,
+    }
+}
+
+/// What a notes file says about itself (the index it belongs to), plus
+/// its size and content SHA-256: the manifest the page fetches it by.
+#[derive(Serialize, Deserialize, Debug, Clone, PartialEq, Eq)]
+pub struct NotesInfo {
+    /// Always `notes`.
+    pub kind: String,
+    pub vocabulary: String,
+    pub release: String,
+    /// Content SHA-256 of the index the notes belong to.
+    pub index_sha256: String,
+    pub byte_length: u64,
+    /// SHA-256 of the notes file's content (everything after the header).
+    pub sha256: String,
+}
+
+/// Describe an opened notes file of the given size.
+pub fn describe_notes<D: AsRef<[u8]>>(
+    notes: &rollcall::NotesFile<D>,
+    byte_length: u64,
+) -> NotesInfo {
+    NotesInfo {
+        kind: "notes".into(),
+        vocabulary: notes.vocabulary().to_string(),
+        release: notes.release().to_string(),
+        index_sha256: notes.index_checksum(),
+        byte_length,
+        sha256: notes.checksum(),
     }
 }
 
@@ -920,6 +954,34 @@ impl Checker {
             .chain(self.companions.iter())
             .map(|i| i.meta().vocabulary.clone())
             .collect()
+    }
+
+    /// The manifest beside the page that lists this index's notes file (the
+    /// tabular list's notes, for cards), or `undefined` when its system has
+    /// none. The name is the core's (`System::notes_manifest`).
+    #[wasm_bindgen(js_name = notesManifest)]
+    pub fn notes_manifest(&self) -> Option<String> {
+        rollcall::systems::System::parse(&self.index.meta().vocabulary)
+            .and_then(|s| s.notes_manifest())
+            .map(str::to_string)
+    }
+
+    /// Add the notes file of this index (the tabular list's notes, fetched
+    /// the first time a card is opened): verified like an index, and refused
+    /// unless it was written for this very index. Returns the release it
+    /// names.
+    #[wasm_bindgen(js_name = addNotes)]
+    pub fn add_notes(&mut self, bytes: Vec<u8>) -> Result<String, JsValue> {
+        let notes =
+            rollcall::NotesFile::open(bytes).map_err(|e| fail("cannot open the notes", e))?;
+        notes
+            .verify()
+            .map_err(|e| fail("the notes file is damaged", e))?;
+        let release = notes.release().to_string();
+        self.index
+            .add_notes(notes)
+            .map_err(|e| fail("cannot use the notes", e))?;
+        Ok(release)
     }
 
     /// Add the index of another system (verified like the main one), so that

@@ -134,7 +134,12 @@ async function loadIndex() {
   let opened;
   try {
     if (embedded) {
-      opened = await open(await embedded.index(), { manifest: embedded.manifest, worker: embedded.worker(), wasm: await embedded.wasm() });
+      opened = await open(await embedded.index(), {
+        manifest: embedded.manifest,
+        worker: embedded.worker(),
+        wasm: await embedded.wasm(),
+        notes: embedded.notes,
+      });
     } else {
       // The manifest is read first: it names the index file.
       const manifest = await readManifest("index-manifest.json");
@@ -914,6 +919,7 @@ async function main() {
   renderGlossary($("glossary-list"));
   initCard({
     ask,
+    loadNotes: () => (checker ? checker.loadNotes() : Promise.reject(new Error("the index is not loaded"))),
     options: () => checkerOptions(readOptions()),
     coverage: () => ({ from: state.info.coverage_from, to: state.info.coverage_to }),
     addCodes,

@@ -5,8 +5,12 @@
 // open their own cards), successors and mappings. Keys: ArrowUp the parent,
 // ArrowDown the first child, ArrowLeft/ArrowRight the siblings, Escape closes.
 //
-// The page hands in: `ask(type, payload)` (a worker request), `options()`
-// (the check's day or period), `coverage()` ({from, to} of the index),
+// The notes live in a file of their own, loaded the first time a card is
+// opened: until then the card shows its other facts and says the notes are
+// loading, then its notes section is drawn again with them.
+//
+// The page hands in: `ask(type, payload)` (a worker request), `loadNotes()`
+// (the Checker's), `options()` (the check's day or period), `coverage()` ({from, to} of the index),
 // `addCodes([{code, label}])` and `replaceLine(line, code)` (list edits that
 // re-check the list). Built from DOM nodes only: descriptions are data.
 
@@ -81,7 +85,7 @@ function noteText(text, codes, open) {
   return span;
 }
 
-export function initCard({ ask, options, coverage, addCodes, replaceLine }) {
+export function initCard({ ask, loadNotes, options, coverage, addCodes, replaceLine }) {
   ensureDefs();
   const panel = el("aside", "card-panel");
   panel.id = "card-panel";
@@ -103,11 +107,35 @@ export function initCard({ ask, options, coverage, addCodes, replaceLine }) {
       render(card, line);
       panel.dataset.state = "ready";
       panel.dataset.code = card.code;
+      panel.dataset.notes = card.notes_status;
       panel.focus();
+      if (card.notes_status === "not-loaded") withNotes(mine, code, line);
     } catch (e) {
       if (mine !== asked) return;
       panel.replaceChildren(el("p", "card-error", `Could not open the card of ${code}: ${e.message.replace(/^Error: /, "")}`));
       panel.dataset.state = "error";
+    }
+  }
+
+  /** Load the notes file, then draw the card again with its notes. */
+  async function withNotes(mine, code, line) {
+    try {
+      if (!(await loadNotes())) return;
+      if (mine !== asked) return;
+      const card = await ask("card", { code, options: options() });
+      if (mine !== asked) return;
+      // Only the notes section is drawn again: the boxes ticked meanwhile stay.
+      current = { card, line };
+      const old = panel.querySelector(".card-notes-section");
+      const fresh = notesSection(card);
+      if (old && fresh) old.replaceWith(fresh);
+      else if (old) old.remove();
+      panel.dataset.notes = card.notes_status;
+    } catch (e) {
+      if (mine !== asked) return;
+      const p = panel.querySelector(".card-notes-state");
+      if (p) p.textContent = `The notes of the tabular list could not be loaded: ${e.message.replace(/^Error: /, "")}`;
+      panel.dataset.notes = "error";
     }
   }
 
@@ -120,6 +148,28 @@ export function initCard({ ask, options, coverage, addCodes, replaceLine }) {
     const s = el("section", "card-section");
     s.append(el("h3", null, title), ...children);
     return s;
+  }
+
+  /** The notes section of a card (null when it has none to show). A code's
+   * card says when the notes are still to come, rather than showing none. */
+  function notesSection(card) {
+    const unloaded = card.notes_status === "not-loaded" && !card.problem && card.status !== "code-start";
+    if (!(card.notes.length || card.seventh_character || unloaded)) return null;
+    const ul = el("ul", "card-list card-notes");
+    for (const n of card.notes) {
+      const li = el("li", `note-${n.kind}`);
+      li.append(el("strong", null, `${NOTE_WORDS[n.kind] || n.kind}: `), noteText(n.text, n.codes, open));
+      if (!(n.level === "code" && n.at === card.code)) li.append(el("span", "card-at", ` (at ${n.level} ${n.at})`));
+      ul.append(li);
+    }
+    if (card.seventh_character) {
+      const r = card.seventh_character;
+      ul.append(el("li", "note-seventh", `7th character (at ${r.at}): ${r.extensions.map(([c, m]) => `${c} ${m}`).join("; ")}`));
+    }
+    const notes = section("Notes of the tabular list", ul);
+    notes.classList.add("card-notes-section");
+    if (unloaded) notes.insertBefore(el("p", "card-notes-state hint", "The notes of the tabular list are loading…"), ul);
+    return notes;
   }
 
   function render(card, line) {
@@ -226,20 +276,8 @@ export function initCard({ ask, options, coverage, addCodes, replaceLine }) {
       out.push(section(`Siblings (${card.siblings.length})`, ul));
     }
 
-    if (card.notes.length || card.seventh_character) {
-      const ul = el("ul", "card-list card-notes");
-      for (const n of card.notes) {
-        const li = el("li", `note-${n.kind}`);
-        li.append(el("strong", null, `${NOTE_WORDS[n.kind] || n.kind}: `), noteText(n.text, n.codes, open));
-        if (!(n.level === "code" && n.at === card.code)) li.append(el("span", "card-at", ` (at ${n.level} ${n.at})`));
-        ul.append(li);
-      }
-      if (card.seventh_character) {
-        const r = card.seventh_character;
-        ul.append(el("li", "note-seventh", `7th character (at ${r.at}): ${r.extensions.map(([c, m]) => `${c} ${m}`).join("; ")}`));
-      }
-      out.push(section("Notes of the tabular list", ul));
-    }
+    const notes = notesSection(card);
+    if (notes) out.push(notes);
 
     for (const [title, links] of [["Successors", card.successors], ["Predecessors", card.predecessors], ["Consider", card.consider || []]]) {
       if (!links.length) continue;

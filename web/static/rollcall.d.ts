@@ -216,6 +216,10 @@ export interface Card {
   children: CardChild[];
   siblings: CardChild[];
   notes: CardNote[];
+  /** "loaded"; "not-loaded": the notes file is not loaded yet (see
+   * Checker.loadNotes), so `notes` is empty for that reason alone; "none":
+   * no notes are kept for this vocabulary. */
+  notes_status: "loaded" | "not-loaded" | "none";
   seventh_character?: { at: string; extensions: [string, string][] };
   successors: { code: string; description: string; effective: string | null }[];
   predecessors: { code: string; description: string; effective: string | null }[];
@@ -250,6 +254,9 @@ export interface OpenOptions {
   worker?: Worker;
   /** The Wasm bytes, for a worker that cannot fetch rollcall-web_bg.wasm itself. */
   wasm?: ArrayBuffer | ArrayBufferView;
+  /** The notes file, for a worker that cannot fetch it by its manifest
+   * (the single-file page): its bytes on demand, and its manifest. */
+  notes?: { bytes: () => Promise<Uint8Array>; manifest: object };
 }
 
 export interface CheckResult {
@@ -279,6 +286,9 @@ export class Checker {
   timelines(codes: Iterable<string>): Promise<Timelines>;
   /** The card of a code, node or code start for the options' day or period. */
   card(code: string, options?: CheckOptionsInput): Promise<Card>;
+  /** Load the index's notes file (the tabular list's notes on cards) if its
+   * system has one; true once loaded, false when it keeps no notes. */
+  loadNotes(): Promise<boolean>;
   /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
   digest(list: List): Promise<string>;
   /** A request by name to the worker (the protocol is described in worker.js). */

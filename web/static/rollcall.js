@@ -172,10 +172,34 @@ async function indexBytes(source, expected, onProgress) {
 
 /** A loaded, verified index in its own worker. */
 export class Checker {
-  constructor(channel, info) {
+  constructor(channel, info, notes = null) {
     this.channel = channel;
     /** Release, coverage, sources, byte length and SHA-256 of the index. */
     this.info = info;
+    this.notesSource = notes;
+    this.notesLoaded = null;
+  }
+
+  /**
+   * Load the index's notes file (the tabular list's notes that cards show)
+   * if its system has one: the worker fetches it by its manifest, or takes
+   * the bytes of `open`'s `notes` option. Resolves to true once loaded,
+   * false when the system keeps no notes; until then cards say
+   * `notes_status: "not-loaded"`.
+   */
+  loadNotes() {
+    if (!this.notesLoaded) {
+      this.notesLoaded = (async () => {
+        const given = this.notesSource;
+        if (!given) return this.channel.ask("notes");
+        const bytes = await given.bytes();
+        return this.channel.ask("notes", { bytes: bytes.buffer, manifest: given.manifest }, [bytes.buffer]);
+      })();
+      this.notesLoaded.catch(() => {
+        this.notesLoaded = null; // tried again next time
+      });
+    }
+    return this.notesLoaded;
   }
 
   /** Check a list; resolves to the report in the CLI's JSON schema. */
@@ -256,8 +280,10 @@ export class Checker {
  * Response. Options: `manifest` (an object or the URL of
  * index-manifest.json; the index must match its SHA-256 and release),
  * `onProgress(received, total)` while a URL downloads, `worker` (a Worker
- * running worker.js, default the one beside this module) and `wasm` (the
- * Wasm bytes, when the worker cannot fetch them itself).
+ * running worker.js, default the one beside this module), `wasm` (the
+ * Wasm bytes, when the worker cannot fetch them itself) and `notes`
+ * (`{bytes: () => Promise<Uint8Array>, manifest}`: the notes file, when the
+ * worker cannot fetch it by its manifest).
  */
 export async function open(source, options = {}) {
   const worker = options.worker || new Worker(new URL("worker.js", HERE));
@@ -277,7 +303,7 @@ export async function open(source, options = {}) {
       }
       throw new Error(msg);
     }
-    return new Checker(channel, info);
+    return new Checker(channel, info, options.notes || null);
   } catch (e) {
     channel.close();
     throw e;

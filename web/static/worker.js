@@ -32,6 +32,12 @@
 //      codes-r, codes-python)
 //   -> {id, type: "find", query: string, limit: number}
 //   <- {id, ok: true, result: {query, date, results: Found[]}}
+//   -> {id, type: "card", code: string, options: CheckOptionsInput}
+//   <- {id, ok: true, result: Card}   (notes_status "not-loaded" until "notes")
+//   -> {id, type: "notes", bytes?: ArrayBuffer, manifest?: object}
+//      (the index's notes file, for cards: fetched beside this file by the
+//      manifest the binding names, or given, as the single-file page does)
+//   <- {id, ok: true, result: true | false}   (false: the system keeps no notes)
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen, rollcall_workbook, WORKBOOK_WASM_GZ */
 "use strict";
@@ -122,12 +128,15 @@ function readAsWorkbook(bytes, options) {
 }
 
 let checker = null;
+// The notes file of the loaded index, added once (see notes()).
+let notesReady = null;
 
 function load(bytes, manifest) {
   if (checker) {
     checker.free();
     checker = null;
   }
+  notesReady = null;
   // Opening checks the header (format and version); the constructor then
   // verifies the index's own checksum. Both throw readable errors.
   const c = new wasm_bindgen.Checker(new Uint8Array(bytes));
@@ -179,6 +188,44 @@ async function companion(name) {
     );
   }
   return companions.get(name);
+}
+
+// The tabular list's notes live in a file of their own, fetched the first
+// time a card is opened (most visits never open one): its manifest, named by
+// the core (Checker.notesManifest), gives its file, size and SHA-256; the
+// binding then verifies it again and refuses notes of another index.
+function notes(given, givenManifest) {
+  if (!checker) return Promise.reject(new Error("the index is not loaded"));
+  if (!notesReady) {
+    const target = checker;
+    notesReady = (async () => {
+      const name = target.notesManifest();
+      if (!name) return false;
+      let manifest = givenManifest;
+      let bytes = given;
+      if (!bytes) {
+        const res = await fetch(`./${name}`);
+        if (!res.ok) throw new Error(`the notes manifest (${name}) could not be read (HTTP ${res.status})`);
+        manifest = await res.json();
+        const file = await fetch(`./${manifest.file}`);
+        if (!file.ok) throw new Error(`the notes file (${manifest.file}) could not be read (HTTP ${file.status})`);
+        bytes = new Uint8Array(await file.arrayBuffer());
+      }
+      if (manifest) {
+        if (bytes.length !== manifest.byte_length || wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) {
+          throw new Error(`the notes file does not match its manifest (${bytes.length} bytes); it may be damaged or from another build`);
+        }
+      }
+      if (target !== checker) return false; // another index was loaded meanwhile
+      checker.addNotes(bytes);
+      return true;
+    })();
+    // A failed fetch may be tried again with the next card.
+    notesReady.catch(() => {
+      notesReady = null;
+    });
+  }
+  return notesReady;
 }
 
 /** The bundled indexes a report says its list needs and that are not loaded yet. */
@@ -307,6 +354,9 @@ self.onmessage = async (event) => {
       case "find":
         if (!checker) throw new Error("the index is not loaded");
         result = JSON.parse(checker.find(String(msg.query ?? ""), Number(msg.limit) || 10));
+        break;
+      case "notes":
+        result = await notes(msg.bytes ? new Uint8Array(msg.bytes) : null, msg.manifest || null);
         break;
       default:
         throw new Error(`unknown request “${msg.type}”`);
