@@ -878,4 +878,5 @@ fn a_lone_surrogate_in_utf16_is_refused() {
     let o = rollcall_bytes(&["check", "-", "--on", "2026-01-01"], &bytes);
     assert_eq!(o.status.code(), Some(2));
     assert!(err(&o).contains("UTF-16"), "{}", err(&o));
+    assert!(err(&o).contains("line 2"), "{}", err(&o));
 }

@@ -423,9 +423,24 @@ pub fn decode(bytes: &[u8]) -> Result<String, ReadError> {
                 message: "the file is UTF-16 text with an odd number of bytes, so its last character is cut; save it again (in a spreadsheet: CSV UTF-8) and try again".into(),
             });
         }
-        String::from_utf16(&units).map_err(|_| ReadError {
-            message: "the file says it is UTF-16 text but holds bytes that are not; save it again as UTF-8 and try again".into(),
-        })
+        let mut out = String::with_capacity(units.len());
+        let mut line = 1;
+        for c in char::decode_utf16(units.iter().copied()) {
+            match c {
+                Ok(c) => {
+                    line += usize::from(c == '\n');
+                    out.push(c);
+                }
+                Err(_) => {
+                    return Err(ReadError {
+                        message: format!(
+                            "line {line} is not UTF-16 text, though the file says it is (a lone surrogate); save the list again as UTF-8 and try again"
+                        ),
+                    })
+                }
+            }
+        }
+        Ok(out)
     };
     if bytes.starts_with(&[0xFF, 0xFE]) {
         return utf16(true);
