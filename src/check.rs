@@ -330,13 +330,12 @@ pub fn check_among_with_coverage<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<CategoryCoverage>) {
-    let want = Want {
-        coverage: true,
+    check_draft(
+        index,
         others,
-        ..Want::default()
-    };
-    let (report, extras) = run(index, text, options, want);
-    (report, extras.coverage)
+        &crate::list::read(text, Reading::Auto),
+        options,
+    )
 }
 
 /// What an entry reaches: the billable codes of the period it stands for.
@@ -380,13 +379,12 @@ pub fn check_with_reach_among<D: AsRef<[u8]>>(
     text: &str,
     options: &CheckOptions,
 ) -> (Report, Vec<Reach>) {
-    let want = Want {
-        reach: true,
+    check_draft_with_reach(
+        index,
         others,
-        ..Want::default()
-    };
-    let (report, extras) = run(index, text, options, want);
-    (report, extras.reach)
+        &crate::list::read(text, Reading::Auto),
+        options,
+    )
 }
 
 #[derive(Default, Clone, Copy)]

@@ -6,7 +6,7 @@
 
 mod common;
 
-use common::{billable_on_in, day, index, on};
+use common::{billable_on_in, index, on};
 use proptest::prelude::*;
 use rollcall::list::{read, read_bytes, LineKind, Reading};
 use rollcall::{Kind, Status};
@@ -605,7 +605,6 @@ fn the_cli_reads_drafts_and_takes_a_forced_reading() {
         .unwrap();
     assert_eq!(bad.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&bad.stderr).contains("lines, table, text, json, workbook"));
-    let _ = day("2024-01-01");
 }
 
 proptest! {

@@ -151,7 +151,6 @@ impl<'a> Parser<'a> {
     fn string(&mut self) -> Result<Text, Fail> {
         self.i += 1;
         let (line, column) = (self.line, self.i - self.line_start);
-        let start = self.i;
         let mut raw = true;
         let mut out = Vec::new();
         loop {
@@ -192,7 +191,6 @@ impl<'a> Parser<'a> {
                 }
             }
         }
-        let _ = start;
         Ok(Text {
             value: String::from_utf8_lossy(&out).into_owned(),
             line,

@@ -466,10 +466,9 @@ pub fn decode(bytes: &[u8]) -> Result<String, ReadError> {
 /// laid out when it was read as plain lines or a table. Kept for callers of
 /// the table reader; new code uses [`read`].
 pub fn parse_list(text: &str) -> (Layout, Vec<InputLine>) {
-    let detected = detect(text);
     let d = read(text, Reading::Auto);
     let layout = if d.facts.reading == Reading::Table {
-        detected.layout
+        detect(text).layout
     } else {
         Layout::Plain
     };
