@@ -61,6 +61,8 @@ export interface ReadFacts {
  * text (UTF-16 offsets, for the page's text area). */
 export interface DraftToken {
   line: number;
+  /** The entry's column in the report, when the code sits inside a longer line. */
+  column: number | null;
   start: number;
   end: number;
   code: string;
@@ -1147,7 +1149,8 @@ impl Checker {
 }
 
 /// The codes the reader finds in a list, for marking them in the page's
-/// text area: JSON text `{ reading, tokens: [{ line, start, end, code }] }`,
+/// text area: JSON text `{ reading, tokens: [{ line, column, start, end, code }] }`
+/// (`column` as the report's entries have it, when the code sits in a longer line),
 /// with `start` and `end` in UTF-16 units from the start of the text (as a
 /// textarea's selection counts); codes read whole from a line of a plain
 /// list or a table cover the code as written.
@@ -1206,6 +1209,7 @@ fn tokens_of(text: &str, draft: &rollcall::list::Draft) -> Vec<serde_json::Value
             let u16_at = |i: usize| l.text.get(..i).map(|t| t.encode_utf16().count());
             Some(serde_json::json!({
                 "line": l.number,
+                "column": l.column(),
                 "start": base + u16_at(a)?,
                 "end": base + u16_at(b)?,
                 "code": code,

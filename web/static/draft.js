@@ -3,14 +3,6 @@
 // from a finding to its code in the list. The reading itself is the core's
 // (Checker.read / readDraft): nothing here decides what a code is.
 
-const READING_WORDS = {
-  lines: "one code per line",
-  table: "a table",
-  text: "a draft",
-  json: "JSON",
-  workbook: "a workbook",
-};
-
 function esc(s) {
   return String(s).replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]);
 }
@@ -84,24 +76,11 @@ export function initDraft({ ask, onChange }) {
   function showToken(line, column) {
     const on = tokens.filter((t) => t.line === line);
     if (!on.length) return false;
-    const text = list.value;
-    const t =
-      on.find((x) => column && [...text.slice(0, x.start)].length - [...text.slice(0, lineStart(text, line))].length + 1 === column) ||
-      on[0];
+    const t = on.find((x) => x.column === column) || on[0];
     list.focus();
     list.setSelectionRange(t.start, t.end);
     return true;
   }
 
-  return { mark, reading, showToken, words: READING_WORDS };
-}
-
-function lineStart(text, line) {
-  let at = 0;
-  for (let n = 1; n < line; n++) {
-    const i = text.slice(at).search(/\r\n|\n|\r/);
-    if (i < 0) return text.length;
-    at += i + (text.startsWith("\r\n", at + i) ? 2 : 1);
-  }
-  return at;
+  return { mark, reading, showToken };
 }

@@ -4,8 +4,6 @@
 // does, so line numbers stay those of the file. Spreadsheet workbooks are
 // read by the checker from their bytes.
 
-export const FHIR_ICD10CM = "http://hl7.org/fhir/sid/icd-10-cm";
-
 /** Whether a file is a spreadsheet workbook (zip or OLE2 container, or its name says so). */
 export function isWorkbook(name, bytes) {
   const lower = String(name || "").toLowerCase();

@@ -57,6 +57,8 @@ export interface ReadFacts {
 /** A code the reader found in the text, with UTF-16 offsets (as a textarea's selection counts). */
 export interface DraftToken {
   line: number;
+  /** The entry's column in the report, when the code sits inside a longer line. */
+  column: number | null;
   start: number;
   end: number;
   code: string;
