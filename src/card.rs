@@ -388,13 +388,25 @@ pub fn children_on(view: &View<'_>, ord: u32, day: Date) -> Vec<u32> {
     if view.is_graph() {
         return view.children(ord).collect();
     }
+    // The walk is a preorder of the subtree, so it meets nodes in ascending
+    // order: a node below the last one handled, or outside the subtree, can
+    // only come from a damaged index, whose overlapping subtrees would
+    // otherwise be walked again and again (found by fuzzing: a card took
+    // minutes). So each node is handled at most once.
+    let end = view.subtree_end(ord);
+    let mut next = ord.saturating_add(1);
     let mut out = Vec::new();
     let mut stack: Vec<u32> = view.children(ord).collect();
     stack.reverse();
     while let Some(c) = stack.pop() {
+        if c < next || c >= end {
+            continue;
+        }
         if in_force(view, c, day) {
             out.push(c);
+            next = view.subtree_end(c);
         } else {
+            next = c + 1;
             let mut below: Vec<u32> = view.children(c).collect();
             below.reverse();
             stack.extend(below);
