@@ -95,6 +95,7 @@ fn rank(index: &Index<Vec<u8>>, line: &str, want: &str, opts: &CheckOptions) -> 
     f.suggestions.iter().position(|s| s.code == want)
 }
 
+#[allow(dead_code)]
 fn gzip9(b: &[u8]) -> usize {
     use std::io::Write;
     let mut e = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
@@ -104,6 +105,7 @@ fn gzip9(b: &[u8]) -> usize {
 
 /// Sizes of the word map (`WFST`, `POST`, `WLEN`) and of the rest of the
 /// index, read from the section directory (see src/index/write.rs).
+#[allow(dead_code)]
 fn sizes(b: &[u8]) {
     let u32_at = |i: usize| u32::from_le_bytes([b[i], b[i + 1], b[i + 2], b[i + 3]]) as usize;
     let count = u32_at(12);
@@ -131,9 +133,27 @@ fn sizes(b: &[u8]) {
     );
 }
 
-fn main() {
-    let bytes = std::fs::read("vocab/icd10cm.rcx").expect("run from the repository root");
-    let index = Index::open(bytes).expect("the bundled index opens");
+/// One sampled code: the line with a mistyped code and its official
+/// description, and the same with a reworded label.
+pub struct Sample {
+    /// The intended code's ordinal.
+    pub ord: u32,
+    /// The intended code as printed.
+    pub want: String,
+    /// Whether the mistyped code is another real code.
+    pub became_code: bool,
+    /// The mistyped code and the official description.
+    pub official: String,
+    /// The mistyped code and the reworded label.
+    pub reworded: String,
+    /// The reworded label alone.
+    pub label: String,
+    /// How it was reworded.
+    pub kind: &'static str,
+}
+
+/// The 1,000 samples, from a fixed seed, on the index's last covered day.
+pub fn samples(index: &Index<Vec<u8>>) -> (CheckOptions, Vec<Sample>) {
     let v = index.view();
     let day = v.meta().coverage_to;
     let opts = CheckOptions::on(day, false);
@@ -142,41 +162,88 @@ fn main() {
         .filter(|&o| v.billable_in(o, &period))
         .collect();
     let mut rng = Rng(0x5eed_1234_abcd_0001);
-    let mut sample = Vec::new();
-    while sample.len() < 1000 {
+    let mut picked = Vec::new();
+    while picked.len() < 1000 {
         let o = billable[rng.below(billable.len())];
-        if !sample.contains(&o) {
-            sample.push(o);
+        if !picked.contains(&o) {
+            picked.push(o);
         }
     }
-    let (mut top1, mut top3, mut rtop1, mut rtop3) = (0, 0, 0, 0);
-    let (mut became_code, mut misses) = (0, Vec::new());
-    let mut by_kind = std::collections::BTreeMap::<&str, (u32, u32)>::new();
-    let mut times = Vec::new();
-    let mut slow: Vec<(f64, String)> = Vec::new();
-    let (mut s1, mut s3) = (0, 0);
-    for (i, &o) in sample.iter().enumerate() {
+    let mut out = Vec::new();
+    for (i, &o) in picked.iter().enumerate() {
         let code = v.code(o);
         let want = v.display(&code);
         let desc = v.description(o);
         let bad = corrupt(&code, &mut rng);
-        if v.ordinal(&bad).is_some() {
-            became_code += 1;
-        }
+        let became_code = v.ordinal(&bad).is_some();
         let shown = v.display(&bad);
-        let r = rank(&index, &format!("{shown}\t{desc}\n"), &want, &opts);
-        top1 += usize::from(r == Some(0));
-        top3 += usize::from(r.is_some_and(|r| r < 3));
-        if r.is_none_or(|r| r >= 3) && misses.len() < 8 {
-            misses.push(format!("{shown}\t{desc}  (want {want}, got rank {r:?})"));
-        }
         let (label, kind) = reword(&desc, i % 3, &mut rng);
-        let r = rank(&index, &format!("{shown}\t{label}\n"), &want, &opts);
-        rtop1 += usize::from(r == Some(0));
-        rtop3 += usize::from(r.is_some_and(|r| r < 3));
-        let k = by_kind.entry(kind).or_default();
+        out.push(Sample {
+            ord: o,
+            official: format!("{shown}\t{desc}\n"),
+            reworded: format!("{shown}\t{label}\n"),
+            want,
+            became_code,
+            label,
+            kind,
+        });
+    }
+    (opts, out)
+}
+
+/// How often the intended code is the first suggestion, or among the first
+/// three, with official and with reworded labels; per rewording, the top-3
+/// hits of all; and up to eight misses of the official labels.
+#[derive(Default)]
+pub struct Recall {
+    pub top1: usize,
+    pub top3: usize,
+    pub rtop1: usize,
+    pub rtop3: usize,
+    pub by_kind: std::collections::BTreeMap<&'static str, (u32, u32)>,
+    pub misses: Vec<String>,
+}
+
+/// Checks every sample's two lines.
+pub fn recall(index: &Index<Vec<u8>>, opts: &CheckOptions, samples: &[Sample]) -> Recall {
+    let mut f = Recall::default();
+    for s in samples {
+        let r = rank(index, &s.official, &s.want, opts);
+        f.top1 += usize::from(r == Some(0));
+        f.top3 += usize::from(r.is_some_and(|r| r < 3));
+        if r.is_none_or(|r| r >= 3) && f.misses.len() < 8 {
+            f.misses.push(format!(
+                "{}  (want {}, got rank {r:?})",
+                s.official.trim_end(),
+                s.want
+            ));
+        }
+        let r = rank(index, &s.reworded, &s.want, opts);
+        f.rtop1 += usize::from(r == Some(0));
+        f.rtop3 += usize::from(r.is_some_and(|r| r < 3));
+        let k = f.by_kind.entry(s.kind).or_default();
         k.0 += 1;
         k.1 += u32::from(r.is_some_and(|r| r < 3));
+    }
+    f
+}
+
+#[allow(dead_code)]
+fn main() {
+    let bytes = std::fs::read("vocab/icd10cm.rcx").expect("run from the repository root");
+    let index = Index::open(bytes).expect("the bundled index opens");
+    let v = index.view();
+    let day = v.meta().coverage_to;
+    let (opts, sample) = samples(&index);
+    let period = opts.period();
+    let f = recall(&index, &opts, &sample);
+    let became_code = sample.iter().filter(|s| s.became_code).count();
+    let (top1, top3, rtop1, rtop3) = (f.top1, f.top3, f.rtop1, f.rtop3);
+    let mut times = Vec::new();
+    let mut slow: Vec<(f64, String)> = Vec::new();
+    let (mut s1, mut s3) = (0, 0);
+    for s in &sample {
+        let (o, label) = (s.ord, &s.label);
         // Word search alone, timed.
         let so = SearchOptions {
             limit: 10,
@@ -190,7 +257,7 @@ fn main() {
         let mut hits = Vec::new();
         for _ in 0..3 {
             let t = Instant::now();
-            hits = search::search(&v, &label, &so);
+            hits = search::search(&v, label, &so);
             ms = ms.min(t.elapsed().as_secs_f64() * 1000.0);
         }
         times.push(ms);
@@ -220,7 +287,7 @@ fn main() {
         pct(rtop1),
         pct(rtop3)
     );
-    for (k, (all, hit)) in &by_kind {
+    for (k, (all, hit)) in &f.by_kind {
         println!("  {k}: top-3 {hit} of {all}");
     }
     println!(
@@ -238,7 +305,7 @@ fn main() {
     for (ms, q) in slow.iter().take(3) {
         println!("  slowest: {ms:.2} ms for \"{q}\"");
     }
-    for m in misses {
+    for m in f.misses {
         println!("  miss: {m}");
     }
 }

@@ -10,6 +10,8 @@ use rollcall::{check, Kind, Severity};
 
 #[path = "../examples/hpo_synonyms.rs"]
 mod hpo_synonyms;
+#[path = "../examples/label_eval.rs"]
+mod label_eval;
 #[path = "../examples/words_eval.rs"]
 mod words_eval;
 
@@ -222,4 +224,30 @@ fn hpo_labels_are_compared_with_the_term_s_synonyms() {
         f[0].suggestions.iter().any(|s| s.code == "HP:0001250"),
         "{f:?}"
     );
+}
+
+/// Source: the bundled ICD-10-CM index's own descriptions (CDC/NCHS tabular
+/// and order files): a mistyped code given with another code's official
+/// description, or a reworded one, still leads to the code meant. The synonym
+/// layer must keep the label evaluation's figures (`examples/label_eval.rs`:
+/// 98.6% / 98.8% official, 92.4% / 97.5% reworded, top-1 / top-3, when
+/// written) within a point.
+#[test]
+fn the_synonym_layer_keeps_label_recall() {
+    let index = index();
+    let (opts, samples) = label_eval::samples(&index);
+    let f = label_eval::recall(&index, &opts, &samples);
+    let n = samples.len();
+    assert_eq!(n, 1000);
+    let at_least = |hits: usize, per_mille: usize, what: &str| {
+        assert!(
+            hits * 1000 >= n * per_mille,
+            "{what}: {hits} of {n}; misses {:#?}",
+            f.misses
+        );
+    };
+    at_least(f.top1, 976, "official labels, top-1");
+    at_least(f.top3, 978, "official labels, top-3");
+    at_least(f.rtop1, 914, "reworded labels, top-1");
+    at_least(f.rtop3, 965, "reworded labels, top-3");
 }
