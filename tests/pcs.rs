@@ -93,3 +93,33 @@ fn positional_hierarchy_and_descriptions() {
         .expect("a code valid only outside FY2024");
     assert!(v.description_or_note(gone).contains("no description"));
 }
+
+/// Source: the release history (icd10pcs-history-FY2016-FY2027.tsv):
+/// 5A1D00Z (Performance of Urinary Filtration, Single) was valid until
+/// 2017-09-30, and 5A1D70Z, 5A1D80Z and 5A1D90Z under the same body part
+/// from 2017-10-01. ICD-10-PCS publishes no conversion table beside it, so
+/// the check offers the codes in use that share the most characters, and
+/// every one is a real seven-character code in use in the period (not the
+/// table position 5A1D, which is no code: Official Guidelines A.1-A.2,
+/// from memory).
+#[test]
+fn a_retired_code_is_offered_real_codes_in_use() {
+    let index = pcs();
+    let hist = source("icd10pcs-history-FY2016-FY2027.tsv.gz");
+    let valid_on = |code: &str, d: &str| {
+        hist.lines().skip(1).any(|l| {
+            let f: Vec<&str> = l.split('\t').collect();
+            f[0] == code && f[1] <= d && d <= f[2]
+        })
+    };
+    assert!(!valid_on("5A1D00Z", "20190101"));
+    let r = check(&index, "5A1D00Z\n", &on("2019-01-01"));
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::Retired);
+    let f = e.findings.iter().find(|f| f.kind == Kind::Retired).unwrap();
+    let offered: Vec<&str> = f.suggestions.iter().map(|s| s.code.as_str()).collect();
+    assert_eq!(offered, ["5A1D70Z", "5A1D80Z", "5A1D90Z"]);
+    for c in offered {
+        assert!(c.len() == 7 && valid_on(c, "20190101"), "{c}");
+    }
+}

@@ -111,6 +111,16 @@ impl System {
         }
     }
 
+    /// Whether the nodes above a system's codes are codes of their own
+    /// (ICD-10-CM's categories and subcategories, which a list may name as
+    /// headers) or only places in its tables (ICD-10-PCS: `0DT` is the
+    /// root operation Resection of the gastrointestinal system, and only
+    /// 7-character codes are codes; CMS, ICD-10-PCS Official Guidelines,
+    /// A.1-A.2, from memory).
+    pub fn nodes_are_codes(self) -> bool {
+        self != System::Icd10pcs
+    }
+
     /// Whether the vocabulary has had its last release, so that the end of
     /// an index's coverage is the end of its codes: ICD-9-CM, frozen after
     /// FY2015 and replaced in the US by ICD-10-CM and ICD-10-PCS from
