@@ -704,6 +704,100 @@ fn near_suggestions(
     }
 }
 
+/// When a letter was read as a digit or a digit as a letter (`I1O` as
+/// I10), the other codes one character from what was written, in use in
+/// the period, whose description the line's label fits clearly better than
+/// the code read (`I1O` labelled "hypertensive heart disease": I11.9).
+fn other_readings(
+    view: &View<'_>,
+    written: &str,
+    read: u32,
+    label: &str,
+    period: &Period,
+) -> Vec<Suggestion> {
+    let typed: String = written
+        .chars()
+        .filter(|c| c.is_ascii_alphanumeric())
+        .collect::<String>()
+        .to_ascii_uppercase();
+    let own = crate::search::fit(view, label, read).label;
+    let mut better: Vec<(f32, u32)> = code::near(view, &typed)
+        .into_iter()
+        .filter(|&(o, d)| d == 1 && o != read)
+        .flat_map(|(o, _)| {
+            // A header one edit away stands for its billable codes.
+            let under: Vec<u32> = if view.billable_in(o, period) {
+                vec![o]
+            } else {
+                billable_under(view, o, period)
+            };
+            under.into_iter().take(NAMED_LIMIT)
+        })
+        .map(|o| (crate::search::fit(view, label, o).label, o))
+        .filter(|&(f, _)| f >= 0.75 && f >= own + 0.25)
+        .collect();
+    better.sort_by(|a, b| b.0.total_cmp(&a.0).then(a.1.cmp(&b.1)));
+    better.dedup_by_key(|b| b.1);
+    better
+        .into_iter()
+        .take(3)
+        .map(|(_, o)| {
+            suggestion(
+                view,
+                o,
+                format!("one character from \"{written}\"; the label fits it better"),
+            )
+        })
+        .collect()
+}
+
+/// What to offer for a retired code with no successor and nothing in use
+/// under it: the nearest node above it with codes in use, where such nodes
+/// are codes ([`System::nodes_are_codes`]); elsewhere (ICD-10-PCS, whose
+/// nodes are table positions) the codes in use under that node that share
+/// the most leading characters with the retired one, so every suggestion
+/// is a real code.
+fn nearest_in_use(view: &View<'_>, code: &str, ord: u32, period: &Period) -> Vec<Suggestion> {
+    let Some((a, under)) = view.ancestors(ord).find_map(|a| {
+        let under = billable_under(view, a, period);
+        (!under.is_empty()).then_some((a, under))
+    }) else {
+        return Vec::new();
+    };
+    let nodes_are_codes =
+        System::parse(&view.meta().vocabulary).is_none_or(|s| s.nodes_are_codes());
+    if nodes_are_codes {
+        return vec![suggestion(
+            view,
+            a,
+            "the nearest code above it still in use; review its codes",
+        )];
+    }
+    let shared = |o: u32| {
+        view.code(o)
+            .bytes()
+            .zip(code.bytes())
+            .take_while(|(x, y)| x == y)
+            .count()
+    };
+    let most = under.iter().map(|&o| shared(o)).max().unwrap_or(0);
+    let node = view.display(&view.code(a));
+    under
+        .into_iter()
+        .filter(|&o| shared(o) == most)
+        .take(NAMED_LIMIT)
+        .map(|o| {
+            suggestion(
+                view,
+                o,
+                format!(
+                    "a code in use under {node} with the first {most} characters of the retired code; review"
+                ),
+            )
+        })
+        .collect()
+}
+
 pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
     Suggestion {
         code: view.display(&view.code(ord)),
@@ -1006,11 +1100,16 @@ fn judge(
             e.code = Some(shown.clone());
             e.description = Some(view.description_or_note(ord));
             if !changes.is_empty() {
+                let mut sugg = vec![suggestion(view, ord, "the official form")];
+                let letter_read = changes.iter().any(|c| c.contains(" read as "));
+                if let (true, Some(label)) = (letter_read, e.label.as_deref()) {
+                    sugg.extend(other_readings(view, &written, ord, label, period));
+                }
                 e.findings.push(Finding::new(
                     Kind::Normalized,
                     Severity::Info,
                     format!("\"{written}\" read as {shown} ({})", changes.join(", ")),
-                    vec![suggestion(view, ord, "the official form")],
+                    sugg,
                 ));
             }
             // The same code on many lines is judged once.
@@ -1272,16 +1371,7 @@ fn judge_dates(
                     }
                 }
                 if sugg.is_empty() {
-                    if let Some(a) = view
-                        .ancestors(ord)
-                        .find(|&a| !billable_under(view, a, period).is_empty())
-                    {
-                        sugg.push(suggestion(
-                            view,
-                            a,
-                            "the nearest code above it still in use; review its codes",
-                        ));
-                    }
+                    sugg = nearest_in_use(view, &view.code(ord), ord, period);
                 }
                 let listed: Vec<&Suggestion> = sugg
                     .iter()

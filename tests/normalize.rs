@@ -67,3 +67,32 @@ fn impossible_characters_and_shapes_are_malformed() {
     assert_eq!(r.entries[3].system.as_deref(), Some("icd9cm"));
     assert_eq!(r.summary.systems.get("icd10cm"), Some(&1));
 }
+
+/// Source: the FY2024 ICD-10-CM code file's descriptions: I10 "Essential
+/// (primary) hypertension", I11.9 "Hypertensive heart disease without heart
+/// failure". "I1O" is read as I10 (a letter O for a zero, common practice),
+/// and when the label names what I11.9 is, the code one character from what
+/// was typed is offered beside the reading; a label that fits I10 gets the
+/// reading alone.
+#[test]
+fn a_letter_read_as_a_digit_still_offers_the_code_the_label_names() {
+    let index = index();
+    let r = check(
+        &index,
+        "I1O\thypertensive heart disease without heart failure\nI1O\tessential hypertension\n",
+        &on("2024-01-01"),
+    );
+    let offered = |i: usize| -> Vec<String> {
+        let f = r.entries[i]
+            .findings
+            .iter()
+            .find(|f| f.kind == Kind::Normalized)
+            .expect("a normalized note");
+        f.suggestions.iter().map(|s| s.code.clone()).collect()
+    };
+    assert_eq!(r.entries[0].code.as_deref(), Some("I10"));
+    let first = offered(0);
+    assert_eq!(first[0], "I10");
+    assert!(first.contains(&"I11.9".to_string()), "{first:?}");
+    assert_eq!(offered(1), ["I10"]);
+}
