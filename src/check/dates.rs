@@ -1,0 +1,358 @@
+//! A code against the study period: billable, header or absent on each day,
+//! retired before it, added during it, and the part past the index's coverage.
+
+use super::*;
+
+/// The part of `period` up to the index's last covered day (that day alone
+/// when the whole period lies past it); see the `beyond-coverage` finding.
+pub(crate) fn within_coverage(view: &View<'_>, period: &Period) -> Period {
+    let last = view.meta().coverage_to;
+    if period.to <= last || !view.meta().open_ended() {
+        *period
+    } else {
+        Period::new(period.from.min(last), last)
+    }
+}
+
+/// The code's status on each part of the period, in order.
+pub(crate) fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<SpanKind>)> {
+    let mut spans: Vec<(Period, SpanKind)> = view
+        .billable(ord)
+        .map(|p| (p, SpanKind::Billable))
+        .chain(view.header(ord).map(|p| (p, SpanKind::Header)))
+        .filter_map(|(p, k)| p.intersect(period).map(|p| (p, k)))
+        .collect();
+    spans.sort_by_key(|(p, _)| p.from);
+    let mut out = Vec::new();
+    let mut day = period.from;
+    for (p, k) in spans {
+        if p.from > day {
+            out.push((Period::new(day, p.from.pred()), None));
+        }
+        out.push((p, Some(k)));
+        day = p.to.succ();
+    }
+    if day <= period.to {
+        out.push((Period::new(day, period.to), None));
+    }
+    out
+}
+
+pub(crate) fn judge_dates(
+    view: &View<'_>,
+    options: &CheckOptions,
+    period: &Period,
+    ctx: &ListContext,
+    ord: u32,
+    shown: &str,
+    e: &mut Entry,
+) {
+    // The common case first: billable on every day of the period.
+    if view.billable(ord).any(|p| p.covers(period)) {
+        e.status = Status::Valid;
+        // A code in use that the release nonetheless points elsewhere from
+        // (LOINC MAP_TO on a term still in use, HPO consider).
+        let consider: Vec<u32> = view.consider(ord).collect();
+        if !consider.is_empty() {
+            e.findings.push(Finding::new(
+                Kind::ReleaseStatus,
+                Severity::Info,
+                format!(
+                    "{shown} is valid; {} {} suggests considering {} in its place",
+                    view.meta().title,
+                    view.meta().release,
+                    name_codes(view, &consider)
+                ),
+                consider
+                    .iter()
+                    .take(NAMED_LIMIT)
+                    .map(|&c| suggestion(view, c, "the release suggests considering it"))
+                    .collect(),
+            ));
+        }
+        if let Some(word) = view.status(ord) {
+            e.findings.push(Finding::new(
+                Kind::ReleaseStatus,
+                Severity::Warning,
+                format!(
+                    "{shown} is valid, but {} marks it {word}; see the release's notes on that status before using it",
+                    view.meta().title
+                ),
+                vec![],
+            ));
+        }
+        return;
+    }
+    // In no span at all: a term the release keeps only as obsolete (HPO).
+    if view.billable(ord).next().is_none() && view.header(ord).next().is_none() {
+        obsolete(view, ctx, ord, shown, e);
+        return;
+    }
+    // Past the last covered day the index knows nothing (the next release
+    // is not out): a code in use on that day is not retired for it.
+    let segs = segments(view, ord, &within_coverage(view, period));
+    let billable: Vec<Period> = view.billable(ord).collect();
+    let header: Vec<Period> = view.header(ord).collect();
+    let all: Vec<Period> = billable.iter().chain(&header).copied().collect();
+    let span_text = if period.from == period.to {
+        format!("on {}", period.from)
+    } else {
+        format!("in the period {} to {}", period.from, period.to)
+    };
+    let only = |k| segs.len() == 1 && segs[0].1 == k;
+    if only(Some(SpanKind::Billable)) {
+        e.status = Status::Valid;
+        return;
+    }
+    if only(Some(SpanKind::Header)) {
+        e.status = Status::Header;
+        // Up to the last covered day, as the segments: a period wholly past
+        // it would otherwise count no codes under a header in use that day.
+        let under = billable_under(view, ord, &within_coverage(view, period));
+        let have = under
+            .iter()
+            .filter(|o| ctx.reached.contains(o) || ctx.listed.contains_key(o))
+            .count();
+        let mut msg = format!(
+            "{shown} is a header, not a billable code, {span_text}; it covers {} billable code{}, {}",
+            under.len(),
+            if under.len() == 1 { "" } else { "s" },
+            in_list(have, under.len())
+        );
+        if let Some(last) = billable
+            .iter()
+            .filter(|p| p.to < period.from)
+            .map(|p| p.to)
+            .max()
+        {
+            msg.push_str(&format!(
+                "; it was billable until {last} and has been a header since {}",
+                last.succ()
+            ));
+        }
+        let mut sugg = Vec::new();
+        if have < under.len() {
+            let p = Pattern::Prefix(view.code(ord)).display(view);
+            sugg.push(Suggestion {
+                code: p.clone(),
+                description: view.description_or_note(ord),
+                reason: format!(
+                    "{p} matches its {} billable codes in the period",
+                    under.len()
+                ),
+            });
+            if under.len() <= 5 {
+                for &o in under.iter().filter(|o| !ctx.reached.contains(o)) {
+                    sugg.push(suggestion(
+                        view,
+                        o,
+                        "a billable code under it, not in the list",
+                    ));
+                }
+            }
+        }
+        let sev = if options.billable {
+            Severity::Error
+        } else {
+            Severity::Info
+        };
+        e.findings.push(Finding::new(Kind::Header, sev, msg, sugg));
+        return;
+    }
+    if only(None) {
+        let first = all.iter().map(|p| p.from).min();
+        let last = all.iter().map(|p| p.to).max();
+        match (first, last) {
+            (_, Some(last)) if last < period.from => {
+                e.status = Status::Retired;
+                let last_b = billable.iter().map(|p| p.to).max().unwrap_or(last);
+                let mut sugg: Vec<Suggestion> = view
+                    .successors(ord)
+                    .filter(|(s, _)| view.billable_in(*s, period))
+                    .map(|(s, d)| {
+                        suggestion(
+                            view,
+                            s,
+                            format!(
+                                "{}: its data from {d} is coded as this",
+                                successor_source(view)
+                            ),
+                        )
+                    })
+                    .collect();
+                if sugg.is_empty() {
+                    let kids = billable_under(view, ord, period);
+                    for &o in kids.iter().take(NAMED_LIMIT) {
+                        sugg.push(suggestion(
+                            view,
+                            o,
+                            "a code under it, billable in the period",
+                        ));
+                    }
+                }
+                if sugg.is_empty() {
+                    sugg = nearest_in_use(view, &view.code(ord), ord, period);
+                }
+                let listed: Vec<&Suggestion> = sugg
+                    .iter()
+                    .filter(|s| {
+                        view.ordinal(&s.code.replace('.', ""))
+                            .is_some_and(|o| ctx.reached.contains(&o))
+                    })
+                    .collect();
+                let mut msg = format!(
+                    "{shown} was retired: its last valid day was {last_b}, before the period starts ({})",
+                    period.from
+                );
+                if !sugg.is_empty() {
+                    msg.push_str(&format!(
+                        "; {} {}",
+                        if sugg.len() == 1 {
+                            "its replacement is"
+                        } else {
+                            "replacements are"
+                        },
+                        sugg.iter()
+                            .map(|s| s.code.as_str())
+                            .take(NAMED_LIMIT)
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ));
+                    if !listed.is_empty() {
+                        msg.push_str(&format!(" ({} already in the list)", listed.len()));
+                    }
+                }
+                e.findings
+                    .push(Finding::new(Kind::Retired, Severity::Error, msg, sugg));
+            }
+            (Some(first), _) if first > period.to => {
+                e.status = Status::NotYetValid;
+                let sugg: Vec<Suggestion> = view
+                    .predecessors(ord)
+                    .into_iter()
+                    .filter(|(p, _)| view.billable_in(*p, period))
+                    .map(|(p, d)| {
+                        suggestion(
+                            view,
+                            p,
+                            format!(
+                                "{}: coded as this until {}",
+                                successor_source(view),
+                                d.pred()
+                            ),
+                        )
+                    })
+                    .collect();
+                let mut msg =
+                    format!("{shown} is not valid yet {span_text}: its first valid day is {first}");
+                if !sugg.is_empty() {
+                    let have = view
+                        .predecessors(ord)
+                        .iter()
+                        .filter(|(p, _)| view.billable_in(*p, period) && ctx.reached.contains(p))
+                        .count();
+                    msg.push_str(&format!(
+                        "; before that its data was coded as {} ({})",
+                        sugg.iter()
+                            .map(|s| s.code.as_str())
+                            .collect::<Vec<_>>()
+                            .join(", "),
+                        in_list(have, sugg.len())
+                    ));
+                }
+                e.findings
+                    .push(Finding::new(Kind::NotYetValid, Severity::Error, msg, sugg));
+            }
+            _ => {
+                e.status = Status::Retired;
+                e.findings.push(Finding::new(
+                    Kind::Retired,
+                    Severity::Error,
+                    format!("{shown} is not in use {span_text}"),
+                    vec![],
+                ));
+            }
+        }
+        return;
+    }
+    // Mixed: billable on part of the period.
+    e.status = Status::Partial;
+    let mut parts = Vec::new();
+    let mut sugg = Vec::new();
+    let mut seen = HashSet::new();
+    // Codes covering a part of the period that the list lacks, each once.
+    let mut offer = |sugg: &mut Vec<Suggestion>, codes: &[u32], why: String| {
+        for &o in codes.iter().filter(|o| !ctx.reached.contains(o)) {
+            if seen.insert(o) && sugg.len() < NAMED_LIMIT {
+                sugg.push(suggestion(view, o, why.clone()));
+            }
+        }
+    };
+    for (p, k) in &segs {
+        match k {
+            Some(SpanKind::Billable) => parts.push(format!("billable from {} to {}", p.from, p.to)),
+            Some(SpanKind::Header) => {
+                let kids = billable_under(view, ord, p);
+                let have = kids.iter().filter(|o| ctx.reached.contains(o)).count();
+                parts.push(format!(
+                    "from {} to {} a header over {} billable code{} ({}), {}",
+                    p.from,
+                    p.to,
+                    kids.len(),
+                    if kids.len() == 1 { "" } else { "s" },
+                    name_codes(view, &kids),
+                    in_list(have, kids.len())
+                ));
+                offer(
+                    &mut sugg,
+                    &kids,
+                    format!("covers {} to {} under it", p.from, p.to),
+                );
+            }
+            None => {
+                let before = p.to
+                    < segs
+                        .iter()
+                        .find(|(_, k)| k.is_some())
+                        .map_or(p.from, |s| s.0.from);
+                let cover: Vec<(u32, Date)> = if before {
+                    view.predecessors(ord)
+                } else {
+                    view.successors(ord).collect()
+                };
+                let cover: Vec<u32> = cover
+                    .into_iter()
+                    .map(|(o, _)| o)
+                    .filter(|o| view.billable_in(*o, p) && *o != ord)
+                    .collect();
+                let have = cover.iter().filter(|o| ctx.reached.contains(o)).count();
+                let what = if before { "not yet valid" } else { "retired" };
+                if cover.is_empty() {
+                    parts.push(format!("from {} to {} {what}", p.from, p.to));
+                } else {
+                    parts.push(format!(
+                        "from {} to {} {what}, its data coded as {} ({})",
+                        p.from,
+                        p.to,
+                        name_codes(view, &cover),
+                        in_list(have, cover.len())
+                    ));
+                }
+                offer(
+                    &mut sugg,
+                    &cover,
+                    format!("{}: covers {} to {}", successor_source(view), p.from, p.to),
+                );
+            }
+        }
+    }
+    e.findings.push(Finding::new(
+        Kind::PartialPeriod,
+        Severity::Warning,
+        format!(
+            "{shown} is billable for part of the period only: {}",
+            parts.join("; ")
+        ),
+        sugg,
+    ));
+}

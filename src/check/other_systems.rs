@@ -1,0 +1,125 @@
+//! A cell that is no code of the list's vocabulary but has the shape of
+//! another system's code, or is a code of another index at hand (an ICD-9-CM
+//! code in an ICD-10-CM list, with its GEM targets).
+
+use super::*;
+
+/// The other systems whose shape a code that is no code of the index's
+/// vocabulary fits, and a sentence saying so.
+pub(crate) fn other_systems(view: &View<'_>, written: &str) -> Option<(Vec<System>, String)> {
+    let own = view.meta().vocabulary.as_str();
+    let fits: Vec<(System, String)> = systems::ALL
+        .into_iter()
+        .filter(|s| s.name() != own)
+        .filter_map(|s| match systems::shape(s, written) {
+            Shape::Fits { note, .. } => Some((s, note)),
+            Shape::Ambiguous { reason, .. } => Some((s, reason)),
+            Shape::Fails { .. } => None,
+        })
+        .collect();
+    if fits.is_empty() {
+        return None;
+    }
+    let title = &view.meta().title;
+    let message = match fits.as_slice() {
+        [(s, note)] => format!(
+            "\"{written}\" is not {} {title} code; it {note}, so it looks like {} {} code. Check it in a list of its own with --system {}{}",
+            article(title),
+            s.article(),
+            s.title(),
+            s.name(),
+            if s.bundled() {
+                ", whose bundled index checks it fully"
+            } else {
+                "; rollcall checks that system by shape only"
+            }
+        ),
+        many => format!(
+            "\"{written}\" is not {article} {title} code; it has the shape of a code of {}. Say which system it is from (--system NAME) and check it in a list of its own",
+            many.iter()
+                .map(|(s, _)| format!("{} ({})", s.title(), s.name()))
+                .collect::<Vec<_>>()
+                .join(", "),
+            article = article(title)
+        ),
+    };
+    Some((fits.into_iter().map(|(s, _)| s).collect(), message))
+}
+
+/// When `code` is no code of `view` but a code of one of `others`: that
+/// system's name, a sentence, and the targets of its mapping into `view`'s
+/// vocabulary (the GEMs) with their flags in words and their status in
+/// the period.
+pub(crate) fn known_elsewhere(
+    view: &View<'_>,
+    others: &[View<'_>],
+    code: &str,
+    period: &Period,
+) -> Option<(String, String, Vec<Suggestion>)> {
+    let own = view.meta().vocabulary.as_str();
+    for other in others {
+        // A dot where the other system puts none (`E88.00` for E880.0) says
+        // the code is not from there.
+        let code::Resolved::Found { ord, changes } = code::resolve(other, code) else {
+            continue;
+        };
+        if changes.contains(&"dot moved") {
+            continue;
+        }
+        let meta = other.meta();
+        let shown = other.display(&other.code(ord));
+        let mut message = format!(
+            "{shown} is not {} {} code; it is {} {} code ({}), valid {}",
+            article(&view.meta().title),
+            view.meta().title,
+            article(&meta.title),
+            meta.title,
+            other.description_or_note(ord),
+            other
+                .billable(ord)
+                .map(|p| format!("{} to {}", p.from, p.to))
+                .collect::<Vec<_>>()
+                .join(", ")
+        );
+        let mut sugg = Vec::new();
+        // The mapping may live in either index (the GEMs of both directions
+        // are kept with ICD-9-CM).
+        let mapping = other
+            .mapping(&meta.vocabulary, own)
+            .or_else(|| view.mapping(&meta.vocabulary, own));
+        match mapping {
+            Some(m) => {
+                let rows = m.lookup(&other.code(ord));
+                let words = crate::translate::flag_words(&rows);
+                message.push_str(&format!("; {}: {words}", m.title));
+                for r in rows.iter().filter(|r| !r.flags.no_map) {
+                    let Some(t) = view.ordinal(&r.target) else {
+                        sugg.push(Suggestion {
+                            code: r.target.clone(),
+                            description: String::new(),
+                            reason: format!(
+                                "{} target, not in any {} release from {} on",
+                                m.title,
+                                view.meta().title,
+                                view.meta().coverage_from
+                            ),
+                        });
+                        continue;
+                    };
+                    let mut reason = crate::translate::row_words(&r.flags);
+                    if !view.billable_in(t, period) {
+                        reason.push_str(", but not billable in the period");
+                    }
+                    sugg.push(suggestion(view, t, reason));
+                }
+            }
+            None => message.push_str(&format!(
+                "; rollcall has no mapping from {} into {}",
+                meta.title,
+                view.meta().title
+            )),
+        }
+        return Some((meta.vocabulary.clone(), message, sugg));
+    }
+    None
+}
