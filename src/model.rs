@@ -93,8 +93,10 @@ pub struct CodeEntry {
     /// tabular list states at this node, if any.
     pub seventh: Option<u16>,
     /// Other official wordings of the code (ICD-10-CM: the tabular list's
-    /// inclusion terms). Only their words go into the index (the word map),
-    /// so [`crate::Index::to_release`] gives this back empty.
+    /// inclusion terms; HPO: synonyms). Their words go into the word map; the
+    /// text itself is kept only for a stated hierarchy ([`Hierarchy::Explicit`],
+    /// for the code card), so [`crate::Index::to_release`] gives this back
+    /// empty for a prefix hierarchy.
     pub terms: Vec<String>,
     /// The parents the release states, for a vocabulary whose hierarchy is
     /// explicit ([`Hierarchy::Explicit`]; several for an ontology such as

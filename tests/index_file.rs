@@ -144,8 +144,9 @@ fn every_description_word_lists_its_code() {
 
 /// The same for the sections of a stated hierarchy (the HPO index): bytes
 /// flipped inside the parent and child tables, codes to consider, status
-/// words and alternate ids give an error on open or answers, never a panic
-/// or a walk that does not end (a damaged table may form a cycle).
+/// words, alternate ids and synonyms give an error on open or answers,
+/// never a panic or a walk that does not end (a damaged table may form a
+/// cycle).
 #[test]
 fn damaged_graph_sections_never_panic() {
     let good = std::fs::read(root().join("vocab/hpo.rcx")).unwrap();
@@ -153,10 +154,10 @@ fn damaged_graph_sections_never_panic() {
     let count = u32_at(&good, 12) as usize;
     let ranges: Vec<(usize, usize)> = (0..count)
         .map(|i| 56 + i * 12)
-        .filter(|&d| [&b"GRPH"[..], b"CONS", b"STAT", b"ALTS"].contains(&&good[d..d + 4]))
+        .filter(|&d| [&b"GRPH"[..], b"CONS", b"STAT", b"ALTS", b"SYNS"].contains(&&good[d..d + 4]))
         .map(|d| (u32_at(&good, d + 4) as usize, u32_at(&good, d + 8) as usize))
         .collect();
-    assert_eq!(ranges.len(), 3, "GRPH, CONS and ALTS are present");
+    assert_eq!(ranges.len(), 4, "GRPH, CONS, ALTS and SYNS are present");
     let mut seed: u64 = 0x2545f4914f6cdd1d;
     let mut next = || {
         seed ^= seed << 13;
@@ -176,6 +177,12 @@ fn damaged_graph_sections_never_panic() {
         match Index::open(&b[..]) {
             Ok(idx) => {
                 opened += 1;
+                let _ = rollcall::card::cards(
+                    &idx,
+                    &[],
+                    &["HP:0001658", "HP:0001250"],
+                    &on("2026-01-01"),
+                );
                 let r = check(
                     &idx,
                     "HP:0001250\nHP:0002069\nHP:0001425\nHP:0000118\nHP:0004715\nHP:0012638\n",
@@ -183,7 +190,8 @@ fn damaged_graph_sections_never_panic() {
                 );
                 assert_eq!(r.summary.lines, 6);
                 let v = idx.view();
-                for o in [0, 1000, 19_000] {
+                for o in [0, 1000, 19_000, u32::MAX] {
+                    let _ = v.synonyms(o);
                     let _ = v.descendants(o).len();
                     let _ = v.ancestors(o).count();
                     let _ = v.category(o);

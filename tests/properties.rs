@@ -170,8 +170,9 @@ proptest! {
 
 /// A release that states its hierarchy: each code takes parents among the
 /// codes before it (so the links never form a cycle), some codes are
-/// retired with codes to consider, some carry a status word, and some have
-/// alternate ids.
+/// retired with codes to consider, some carry a status word, some have
+/// synonyms (the empty one and repeats among them, kept as given), and
+/// some have alternate ids.
 fn arb_stated_release() -> impl Strategy<Value = Release> {
     (
         proptest::collection::btree_set("[A-Z]{2}:[0-9]{1,4}", 1..120),
@@ -204,6 +205,9 @@ fn arb_stated_release() -> impl Strategy<Value = Release> {
                     if d % 5 == 1 {
                         e.status = ["TRIAL", "DISCOURAGED"][(d / 5 % 2) as usize].into();
                     }
+                    e.terms = (0..(d / 3 % 4) as usize)
+                        .map(|n| ["wording ä", "", "wording ä", "other"][n].to_string())
+                        .collect();
                     e
                 })
                 .collect();

@@ -11,10 +11,19 @@
 //! - `STAT`: the release's own status words (a count, the words, then one
 //!   byte per record: 0 for none, `k` for word `k - 1`).
 //! - `ALTS`: an `fst` map from alternate id to the ordinal it stands for.
+//! - `SYNS` (only for [`Hierarchy::Explicit`], when any record has one):
+//!   each record's other wordings ([`CodeEntry::terms`]: HPO synonyms) as
+//!   text, in the release's order, for the code card. A u32 per block of
+//!   [`REC_BLOCK`] records gives where its first record starts in the text
+//!   that follows; there each record is a varint count, then that many
+//!   strings. A prefix hierarchy keeps its other wordings only as words (an
+//!   ICD index stays the same bytes).
 //!
 //! [`Hierarchy::Explicit`]: crate::model::Hierarchy::Explicit
+//! [`CodeEntry::terms`]: crate::model::CodeEntry::terms
 
 use super::bytes::{u16_entry, u32_entry, In, Out};
+use super::REC_BLOCK;
 use crate::model::Release;
 use std::collections::HashMap;
 
@@ -119,6 +128,8 @@ pub struct Extra<'a> {
     pub status: Option<(&'a [u8], &'a [u8])>,
     /// Alternate ids.
     pub aliases: Option<&'a [u8]>,
+    /// Other wordings: the block starts and the text.
+    pub synonyms: Option<(&'a [u8], &'a [u8])>,
 }
 
 /// Why a code of a section named no record.
@@ -225,6 +236,25 @@ pub fn write(release: &Release, ordinal: &HashMap<&str, u32>) -> Result<Sections
         }
         out.push((*b"ALTS", b.into_inner().map_err(|e| e.to_string())?));
     }
+    if release.hierarchy == crate::model::Hierarchy::Explicit
+        && codes.iter().any(|c| !c.terms.is_empty())
+    {
+        let mut text = Out::default();
+        let mut blocks = Out::default();
+        for (i, c) in codes.iter().enumerate() {
+            if i % REC_BLOCK == 0 {
+                let at = u32::try_from(text.buf.len())
+                    .map_err(|_| "the other wordings pass 4 GiB".to_string())?;
+                blocks.u32(at);
+            }
+            text.varint(c.terms.len() as u32);
+            for t in &c.terms {
+                text.str(t);
+            }
+        }
+        blocks.buf.extend_from_slice(&text.buf);
+        out.push((*b"SYNS", blocks.buf));
+    }
     Ok(out)
 }
 
@@ -294,7 +324,67 @@ pub fn read<'a>(
         }
         extra.aliases = Some(b);
     }
+    if let Some(b) = find(b"SYNS") {
+        let head = n
+            .div_ceil(REC_BLOCK)
+            .checked_mul(4)
+            .filter(|&h| h <= b.len())
+            .ok_or("other wordings")?;
+        let (blocks, text) = b.split_at(head);
+        if check {
+            let mut prev = 0;
+            for i in 0..head / 4 {
+                let at = u32_entry(blocks, i).ok_or("other wordings")?;
+                if at < prev || at as usize > text.len() {
+                    return Err("other wordings");
+                }
+                prev = at;
+            }
+        }
+        extra.synonyms = Some((blocks, text));
+    }
     Ok(extra)
+}
+
+/// Skips one record's wordings in `r`; `None` when the text ends first.
+fn skip_wordings(r: &mut In) -> Option<()> {
+    let k = r.varint()?;
+    for _ in 0..k {
+        let len = r.varint()?;
+        r.take(len as usize)?;
+    }
+    Some(())
+}
+
+/// The other wordings of record `ord`, in the release's order: none for a
+/// record out of range or an index without them, and in a damaged section
+/// those read before the damage.
+pub fn synonyms_of(synonyms: Option<(&[u8], &[u8])>, ord: u32) -> Vec<String> {
+    let mut out = Vec::new();
+    let Some((blocks, text)) = synonyms else {
+        return out;
+    };
+    let i = ord as usize;
+    let Some(at) = u32_entry(blocks, i / REC_BLOCK) else {
+        return out;
+    };
+    let mut r = In::new(text);
+    r.pos = at as usize;
+    for _ in 0..i % REC_BLOCK {
+        if skip_wordings(&mut r).is_none() {
+            return out;
+        }
+    }
+    let Some(k) = r.varint() else {
+        return out;
+    };
+    for _ in 0..k {
+        match r.str() {
+            Some(t) => out.push(t.to_string()),
+            None => break,
+        }
+    }
+    out
 }
 
 /// The status word of record `ord`, if the release gave one.

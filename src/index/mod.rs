@@ -223,10 +223,11 @@ impl<D: AsRef<[u8]>> Index<D> {
             .ok_or(IndexError::Corrupt("word map"))?;
         let post = sec(b"POST", "word postings missing")?;
         let wlen = sec(b"WLEN", "word counts missing")?;
-        let extras: Vec<([u8; 4], (usize, usize))> = [*b"GRPH", *b"CONS", *b"STAT", *b"ALTS"]
-            .into_iter()
-            .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
-            .collect();
+        let extras: Vec<([u8; 4], (usize, usize))> =
+            [*b"GRPH", *b"CONS", *b"STAT", *b"ALTS", *b"SYNS"]
+                .into_iter()
+                .filter_map(|t| find.get(&t[..]).map(|&at| (t, at)))
+                .collect();
         extra::read(|t| slice_of(bytes, &extras, t), len, true).map_err(IndexError::Corrupt)?;
         // The code map states how many records there are: every size derived
         // from it is computed without overflow (a damaged map may claim any).
@@ -366,7 +367,7 @@ impl<D: AsRef<[u8]>> Index<D> {
                     })
                     .collect(),
                 seventh: v.own_seventh(o),
-                terms: Vec::new(),
+                terms: v.synonyms(o),
                 parents: match v.extra.graph {
                     Some(_) => v.parents(o).map(|p| v.code(p)).collect(),
                     None => Vec::new(),
@@ -922,6 +923,13 @@ impl<'a> View<'a> {
     /// The release's own status word for a code still in use (`DISCOURAGED`).
     pub fn status(&self, ord: u32) -> Option<&'a str> {
         extra::status_of(self.extra.status, ord)
+    }
+
+    /// The other wordings the release gives a record (HPO synonyms), as
+    /// written and in its order. Kept only for a stated hierarchy: empty for
+    /// a prefix hierarchy, whose other wordings are search words alone.
+    pub fn synonyms(&self, ord: u32) -> Vec<String> {
+        extra::synonyms_of(self.extra.synonyms, ord)
     }
 
     /// The code an alternate id stands for (HPO `alt_id`), written exactly.
