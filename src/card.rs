@@ -85,6 +85,10 @@ pub struct Card {
     /// Alternate ids that stand for it (HPO `alt_id`).
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub alternate_ids: Vec<String>,
+    /// Its other wordings, as the release writes them and in its order (a
+    /// stated hierarchy: HPO `synonym`); left out when there are none.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub synonyms: Vec<String>,
     /// The mapping rows that name it, as source or as target (the GEMs).
     pub mappings: Vec<MapLink>,
 }
@@ -275,6 +279,7 @@ fn blank(view: &View<'_>, code: String, status: &'static str) -> Card {
         predecessors: Vec::new(),
         consider: Vec::new(),
         alternate_ids: Vec::new(),
+        synonyms: Vec::new(),
         mappings: Vec::new(),
     }
 }
@@ -333,6 +338,7 @@ pub fn card_of(view: &View<'_>, others: &[View<'_>], ord: u32, period: &Period) 
             .filter(|(_, c)| *c == code)
             .map(|(a, _)| a)
             .collect();
+        card.synonyms = view.synonyms(ord);
     }
     card.timeline = timeline;
     card.mappings = mappings(view, others, &code);
@@ -823,7 +829,7 @@ fn unknown_card<D: AsRef<[u8]>>(
         None if written.is_empty() => Problem {
             message: format!(
                 "the code is empty; give {} {} code",
-                crate::check::article(&view.meta().title),
+                crate::report::article(&view.meta().title),
                 view.meta().title
             ),
             suggestions: Vec::new(),

@@ -121,7 +121,7 @@ fn resolve_stated(view: &View<'_>, written: &str) -> Resolved {
         return Resolved::Malformed {
             reason: format!(
                 "the code cell is empty; write {} {title} code",
-                crate::check::article(title)
+                crate::report::article(title)
             ),
         };
     }
@@ -172,7 +172,7 @@ fn resolve_stated(view: &View<'_>, written: &str) -> Resolved {
             return Resolved::Malformed {
                 reason: format!(
                     "\"{written}\" is not {} {title} code: {reason}",
-                    crate::check::article(title)
+                    crate::report::article(title)
                 ),
             }
         }

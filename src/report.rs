@@ -438,3 +438,12 @@ impl Report {
         self.summary.errors > 0
     }
 }
+
+/// `a` or `an` before a system's title (`an ICD-10-CM`).
+pub(crate) fn article(title: &str) -> &'static str {
+    if title.starts_with(['I', 'H', 'N', 'R', 'A', 'E', 'O']) && !title.starts_with("HCPCS") {
+        "an"
+    } else {
+        "a"
+    }
+}

@@ -87,10 +87,10 @@ fn a_multibyte_character_in_the_first_three_bytes_of_a_code_with_a_label() {
         description: 1.0,
     };
     for near in ["E1é", "I1€0", "é", "€", "E€"] {
-        let why = rollcall::label::reason(&view, &fit, near, e10);
+        let why = rollcall::check::labels::reason(&view, &fit, near, e10);
         assert!(!why.contains("same category"), "{near}: {why}");
     }
-    assert!(rollcall::label::reason(&view, &fit, "E109", e10).contains("same category"));
+    assert!(rollcall::check::labels::reason(&view, &fit, "E109", e10).contains("same category"));
     // The lines as a list, in each form a list may take.
     for text in [
         "E1é diabetes\nI1€0 hypertension\n",

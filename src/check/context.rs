@@ -94,7 +94,7 @@ pub(crate) struct Memo {
     pub(crate) malformed: HashMap<(String, Option<String>), Judged>,
     /// The label check of a code and label already judged.
     pub(crate) labels: HashMap<(u32, String), Option<Finding>>,
-    /// Labels that may still be searched for codes ([`crate::label::SEARCH_LIMIT`]).
+    /// Labels that may still be searched for codes ([`crate::check::labels::SEARCH_LIMIT`]).
     pub(crate) label_searches: usize,
 }
 
@@ -105,7 +105,7 @@ impl Default for Memo {
             unknown: HashMap::new(),
             malformed: HashMap::new(),
             labels: HashMap::new(),
-            label_searches: crate::label::SEARCH_LIMIT,
+            label_searches: crate::check::labels::SEARCH_LIMIT,
         }
     }
 }

@@ -206,8 +206,8 @@ pub(crate) fn judge(
                     Some(f) => f.clone(),
                     None => {
                         let left = &mut memo.label_searches;
-                        let f = crate::label::judge(view, &key.1, ord, period, left)
-                            .map(crate::label::Judgement::finding);
+                        let f = crate::check::labels::judge(view, &key.1, ord, period, left)
+                            .map(crate::check::labels::Judgement::finding);
                         memo.labels.insert(key, f.clone());
                         f
                     }

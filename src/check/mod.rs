@@ -6,7 +6,7 @@ use crate::code::{self, Resolved};
 use crate::date::Date;
 use crate::index::{Index, View};
 use crate::list::{Draft, LineKind, Reading};
-use crate::listcheck;
+use crate::report::article;
 use crate::model::{Period, Span, SpanKind};
 use crate::pattern::{self, Pattern};
 use crate::report::*;
@@ -14,6 +14,8 @@ use crate::systems::{self, Shape, System};
 use serde::Serialize;
 use std::collections::{HashMap, HashSet};
 
+pub mod labels;
+mod list_level;
 mod options;
 mod context;
 mod resolve;
@@ -300,7 +302,7 @@ fn run_draft<D: AsRef<[u8]>>(
     }
 
     // Pass 3: the whole list.
-    let list_findings = listcheck::run(&view, &period, &ctx);
+    let list_findings = list_level::run(&view, &period, &ctx);
     if want.coverage {
         extras.coverage = coverage_of(&view, &period, &ctx.reached);
     }

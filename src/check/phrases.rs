@@ -3,14 +3,6 @@
 
 use super::*;
 
-/// `a` or `an` before a system's title (`an ICD-10-CM`).
-pub(crate) fn article(title: &str) -> &'static str {
-    if title.starts_with(['I', 'H', 'N', 'R', 'A', 'E', 'O']) && !title.starts_with("HCPCS") {
-        "an"
-    } else {
-        "a"
-    }
-}
 
 pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
     Suggestion {

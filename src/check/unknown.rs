@@ -133,10 +133,10 @@ pub(crate) fn label_candidates(
         return Vec::new();
     }
     memo.label_searches -= 1;
-    crate::label::candidates(view, label, written, period, extra)
+    crate::check::labels::candidates(view, label, written, period, extra)
         .into_iter()
-        .take(crate::label::SUGGESTED)
-        .map(|(o, f)| (o, crate::label::reason(view, &f, written, o)))
+        .take(crate::check::labels::SUGGESTED)
+        .map(|(o, f)| (o, crate::check::labels::reason(view, &f, written, o)))
         .collect()
 }
 

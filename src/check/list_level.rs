@@ -3,7 +3,7 @@
 //! them present (`sibling-gap`), and a period running past what the index
 //! knows (`beyond-coverage`). `redundant` is judged per entry in `check`.
 
-use crate::check::{billable_under, name_codes, suggestion, ListContext, Marks, NAMED_LIMIT};
+use super::{billable_under, name_codes, suggestion, ListContext, Marks, NAMED_LIMIT};
 use crate::index::View;
 use crate::model::Period;
 use crate::pattern::Pattern;

@@ -286,7 +286,7 @@ pub fn judge(
     let suggestions = better
         .iter()
         .take(SUGGESTED)
-        .map(|(o, f)| crate::check::suggestion(view, *o, reason(view, f, &code, *o)))
+        .map(|(o, f)| super::suggestion(view, *o, reason(view, f, &code, *o)))
         .collect();
     Some(Judgement {
         label: label.to_string(),
