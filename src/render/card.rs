@@ -124,6 +124,12 @@ fn card_text(s: &mut String, c: &Card) {
         }
         return;
     }
+    if !c.synonyms.is_empty() {
+        let _ = writeln!(s, "  synonyms:");
+        for w in &c.synonyms {
+            let _ = writeln!(s, "    {w}");
+        }
+    }
     if !c.timeline.is_empty() {
         let _ = writeln!(s, "  timeline:");
         for t in &c.timeline {
