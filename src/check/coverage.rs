@@ -39,7 +39,11 @@ pub struct CategoryCoverage {
 }
 
 /// Coverage of every category the reached codes fall in, in code order.
-pub(crate) fn coverage_of(view: &View<'_>, period: &Period, reached: &Marks) -> Vec<CategoryCoverage> {
+pub(crate) fn coverage_of(
+    view: &View<'_>,
+    period: &Period,
+    reached: &Marks,
+) -> Vec<CategoryCoverage> {
     let mut cats: Vec<u32> = reached
         .into_iter()
         .map(|&o| view.category(o))

@@ -15,7 +15,11 @@ pub(crate) fn within_coverage(view: &View<'_>, period: &Period) -> Period {
 }
 
 /// The code's status on each part of the period, in order.
-pub(crate) fn segments(view: &View<'_>, ord: u32, period: &Period) -> Vec<(Period, Option<SpanKind>)> {
+pub(crate) fn segments(
+    view: &View<'_>,
+    ord: u32,
+    period: &Period,
+) -> Vec<(Period, Option<SpanKind>)> {
     let mut spans: Vec<(Period, SpanKind)> = view
         .billable(ord)
         .map(|p| (p, SpanKind::Billable))
@@ -355,4 +359,58 @@ pub(crate) fn judge_dates(
         ),
         sugg,
     ));
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::check::testing::*;
+    use crate::report::{Kind, Status};
+
+    /// A code retired before the period: its last valid day and its
+    /// successor are the finding's facts (the entries of `ten`).
+    #[test]
+    fn a_code_retired_before_the_period_names_its_last_day_and_successor() {
+        let r = check_ten("R00.1\n", "2020-01-01", "2020-12-31");
+        let e = &r.entries[0];
+        assert_eq!(e.status, Status::Retired);
+        let f = e.findings.iter().find(|f| f.kind == Kind::Retired).unwrap();
+        assert!(f.message.contains("2019-09-30"), "{}", f.message);
+        let offered: Vec<&str> = f.suggestions.iter().map(|s| s.code.as_str()).collect();
+        assert_eq!(offered, ["R00.11"]);
+    }
+
+    /// A code retired during the period is valid for part of it only.
+    #[test]
+    fn a_code_retired_during_the_period_covers_part_of_it() {
+        let r = check_ten("R00.1\n", "2019-01-01", "2020-12-31");
+        let kinds: Vec<Kind> = r.entries[0].findings.iter().map(|f| f.kind).collect();
+        assert!(kinds.contains(&Kind::PartialPeriod), "{kinds:?}");
+    }
+
+    /// A code added after the day checked is not yet valid; one added
+    /// during the period covers part of it.
+    #[test]
+    fn a_code_added_later_is_not_yet_valid_and_one_added_during_is_partial() {
+        let r = check_ten("U07.1\n", "2019-06-01", "2019-06-01");
+        assert_eq!(r.entries[0].status, Status::NotYetValid);
+        let r = check_ten("U07.1\n", "2020-01-01", "2020-12-31");
+        let f = r.entries[0]
+            .findings
+            .iter()
+            .find(|f| f.kind == Kind::PartialPeriod)
+            .expect("partial-period");
+        assert!(f.message.contains("2020-04-01"), "{}", f.message);
+    }
+
+    /// A code in use on every day of the period has no date finding.
+    #[test]
+    fn a_code_in_use_throughout_has_no_date_finding() {
+        let r = check_ten("I10\n", "2016-01-01", "2026-12-31");
+        assert_eq!(r.entries[0].status, Status::Valid);
+        assert!(
+            r.entries[0].findings.is_empty(),
+            "{:?}",
+            r.entries[0].findings
+        );
+    }
 }

@@ -260,3 +260,31 @@ fn sibling_gaps(view: &View<'_>, period: &Period, ctx: &ListContext) -> Vec<List
     out.sort_by_key(|f| f.lines.first().copied());
     out
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::check::testing::*;
+    use crate::report::Kind;
+
+    /// Every billable code under E11 listed: the two lines can be one
+    /// pattern (E11 itself is a header, so not a code of a billable list).
+    #[test]
+    fn every_billable_code_of_a_category_rolls_up() {
+        let r = check_ten("E11.9\nE11.65\n", "2020-01-01", "2020-12-31");
+        let up = r
+            .list_findings
+            .iter()
+            .find(|f| f.kind == Kind::RollUp)
+            .expect("roll-up");
+        assert_eq!(up.lines, [1, 2]);
+        assert_eq!(up.codes, ["E11.65", "E11.9"]);
+        assert_eq!(up.suggestions[0].code, "E11.*", "{up:?}");
+    }
+
+    /// The same code twice is a duplicate.
+    #[test]
+    fn the_same_code_twice_is_a_duplicate() {
+        let r = check_ten("I10\nI10\n", "2020-01-01", "2020-12-31");
+        assert!(r.list_findings.iter().any(|f| f.kind == Kind::Duplicate));
+    }
+}

@@ -6,39 +6,41 @@ use crate::code::{self, Resolved};
 use crate::date::Date;
 use crate::index::{Index, View};
 use crate::list::{Draft, LineKind, Reading};
-use crate::report::article;
 use crate::model::{Period, Span, SpanKind};
 use crate::pattern::{self, Pattern};
+use crate::report::article;
 use crate::report::*;
 use crate::systems::{self, Shape, System};
 use serde::Serialize;
 use std::collections::{HashMap, HashSet};
 
+mod context;
+mod coverage;
+mod dates;
+mod entry;
 pub mod labels;
 mod list_level;
 mod options;
-mod context;
-mod resolve;
 mod other_systems;
 mod phrases;
-mod unknown;
-mod entry;
-mod dates;
-mod retired;
 mod redundant;
-mod coverage;
+mod resolve;
+mod retired;
+#[cfg(test)]
+mod testing;
+mod unknown;
 
-pub use coverage::*;
-pub use options::*;
 pub(crate) use context::*;
-pub(crate) use phrases::*;
-use resolve::*;
-use other_systems::*;
-use unknown::*;
-use entry::*;
+pub use coverage::*;
 use dates::*;
-use retired::*;
+use entry::*;
+pub use options::*;
+use other_systems::*;
+pub(crate) use phrases::*;
 use redundant::*;
+use resolve::*;
+use retired::*;
+use unknown::*;
 
 /// Checks a list against an index for the period in `options`.
 ///

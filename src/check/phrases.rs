@@ -3,7 +3,6 @@
 
 use super::*;
 
-
 pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -> Suggestion {
     Suggestion {
         code: view.display(&view.code(ord)),

@@ -48,3 +48,23 @@ pub(crate) fn redundant(
         _ => None,
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use crate::check::testing::*;
+    use crate::report::Kind;
+
+    /// A code under a category the list already holds is redundant.
+    #[test]
+    fn a_child_of_a_listed_category_is_redundant() {
+        let r = check_ten("E11\nE11.9\n", "2020-01-01", "2020-12-31");
+        assert!(r.entries[1]
+            .findings
+            .iter()
+            .any(|f| f.kind == Kind::Redundant));
+        assert!(!r.entries[0]
+            .findings
+            .iter()
+            .any(|f| f.kind == Kind::Redundant));
+    }
+}

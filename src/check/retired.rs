@@ -19,7 +19,12 @@ pub(crate) fn successor_source(view: &View<'_>) -> &'static str {
 /// nodes are table positions) the codes in use under that node that share
 /// the most leading characters with the retired one, so every suggestion
 /// is a real code.
-pub(crate) fn nearest_in_use(view: &View<'_>, code: &str, ord: u32, period: &Period) -> Vec<Suggestion> {
+pub(crate) fn nearest_in_use(
+    view: &View<'_>,
+    code: &str,
+    ord: u32,
+    period: &Period,
+) -> Vec<Suggestion> {
     let Some((a, under)) = view.ancestors(ord).find_map(|a| {
         let under = billable_under(view, a, period);
         (!under.is_empty()).then_some((a, under))

@@ -165,7 +165,11 @@ pub(crate) fn seventh_codes(view: &View<'_>, code: &str) -> Vec<u32> {
 /// The near suggestions of a code with a 7th character its node does not
 /// allow, with every allowed one among them (those already offered keep
 /// their place and reasons).
-pub(crate) fn with_every_seventh(view: &View<'_>, code: &str, near: Vec<Suggestion>) -> Vec<Suggestion> {
+pub(crate) fn with_every_seventh(
+    view: &View<'_>,
+    code: &str,
+    near: Vec<Suggestion>,
+) -> Vec<Suggestion> {
     let seventh = seventh_codes(view, code);
     if seventh.is_empty() {
         return near;
@@ -213,4 +217,21 @@ pub(crate) fn seventh_note(view: &View<'_>, code: &str) -> Option<String> {
         view.display(&view.code(ord)),
         allowed.join(", ")
     ))
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::check::testing::*;
+    use crate::report::{Kind, Status};
+
+    /// A code one character from a real one is unknown, with the real one
+    /// offered.
+    #[test]
+    fn a_code_one_character_off_is_offered_the_real_one() {
+        let r = check_ten("I11\n", "2020-01-01", "2020-12-31");
+        let e = &r.entries[0];
+        assert_eq!(e.status, Status::Unknown);
+        let f = e.findings.iter().find(|f| f.kind == Kind::Unknown).unwrap();
+        assert!(f.suggestions.iter().any(|s| s.code == "I10"), "{f:?}");
+    }
 }

@@ -1,0 +1,125 @@
+//! Tiny indexes built in memory for the rule tests beside each file: a
+//! handful of code entries written through `index::write` and opened, so
+//! each rule is tested on one retired or one partial-period code at a time,
+//! without the bundled release.
+
+use crate::model::{Chapter, CodeEntry, Hierarchy, Meta, Period, Release, Section, Successor};
+use crate::{check, CheckOptions, Date, Index, Report};
+
+/// A day written `YYYY-MM-DD`.
+pub(crate) fn day(s: &str) -> Date {
+    Date::parse(s).expect("a test day")
+}
+
+/// The days `from` to `to`, both included.
+pub(crate) fn span(from: &str, to: &str) -> Period {
+    Period::new(day(from), day(to))
+}
+
+/// A code billable over `spans`.
+pub(crate) fn billable(code: &str, description: &str, spans: &[Period]) -> CodeEntry {
+    let mut e = CodeEntry::new(code, description);
+    e.billable = spans.to_vec();
+    e
+}
+
+/// A header over `spans`.
+pub(crate) fn header(code: &str, description: &str, spans: &[Period]) -> CodeEntry {
+    let mut e = CodeEntry::new(code, description);
+    e.header = spans.to_vec();
+    e
+}
+
+/// The whole coverage of the tiny index.
+pub(crate) fn always() -> Period {
+    span("2015-10-01", "2027-03-31")
+}
+
+/// Ten entries: a category with two billable codes (one under a
+/// subcategory), a code retired on 2019-09-30 with a successor from the
+/// next day, a code added on 2020-04-01, and a plain billable code.
+pub(crate) fn ten() -> Vec<CodeEntry> {
+    let a = always();
+    let mut retired = billable(
+        "R001",
+        "Bradycardia, unspecified",
+        &[span("2015-10-01", "2019-09-30")],
+    );
+    retired.successors = vec![Successor {
+        code: "R0011".into(),
+        effective: day("2019-10-01"),
+    }];
+    vec![
+        header("E11", "Type 2 diabetes mellitus", &[a]),
+        header(
+            "E116",
+            "Type 2 diabetes mellitus with other complications",
+            &[a],
+        ),
+        billable("E1165", "Type 2 diabetes mellitus with hyperglycemia", &[a]),
+        billable(
+            "E119",
+            "Type 2 diabetes mellitus without complications",
+            &[a],
+        ),
+        billable("I10", "Essential (primary) hypertension", &[a]),
+        header("R00", "Abnormalities of heart beat", &[a]),
+        retired,
+        billable(
+            "R0011",
+            "Sinus bradycardia",
+            &[span("2019-10-01", "2027-03-31")],
+        ),
+        header("U07", "Emergency use of U07", &[a]),
+        billable("U071", "COVID-19", &[span("2020-04-01", "2027-03-31")]),
+    ]
+}
+
+/// An index of `codes` (sorted here), opened and verified.
+pub(crate) fn index(mut codes: Vec<CodeEntry>) -> Index<Vec<u8>> {
+    codes.sort_by(|a, b| a.code.cmp(&b.code));
+    let release = Release {
+        meta: Meta {
+            vocabulary: "tiny".into(),
+            title: "Tiny".into(),
+            release: "T1".into(),
+            coverage_from: day("2015-10-01"),
+            coverage_to: day("2027-03-31"),
+            sources: Vec::new(),
+            dot_after: 3,
+            dot_rules: Vec::new(),
+            shapes: vec!["A99".into()],
+            notice: String::new(),
+        },
+        codes,
+        chapters: vec![Chapter {
+            name: "1".into(),
+            title: "All (A00-Z99)".into(),
+        }],
+        sections: vec![Section {
+            first: "A00".into(),
+            last: "Z99".into(),
+            title: "All".into(),
+            chapter: 0,
+        }],
+        seventh: Vec::new(),
+        mappings: Vec::new(),
+        hierarchy: Hierarchy::Prefix,
+        aliases: Vec::new(),
+        notes: Vec::new(),
+    };
+    let bytes = crate::index::write::write(&release).expect("a tiny index writes");
+    let index = Index::open(bytes).expect("and opens");
+    index.verify().expect("and verifies");
+    index
+}
+
+/// `text` checked against the ten entries for the period `from`..`to`.
+pub(crate) fn check_ten(text: &str, from: &str, to: &str) -> Report {
+    let opts = CheckOptions {
+        from: day(from),
+        to: day(to),
+        billable: false,
+    };
+    check(&index(ten()), text, &opts)
+}
