@@ -40,16 +40,7 @@ enum Start {
 /// Codes for `query` as of `day`, best first (see the module docs); the
 /// last word is taken as a prefix when `typing`.
 pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Finds {
-    // As `search::find`: a one-release vocabulary as of its release, and a
-    // day past the coverage as of its last day.
-    let meta = view.meta();
-    let day = if meta.snapshot() {
-        meta.coverage_from
-    } else if meta.open_ended() && day > meta.coverage_to {
-        meta.coverage_to
-    } else {
-        day
-    };
+    let day = view.meta().search_day(day);
     let limit = limit.max(1);
     let words_only = || Finds {
         within: None,

@@ -236,6 +236,20 @@ impl Meta {
         today.max(self.coverage_from).min(self.coverage_to)
     }
 
+    /// The day a search asked for `day` is made as of: a one-release
+    /// vocabulary (HPO) as of its release, and a day past the coverage of
+    /// an open-ended one as of its last covered day (the index knows
+    /// nothing later).
+    pub fn search_day(&self, day: Date) -> Date {
+        if self.snapshot() {
+            self.coverage_from
+        } else if self.open_ended() && day > self.coverage_to {
+            self.coverage_to
+        } else {
+            day
+        }
+    }
+
     /// Whether [`Meta::default_day`] is not `today`: the page and the CLI
     /// say so, since the day checked is then not the one a user expects.
     pub fn default_day_moved(&self, today: Date) -> bool {

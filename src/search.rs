@@ -623,16 +623,7 @@ pub struct Found {
 /// taken as a prefix when `typing` (search as you type). Codes in use on
 /// `day` are preferred.
 pub fn find(view: &View<'_>, query: &str, day: Date, limit: usize, typing: bool) -> Vec<Found> {
-    // A one-release vocabulary (HPO) is as of its release; past the last
-    // day an index covers, as of that day (it knows nothing later).
-    let meta = view.meta();
-    let day = if meta.snapshot() {
-        meta.coverage_from
-    } else if meta.open_ended() && day > meta.coverage_to {
-        meta.coverage_to
-    } else {
-        day
-    };
+    let day = view.meta().search_day(day);
     let opts = SearchOptions {
         limit,
         prefix_last: typing,
