@@ -5,22 +5,12 @@
 //! from any year's official files (see `--help`).
 
 mod assemble;
-mod codefile;
-mod conversion;
-mod csv;
 mod error;
-mod gems;
-mod history;
-mod loinc;
-mod obo;
-mod order;
-mod rxnorm;
+mod readers;
 mod stated;
-mod table;
-mod tabular;
-mod xml;
 
 use assemble::Inputs;
+use readers::*;
 use error::BuildError;
 use rollcall::model::Source;
 use rollcall::{Date, Period};

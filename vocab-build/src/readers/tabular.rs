@@ -2,7 +2,7 @@
 //! category ranges, and every `diag` node (categories, subcategories, codes)
 //! with its description and any 7th-character rule stated at it.
 
-use crate::xml::{Event, Reader, XmlError};
+use super::xml::{Event, Reader, XmlError};
 use rollcall::model::{Chapter, NoteKind, Section};
 
 /// One `diag` element.

@@ -2,7 +2,7 @@
 //! into terms. Columns are found by name in the header row, so the many
 //! other columns of the table may come in any order.
 
-use crate::csv::{column, records};
+use super::csv::{column, records};
 use crate::error::BuildError;
 use crate::stated::Term;
 use rollcall::systems::{shape, Shape, System};
