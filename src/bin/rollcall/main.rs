@@ -1,0 +1,77 @@
+//! The rollcall command line: argument parsing, output and exit status only;
+//! all checking is in the library.
+//!
+//! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
+//! input error.
+
+use rollcall::list::{Draft, Reading};
+use rollcall::mixed::{check_listed_draft, systems_named_in, Primary};
+use rollcall::systems::System;
+use rollcall::{render, CheckOptions, Date, Index, View};
+use std::io::Read;
+use std::process::ExitCode;
+
+mod args;
+mod check;
+mod compare;
+mod find;
+mod indexes;
+mod info;
+mod input;
+mod show;
+mod translate;
+
+use args::*;
+use find::*;
+use indexes::*;
+use input::*;
+
+fn run(argv: &[String]) -> Result<ExitCode, String> {
+    if argv.is_empty() || argv.iter().any(|a| a == "-h" || a == "--help") {
+        print!("{HELP}");
+        return Ok(ExitCode::SUCCESS);
+    }
+    if argv[0] == "--version" {
+        println!("rollcall {}", env!("CARGO_PKG_VERSION"));
+        return Ok(ExitCode::SUCCESS);
+    }
+    if argv[0] == "find" {
+        return find_command(&argv[1..]).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"));
+    }
+    let a = parse(argv).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"))?;
+    let format = a.format.clone().unwrap_or_else(|| "text".into());
+    if a.notes.is_some() && a.command != "show" {
+        return Err(format!(
+            "--notes goes with show (the notes are for code cards), not with {}",
+            a.command
+        ));
+    }
+    match a.command.as_str() {
+        "check" => check::run(&a, &format),
+        "compare" => compare::run(&a, &format),
+        "translate" => translate::run(&a, &format),
+        "info" => info::run(&a, &format),
+        "show" => show::run(&a, &format),
+        other => Err(format!(
+            "unknown command \"{other}\"; the commands are check, compare, translate, info, find and show (see rollcall --help)"
+        )),
+    }
+}
+
+fn write_out(s: &str) {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    // A closed pipe (rollcall ... | head) is not an error worth a message.
+    let _ = out.write_all(s.as_bytes());
+}
+
+fn main() -> ExitCode {
+    let argv: Vec<String> = std::env::args().skip(1).collect();
+    match run(&argv) {
+        Ok(code) => code,
+        Err(msg) => {
+            eprintln!("rollcall: {msg}");
+            ExitCode::from(2)
+        }
+    }
+}
