@@ -225,6 +225,8 @@ function checkerOptions(o) {
 
 /** The draft controls (reading, marks), once wired. */
 let draft = null;
+/** The code card, once wired. */
+let card = null;
 
 function writeOptions(o) {
   $("when-period").checked = o.mode === "period";
@@ -770,7 +772,12 @@ async function takeWorkbook(name, bytes) {
 // ---------------------------------------------------------------- wiring --
 
 function wire() {
-  draft = initDraft({ ask, onChange: runCheck });
+  draft = initDraft({
+    ask,
+    onChange: runCheck,
+    entries: () => (state.report ? state.report.entries : []),
+    openCard: (code, line) => card && card.open(code, line),
+  });
   // A finding leads to its code in the list (the code itself, in a draft).
   $("findings").addEventListener("click", (e) => {
     const b = e.target.closest("button.to-token");
@@ -917,7 +924,7 @@ async function main() {
   wire();
   initSearch({ ask, addToList: addFromSearch });
   renderGlossary($("glossary-list"));
-  initCard({
+  card = initCard({
     ask,
     loadNotes: () => (checker ? checker.loadNotes() : Promise.reject(new Error("the index is not loaded"))),
     options: () => checkerOptions(readOptions()),

@@ -95,9 +95,13 @@ export function initCard({ ask, loadNotes, options, coverage, addCodes, replaceL
   document.body.append(panel);
   let current = null; // { card, line }
   let asked = 0;
+  // What had the focus before the card took it (the list, a button), given
+  // it back on closing so the keyboard goes on from there.
+  let opener = null;
 
   async function open(code, line = current ? current.line : null) {
     const mine = ++asked;
+    if (!panel.contains(document.activeElement)) opener = document.activeElement;
     panel.hidden = false;
     panel.dataset.state = "loading";
     try {
@@ -140,8 +144,11 @@ export function initCard({ ask, loadNotes, options, coverage, addCodes, replaceL
   }
 
   function close() {
+    const inside = panel.contains(document.activeElement);
     panel.hidden = true;
     current = null;
+    if (inside && opener && opener.isConnected) opener.focus();
+    opener = null;
   }
 
   function section(title, ...children) {

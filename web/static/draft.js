@@ -1,7 +1,8 @@
 // The list as a draft: says how the checker read it, lets the user choose
-// another reading, marks in the list the words taken as codes, and leads
-// from a finding to its code in the list. The reading itself is the core's
-// (Checker.read / readDraft): nothing here decides what a code is.
+// another reading, marks in the list the words taken as codes, leads from a
+// finding to its code in the list and from a code in the list to its card.
+// The reading itself is the core's (Checker.read / readDraft): nothing here
+// decides what a code is or where it stands.
 
 function esc(s) {
   return String(s).replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]);
@@ -29,13 +30,19 @@ export function readingSentence(report) {
 
 /**
  * Wire the reading controls and the marks behind the list. `ask(type,
- * payload)` talks to the worker; `onChange()` re-checks.
+ * payload)` talks to the worker; `onChange()` re-checks; `entries()` are
+ * the last report's entries; `openCard(code, line)` opens a code's card.
  */
-export function initDraft({ ask, onChange }) {
+export function initDraft({ ask, onChange, entries, openCard }) {
   const list = document.getElementById("list");
   const marks = document.getElementById("list-marks");
   const select = document.getElementById("opt-reading");
+  const atCaret = document.getElementById("card-at-caret");
+  const caretStatus = document.getElementById("caret-status");
   let tokens = [];
+  // The text the tokens were read from: once the list is typed in, their
+  // places no longer hold until the next reading.
+  let marked = null;
   let seq = 0;
 
   const sync = () => {
@@ -51,11 +58,15 @@ export function initDraft({ ask, onChange }) {
     if (text.length > 400_000) {
       marks.textContent = "";
       tokens = [];
+      marked = null;
+      syncCaret();
       return;
     }
     const found = await ask("read", { text, reading: reading() });
     if (mine !== seq) return;
     tokens = found.tokens;
+    marked = text;
+    syncCaret();
     let html = "";
     let at = 0;
     for (const t of tokens) {
@@ -82,5 +93,54 @@ export function initDraft({ ask, onChange }) {
     return true;
   }
 
-  return { mark, reading, showToken };
+  /** The token taken as a code that the selection is in or next to. */
+  function tokenAtCaret() {
+    if (marked === null || list.value !== marked) return null;
+    const a = list.selectionStart;
+    const b = list.selectionEnd;
+    return tokens.find((t) => t.start <= b && a <= t.end) || null;
+  }
+
+  function syncCaret() {
+    const t = tokenAtCaret();
+    atCaret.disabled = !t;
+    if (t) caretStatus.textContent = "";
+  }
+
+  /**
+   * Open the card of the code at the caret. The code is the one the check
+   * took at the token's line and column (I5O.9 read as I50.9), so the card
+   * is of the code the findings speak of.
+   */
+  function openAtCaret() {
+    const t = tokenAtCaret();
+    if (!t) {
+      caretStatus.textContent = "The cursor is not in a code taken from the list.";
+      return false;
+    }
+    caretStatus.textContent = "";
+    const column = t.column ?? null;
+    const entry = entries().find((e) => e.line === t.line && (e.column ?? null) === column && e.code);
+    openCard(entry ? entry.code : t.code, t.line);
+    return true;
+  }
+
+  for (const type of ["keyup", "mouseup", "select", "focus"]) list.addEventListener(type, syncCaret);
+  document.addEventListener("selectionchange", syncCaret);
+  list.addEventListener("input", syncCaret);
+  list.addEventListener("keydown", (e) => {
+    if (e.key !== "Enter" || !e.altKey || e.ctrlKey || e.metaKey || e.shiftKey) return;
+    e.preventDefault();
+    openAtCaret();
+  });
+  list.addEventListener("dblclick", () => {
+    const t = tokenAtCaret();
+    if (!t) return;
+    // The word a double-click selects may stop short of the code (at its dot).
+    list.setSelectionRange(t.start, t.end);
+    openAtCaret();
+  });
+  atCaret.addEventListener("click", openAtCaret);
+
+  return { mark, reading, showToken, openAtCaret };
 }
