@@ -730,6 +730,9 @@ async function takeFile(file) {
       return;
     }
     const text = fileText(file.name, bytes);
+    // A text file after a workbook is checked as text, not as the workbook.
+    state.workbook = null;
+    draft.workbookDropped(false);
     setList(text, `Read ${file.name}.`);
     state.original = text;
     msg.className = "file-message";
@@ -745,9 +748,13 @@ async function takeFile(file) {
 /** A dropped workbook: checked from its bytes; its rows shown in the list. */
 async function takeWorkbook(name, bytes) {
   state.workbook = { name, bytes };
+  draft.workbookDropped(true);
+  const before = state.report;
   await runCheck();
   const r = state.report;
-  if (!r || !state.workbook) return;
+  // A workbook that could not be read leaves the last list's report.
+  if (!r || r === before || !state.workbook) return;
+  draft.readAsWorkbook(r);
   // The rows as read, sheet by sheet, for reading and for editing as text.
   const out = [];
   let sheet = null;
@@ -786,6 +793,7 @@ function wire() {
   });
   $("list").addEventListener("input", () => {
     state.workbook = null;
+    draft.workbookDropped(false);
     scheduleCheck();
   });
   for (const id of ["opt-on", "opt-from", "opt-to", "opt-billable"]) $(id).addEventListener("change", scheduleCheck);

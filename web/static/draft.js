@@ -37,6 +37,7 @@ export function initDraft({ ask, onChange, entries, openCard }) {
   const list = document.getElementById("list");
   const marks = document.getElementById("list-marks");
   const select = document.getElementById("opt-reading");
+  const asWorkbook = select.querySelector('option[value="workbook"]');
   const atCaret = document.getElementById("card-at-caret");
   const caretStatus = document.getElementById("caret-status");
   let tokens = [];
@@ -142,5 +143,33 @@ export function initDraft({ ask, onChange, entries, openCard }) {
   });
   atCaret.addEventListener("click", openAtCaret);
 
-  return { mark, reading, showToken, openAtCaret };
+  /**
+   * Whether a dropped workbook is the list. Only a file's bytes can be read
+   * as a workbook (text given that reading is read as a table), so the
+   * picker offers it only then; the marks go, for the rows shown are not
+   * the file the checker read.
+   */
+  function workbookDropped(on) {
+    asWorkbook.hidden = !on;
+    asWorkbook.disabled = !on;
+    if (on) {
+      // A new file starts from the checker's guess: a reading chosen for
+      // the text before would read no workbook's bytes.
+      if (select.value !== "workbook") select.value = "auto";
+      ++seq;
+      tokens = [];
+      marked = null;
+      marks.textContent = "";
+      syncCaret();
+    } else if (select.value === "workbook") {
+      select.value = "auto";
+    }
+  }
+
+  /** A dropped file the checker read as a workbook: the picker says so. */
+  function readAsWorkbook(report) {
+    if (!asWorkbook.disabled && report.reading && report.reading.as === "workbook") select.value = "workbook";
+  }
+
+  return { mark, reading, showToken, openAtCaret, workbookDropped, readAsWorkbook };
 }
