@@ -273,17 +273,38 @@ test("a workbook dropped on the page is checked as the CLI checks the file, the 
   await waitReady(page);
   const reader = () => page.requests.filter((u) => /rollcall-workbook/.test(u));
   assert.deepEqual(reader(), [], "the workbook reader is fetched before any workbook");
+  // Pasted text has no workbook reading to pick (text read so is read as a table).
+  const offered = () => page.$eval('#opt-reading option[value="workbook"]', (o) => !o.hidden && !o.disabled);
+  assert.equal(await offered(), false);
   await dropBook(page);
   assert.deepEqual(
     reader().map((u) => new URL(u).pathname),
     ["/rollcall-workbook.js", "/rollcall-workbook_bg.wasm"],
   );
   assert.match(await page.textContent("#file-message"), /“Notes” \(no codes\), “Codes” \(5 codes\)/);
+  // The picker says the file was read as a workbook.
+  assert.equal(await offered(), true);
+  assert.equal(await page.inputValue("#opt-reading"), "workbook");
+  assert.match(await page.$eval("#opt-reading", (s) => s.selectedOptions[0].textContent), /workbook/);
+  assert.match(await page.textContent("#reading-line"), /^Read as workbook: 5 codes/);
   // The JSON download is the CLI's report, field for field.
   const [dl] = await Promise.all([page.waitForEvent("download"), page.click("#download-json")]);
   const report = JSON.parse(fs.readFileSync(await dl.path(), "utf8"));
   assert.deepEqual(places(report), places(expected));
   assert.deepEqual(report, expected);
+  // The guess and the forced workbook reading read it the same.
+  for (const reading of ["auto", "workbook"]) {
+    const n = await page.evaluate(() => Number(document.body.dataset.checked || 0));
+    await page.selectOption("#opt-reading", reading);
+    await page.waitForFunction((k) => Number(document.body.dataset.checked || 0) > k && document.body.dataset.checking === "false", n, { timeout: 30_000 });
+    assert.match(await page.textContent("#reading-line"), /^Read as workbook: 5 codes/, reading);
+  }
+  // Edited, the list is text: the workbook reading goes from the picker.
+  await page.focus("#list");
+  await page.keyboard.press("Control+End");
+  await page.keyboard.type("\nE11.9");
+  assert.equal(await offered(), false);
+  assert.equal(await page.inputValue("#opt-reading"), "auto");
   assert.deepEqual(await page.evaluate(() => window.__csp), [], "CSP violations");
   assert.deepEqual(page.problems, []);
   await context.close();
