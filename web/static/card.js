@@ -227,6 +227,13 @@ export function initCard({ ask, loadNotes, options, coverage, addCodes, replaceL
       out.push(put);
     }
 
+    // The release's own wordings, as written (the HPO licence asks for content unaltered).
+    if ((card.synonyms || []).length) {
+      const ul = el("ul", "card-list card-synonyms");
+      for (const w of card.synonyms) ul.append(el("li", null, w));
+      out.push(section("Synonyms", ul));
+    }
+
     if (card.timeline.length) {
       const spans = card.timeline
         .filter((t) => t.state === "billable" || t.state === "header" || t.state === "in-use")
