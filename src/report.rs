@@ -76,6 +76,10 @@ pub enum Kind {
     ReleaseStatus,
     /// The period runs past the last day the index knows the vocabulary.
     BeyondCoverage,
+    /// A code of the list's system that is also, written the same way, a
+    /// code of another index at hand (ICD-9-CM's V10.3 beside ICD-10-CM's):
+    /// checked in the list's system.
+    TwoSystems,
 }
 
 impl Kind {
@@ -102,6 +106,7 @@ impl Kind {
             Kind::LabelUnrecognised => "label-unrecognised",
             Kind::ReleaseStatus => "release-status",
             Kind::BeyondCoverage => "beyond-coverage",
+            Kind::TwoSystems => "two-systems",
         }
     }
 }

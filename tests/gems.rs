@@ -158,6 +158,37 @@ fn an_old_code_in_a_new_list_gets_its_gem_targets() {
     assert_ne!(r.entries[1].system.as_deref(), Some("icd9cm"));
 }
 
+/// A code written the same way in both systems: V10.3 is an ICD-10-CM
+/// header (pedal cycle rider boarding or alighting, injured in a collision
+/// with a pedestrian or animal; FY2024 code file: V10.3XXA) and the
+/// ICD-9-CM code V10.3, "Personal history of malignant neoplasm of breast"
+/// (CMS32_DESC_LONG_DX.txt, V103). It is checked as ICD-10-CM, the list's
+/// system, with a note naming the other reading; E11.9, no ICD-9-CM code,
+/// gets none.
+#[test]
+fn a_code_of_both_systems_is_checked_in_the_lists_and_the_other_named() {
+    let (i9, cm) = (icd9_index(), index());
+    let r = check_among(&cm, &[i9.view()], "V10.3\nE11.9\n", &on("2024-01-01"));
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::Header);
+    let f = e
+        .findings
+        .iter()
+        .find(|f| f.kind == Kind::TwoSystems)
+        .expect("a two-systems note");
+    assert!(f.message.contains("ICD-9-CM"), "{}", f.message);
+    assert!(
+        f.message
+            .contains("Personal history of malignant neoplasm of breast"),
+        "{}",
+        f.message
+    );
+    assert!(!r.entries[1]
+        .findings
+        .iter()
+        .any(|f| f.kind == Kind::TwoSystems));
+}
+
 /// The reverse: an ICD-10-CM code in an ICD-9-CM list, with the ICD-10-CM
 /// index at hand, gets its backward GEM targets, which live in the ICD-9-CM
 /// index (2015 backward GEMs: "E119","25000","10000", approximate).

@@ -197,6 +197,9 @@ pub(crate) fn judge(
                 memo.dates
                     .insert(ord, (e.status, e.findings[before..].to_vec()));
             }
+            if let Some(f) = also_elsewhere(view, others, &code, &shown) {
+                e.findings.push(f);
+            }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);
             }

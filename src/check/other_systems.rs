@@ -123,3 +123,43 @@ pub(crate) fn known_elsewhere(
     }
     None
 }
+
+/// When `code`, a code of `view`, is also a code of another index at hand
+/// written the same way (ICD-10-CM's V10.3, a transport accident header,
+/// is ICD-9-CM's personal history of breast cancer): a note saying so, and
+/// that the list's own system was used. A form the other system writes
+/// with its dot elsewhere (`E88.0` against `E880`) is not the same code.
+pub(crate) fn also_elsewhere(
+    view: &View<'_>,
+    others: &[View<'_>],
+    code: &str,
+    shown: &str,
+) -> Option<Finding> {
+    let own = &view.meta().title;
+    others.iter().find_map(|other| {
+        let ord = other.ordinal(code)?;
+        if other.display(&other.code(ord)) != shown {
+            return None;
+        }
+        let meta = other.meta();
+        let spans = other
+            .billable(ord)
+            .chain(other.header(ord))
+            .map(|p| format!("{} to {}", p.from, p.to))
+            .collect::<Vec<_>>()
+            .join(", ");
+        Some(Finding::new(
+            Kind::TwoSystems,
+            Severity::Info,
+            format!(
+                "{shown} is also {} {} code ({}{}); it is checked as {} {own} code, the list's system. If the list meant the other, check it with that system",
+                article(&meta.title),
+                meta.title,
+                other.description_or_note(ord),
+                if spans.is_empty() { String::new() } else { format!(", valid {spans}") },
+                article(own),
+            ),
+            vec![],
+        ))
+    })
+}

@@ -16,6 +16,7 @@ export const KINDS = [
   ["sibling-gap", "Most, but not all, codes under a heading are in the list: the missing ones may have been forgotten."],
   ["pattern", "A pattern or range (such as E11.* or E08-E13), with the codes it stands for in your period."],
   ["beyond-coverage", "Your period runs past the last day the index knows this vocabulary; codes are judged up to that day, since no one can know yet what a later release adds or retires."],
+  ["two-systems", "The code is also a code of another system, written the same way; it was checked in your list's system. If you meant the other, check it with that system."],
   ["pattern-empty", "A pattern or range that stands for no code in your period."],
   ["other-system", "Not a code of the system checked, but shaped like a code of another one (an ICD-9-CM code in an ICD-10-CM list)."],
   ["shape-only", "Checked by its shape and check digit only: rollcall holds no content for this system, so it cannot tell whether the code exists."],
