@@ -448,6 +448,81 @@ fn a_workbook_is_read_sheet_by_sheet() {
     assert!(text.contains("\u{201c}Notes\u{201d} (no codes)"), "{text}");
 }
 
+/// An OpenDocument spreadsheet (`.ods`) of two sheets, written here with
+/// the parts the OASIS OpenDocument 1.2 format names (a stored `mimetype`
+/// first, `META-INF/manifest.xml`, the cells in `content.xml`; from memory):
+/// read as the `.xlsx` workbook above is, sheet by sheet.
+#[test]
+fn an_opendocument_spreadsheet_is_read_sheet_by_sheet() {
+    use std::io::Write;
+    let table = |name: &str, rows: &[&[&str]]| -> String {
+        let rows: String = rows
+            .iter()
+            .map(|cells| {
+                let cs: String = cells
+                    .iter()
+                    .map(|v| format!("<table:table-cell office:value-type=\"string\"><text:p>{v}</text:p></table:table-cell>"))
+                    .collect();
+                format!("<table:table-row>{cs}</table:table-row>")
+            })
+            .collect();
+        format!("<table:table table:name=\"{name}\">{rows}</table:table>")
+    };
+    let content = format!(
+        "<?xml version=\"1.0\" encoding=\"UTF-8\"?><office:document-content xmlns:office=\"urn:oasis:names:tc:opendocument:xmlns:office:1.0\" xmlns:table=\"urn:oasis:names:tc:opendocument:xmlns:table:1.0\" xmlns:text=\"urn:oasis:names:tc:opendocument:xmlns:text:1.0\" office:version=\"1.2\"><office:body><office:spreadsheet>{}{}</office:spreadsheet></office:body></office:document-content>",
+        table("Notes", &[&["Larkfield study: draft list"]]),
+        table(
+            "Codes",
+            &[
+                &["Code", "Description"],
+                &["E11.9", "Type 2 diabetes mellitus without complications"],
+                &["I50.22", "Chronic systolic (congestive) heart failure"],
+            ]
+        ),
+    );
+    let mut buf = std::io::Cursor::new(Vec::new());
+    {
+        let mut z = zip::ZipWriter::new(&mut buf);
+        let stored = zip::write::SimpleFileOptions::default()
+            .compression_method(zip::CompressionMethod::Stored);
+        z.start_file("mimetype", stored).unwrap();
+        z.write_all(b"application/vnd.oasis.opendocument.spreadsheet")
+            .unwrap();
+        let opt = zip::write::SimpleFileOptions::default();
+        z.start_file("META-INF/manifest.xml", opt).unwrap();
+        z.write_all(b"<?xml version=\"1.0\" encoding=\"UTF-8\"?><manifest:manifest xmlns:manifest=\"urn:oasis:names:tc:opendocument:xmlns:manifest:1.0\" manifest:version=\"1.2\"><manifest:file-entry manifest:full-path=\"/\" manifest:media-type=\"application/vnd.oasis.opendocument.spreadsheet\"/><manifest:file-entry manifest:full-path=\"content.xml\" manifest:media-type=\"text/xml\"/></manifest:manifest>").unwrap();
+        z.start_file("content.xml", opt).unwrap();
+        z.write_all(content.as_bytes()).unwrap();
+        z.finish().unwrap();
+    }
+    let d = read_bytes(&buf.into_inner(), Reading::Auto).unwrap();
+    assert_eq!(d.facts.reading, Reading::Workbook);
+    let sheets: Vec<(&str, usize)> = d
+        .facts
+        .sheets
+        .iter()
+        .map(|s| (s.name.as_str(), s.codes))
+        .collect();
+    assert_eq!(sheets, [("Notes", 0), ("Codes", 2)]);
+    let got: Vec<(String, Option<&str>, Option<usize>)> = d
+        .lines
+        .iter()
+        .filter_map(|l| match &l.kind {
+            LineKind::Entry { code, .. } => {
+                Some((code.clone(), l.place.sheet.as_deref(), l.place.row))
+            }
+            _ => None,
+        })
+        .collect();
+    assert_eq!(
+        got,
+        [
+            ("E11.9".to_string(), Some("Codes"), Some(2)),
+            ("I50.22".to_string(), Some("Codes"), Some(3)),
+        ]
+    );
+}
+
 fn billable_2024() -> Vec<String> {
     let idx = index();
     let v = idx.view();
