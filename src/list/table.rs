@@ -53,6 +53,18 @@ pub(crate) const SYSTEM_WORDS: &[&str] = &[
     "systemuri",
     "systemurl",
 ];
+/// Headings of a column that groups the codes rather than describing each
+/// one (common practice in code-list tables: a category, a code set, the
+/// phenotype or study arm a code belongs to).
+const GROUP_WORDS: &[&str] = &[
+    "category",
+    "group",
+    "codeset",
+    "phenotype",
+    "domain",
+    "cohort",
+];
+
 pub(crate) const LABEL_WORDS: &[&str] = &[
     "description",
     "desc",
@@ -291,9 +303,18 @@ pub fn detect(text: &str) -> Detected {
         None
     }
     .or_else(|| {
-        // The column with the most letters that is not the code column.
+        // The column with the most letters that is not the code column,
+        // nor one whose heading names a grouping of the codes (Elixhauser's
+        // `category`: every code of a group shares it, so it is no label).
         (0..width)
             .filter(|&i| i != code && Some(i) != system)
+            .filter(|&i| {
+                !has_headings
+                    || !first
+                        .get(i)
+                        .and_then(|c| heading_word(c))
+                        .is_some_and(|w| GROUP_WORDS.iter().any(|g| w.starts_with(g)))
+            })
             .max_by_key(|&i| {
                 body.iter()
                     .map(|r| {
@@ -531,5 +552,20 @@ mod tests {
         ));
         // Without headings there is no system column.
         assert_eq!(detect("E11.9\tType 2 DM\n").system, None);
+    }
+
+    /// A column headed `category` groups the codes: with no description
+    /// column beside it, the list has no labels (the Elixhauser layout
+    /// without its description column).
+    #[test]
+    fn a_grouping_column_is_not_a_label() {
+        let labels: Vec<_> = entries("category,icd10cm\nAUTOIMMUNE,A1801\nAUTOIMMUNE,A1802\n")
+            .into_iter()
+            .map(|(_, l)| l)
+            .collect();
+        assert_eq!(labels, [None, None]);
+        let with =
+            entries("category,icd10cm,description\nAUTOIMMUNE,A1801,Tuberculosis of spine\n");
+        assert_eq!(with[0].1.as_deref(), Some("Tuberculosis of spine"));
     }
 }
