@@ -14,7 +14,7 @@ import { rowsHtml, wireFindings, focusRow, resetTabStop } from "./findings.js";
 import { renderGlossary } from "./glossary.js";
 import { EditHistory } from "./undo.js";
 import { renderChanges } from "./changes.js";
-import { pageWords, titleOf, creditOf } from "./wording.js";
+import { pageWords, titleOf, creditOf, siteCreditOf } from "./wording.js";
 import { initCard } from "./card.js";
 
 const $ = (id) => document.getElementById(id);
@@ -24,6 +24,10 @@ const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
 // Systems with a bundled index (manifest-NAME.json beside the page); the
 // others in the "Code system" menu are checked by shape and check digit.
 const BUNDLED = new Set(["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
+// A site's own indexes (site-indexes.json beside the page) are picked by
+// this prefix and their name there, so a link keeps the pick.
+const SITE = "site:";
+const siteIndexes = new Map(); // picker value -> {name, manifest}
 
 // --------------------------------------------------------------- checker --
 
@@ -48,6 +52,9 @@ const state = {
   seq: 0,
   timer: 0,
   shapes: null, // a shape-only system picked in the menu, or null
+  indexKey: null, // the menu's value for the loaded index (a system name, or SITE + a site index's name)
+  site: null, // the loaded index's entry when it is one of the site's own
+  linkSystem: "", // the system a restored link asked for (a site index is in the menu only once the site's list is read)
   loaded: [], // the systems whose indexes the worker has loaded
   original: null, // the list as pasted (read from a file, a link, the demo), for the changes view
   pageText: null, // what the page last wrote into the list (its undo keys apply while the list still holds it)
@@ -91,7 +98,8 @@ function showProgress(got, total) {
 /** Opens the index of another system (fetched the first time it is asked for). */
 async function switchSystem(name) {
   const box = $("options-error");
-  if (!BUNDLED.has(name)) {
+  const site = siteIndexes.get(name) || null;
+  if (!BUNDLED.has(name) && !site) {
     // No content to load: the loaded index stays for rows naming its system.
     state.shapes = name;
     box.hidden = true;
@@ -101,28 +109,33 @@ async function switchSystem(name) {
   }
   const wasShapes = state.shapes;
   state.shapes = null;
-  if (state.info && state.info.vocabulary === name) {
+  if (state.info && state.indexKey === name) {
     if (wasShapes) {
       showSystem();
       runCheck();
     }
     return;
   }
-  $("check-status").textContent = `Loading the ${titleOf(name)} index…`;
+  const title = site ? site.manifest.title : titleOf(name);
+  $("check-status").textContent = `Loading the ${title} index…`;
   document.body.dataset.state = "loading";
   try {
-    const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
-    const manifest = await readManifest(file);
+    // A site index's manifest was read (and checked) with the site's list.
+    const manifest = site
+      ? site.manifest
+      : await readManifest(name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`);
     const opened = await open(manifest.file, { manifest, onProgress: showProgress });
     if (checker) checker.close();
     checker = opened;
+    state.indexKey = name;
+    state.site = site;
     box.hidden = true;
     showIndexReady(opened.info);
     runCheck();
   } catch (e) {
     box.hidden = false;
-    box.textContent = `Could not load the ${titleOf(name)} index: ${e.message.replace(/^Error: /, "")}`;
-    $("opt-system").value = wasShapes || (state.info ? state.info.vocabulary : "icd10cm");
+    box.textContent = `Could not load the ${title} index: ${e.message.replace(/^Error: /, "")}`;
+    $("opt-system").value = wasShapes || state.indexKey || "icd10cm";
     state.shapes = wasShapes;
     showSystem();
     document.body.dataset.state = state.info ? "ready" : "index-error";
@@ -173,7 +186,7 @@ function showSystem() {
   const p = $("index-ready");
   p.hidden = false;
   const indexWords =
-    `${esc(info.title)} index, release <strong id="index-release">${esc(info.release)}</strong>, ` +
+    `${esc(info.title)} index${state.site ? " (this site's own)" : ""}, release <strong id="index-release">${esc(info.release)}</strong>, ` +
     (info.coverage_from === info.coverage_to
       ? `one release only: terms are checked as of it, and study dates do not apply to them `
       : `covers <strong>${esc(info.coverage_from)}</strong> to <strong>${esc(info.coverage_to)}</strong> `) +
@@ -182,7 +195,7 @@ function showSystem() {
     ? `<span aria-hidden="true">✓</span> <strong>${esc(titleOf(state.shapes))}</strong>: checked by shape and check digit only (rollcall holds none of its content). ` +
       `<span class="hint">Rows whose system column names ${esc(info.title)} are checked against its ${indexWords.replace(/ id="index-release"/, "")}</span>`
     : `<span aria-hidden="true">✓</span> ${indexWords}`;
-  p.dataset.system = state.shapes || info.vocabulary;
+  p.dataset.system = state.shapes || state.indexKey || info.vocabulary;
   const today = new Date().toISOString().slice(0, 10);
   const day = info.default_day || today;
   $("on-hint").textContent = state.shapes
@@ -193,13 +206,72 @@ function showSystem() {
         ? `Empty means ${day}, not today: the ${info.title} index covers ${info.coverage_from} to ${info.coverage_to}, and a day outside it would make every code read as retired or not yet valid.`
         : `Empty means today (${today}, UTC). The index covers ${info.coverage_from} to ${info.coverage_to}.`;
   $("on-hint").dataset.defaultDay = state.shapes ? today : day;
-  $("source-credit").textContent = creditOf(state.shapes || info.vocabulary);
+  $("source-credit").textContent =
+    state.site && !state.shapes ? siteCreditOf(info.title) : creditOf(state.shapes || info.vocabulary);
   // The credit the release's licence asks for (HPO), shown while its index is in use.
   const notice = $("index-notice");
   notice.textContent = info.notice || "";
   notice.hidden = !info.notice;
   $("source-files").textContent =
     !state.shapes && info.sources.length ? `Built from: ${info.sources.map((s) => `${s.file} (${s.role})`).join("; ")}.` : "";
+}
+
+// ---------------------------------------------------- the site's indexes --
+
+/** The menu's words for a site index: its title, release and coverage. */
+function siteLabel(m) {
+  const covers = m.coverage_from === m.coverage_to ? "one release" : `covers ${m.coverage_from} to ${m.coverage_to}`;
+  return `${m.title}, release ${m.release} (${covers})`;
+}
+
+/**
+ * Offer the indexes the site lists in site-indexes.json in the "Code system"
+ * menu (the worker reads the file and each manifest, by the binding's
+ * rules). None listed, or no such file: the menu stays as built. A file or
+ * manifest that cannot be used is named above the menu.
+ */
+async function loadSiteIndexes() {
+  // The single-file page has no folder to hold them.
+  if (embedded) return;
+  const box = $("site-indexes-message");
+  let site;
+  try {
+    site = await ask("site");
+  } catch (e) {
+    box.hidden = false;
+    box.textContent = `This site's own indexes are not offered: ${e.message.replace(/^Error: /, "")}.`;
+    document.body.dataset.siteIndexes = "error";
+    return;
+  }
+  const pick = $("opt-system");
+  if (site.indexes.length) {
+    const group = document.createElement("optgroup");
+    group.label = "This site's own indexes";
+    group.id = "site-indexes";
+    for (const s of site.indexes) {
+      siteIndexes.set(SITE + s.name, s);
+      const o = document.createElement("option");
+      o.value = SITE + s.name;
+      o.textContent = siteLabel(s.manifest);
+      group.append(o);
+    }
+    // Before the shape-only systems: these hold content, as the bundled ones do.
+    pick.insertBefore(group, pick.querySelector("optgroup"));
+  }
+  box.hidden = !site.problems.length;
+  box.textContent = site.problems.length
+    ? `Not offered from this site's own indexes: ${site.problems.map((p) => p.message).join("; ")}.`
+    : "";
+  document.body.dataset.siteIndexes = String(site.indexes.length);
+  // A link made with a site index picked: pick it again, or say why not.
+  const asked = state.linkSystem;
+  if (asked.startsWith(SITE)) {
+    if (siteIndexes.has(asked)) pick.value = asked;
+    else {
+      $("link-status").textContent =
+        `This link was checked against this site's index “${asked.slice(SITE.length)}”, which the site no longer offers; pick another under Code system.`;
+    }
+  }
 }
 
 // --------------------------------------------------------------- options --
@@ -245,7 +317,7 @@ function writeOptions(o) {
 /** Check the list in the system the menu shows, switching to it first when needed. */
 function checkPicked() {
   const want = $("opt-system").value;
-  const now = state.shapes || (state.info ? state.info.vocabulary : "icd10cm");
+  const now = state.shapes || state.indexKey || "icd10cm";
   if (want !== now) switchSystem(want);
   else runCheck();
 }
@@ -709,6 +781,7 @@ async function restoreLink() {
     $("list").value = s.text;
     state.original = s.text;
     writeOptions(s.options);
+    state.linkSystem = s.options.system;
     if (s.b) compareView.setB(s.b);
     $("link-status").textContent = "List and options restored from the link.";
     return true;
@@ -950,11 +1023,13 @@ async function main() {
     showIndexError(e.message);
     return;
   }
+  state.indexKey = info.vocabulary;
   showIndexReady(info);
   compareView.enable();
   await restored;
+  await loadSiteIndexes();
   syncDemo();
-  if ($("list").value.trim() || $("opt-system").value !== info.vocabulary) checkPicked();
+  if ($("list").value.trim() || $("opt-system").value !== state.indexKey) checkPicked();
 }
 
 main();

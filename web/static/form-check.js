@@ -14,7 +14,7 @@
 //   <textarea name="codes" data-rollcall-check="icd10cm" data-rollcall-from="2019-01-01"
 //             data-rollcall-to="2024-12-31" data-rollcall-billable></textarea>
 
-import { open } from "./rollcall.js";
+import { open, openSite } from "./rollcall.js";
 
 const HERE = new URL(".", import.meta.url);
 const SUMMARY_FORMAT = "rollcall-summary/1";
@@ -58,6 +58,13 @@ const checkers = new Map();
 function checkerFor(indexUrl, manifestUrl) {
   const key = `${indexUrl} ${manifestUrl}`;
   if (!checkers.has(key)) checkers.set(key, open(indexUrl, { manifest: manifestUrl }));
+  return checkers.get(key);
+}
+
+/** One checker per site index (by its name in site-indexes.json), shared the same way. */
+function checkerForSite(name) {
+  const key = `site ${name}`;
+  if (!checkers.has(key)) checkers.set(key, openSite(name));
   return checkers.get(key);
 }
 
@@ -160,7 +167,9 @@ class FormList {
         : new URL("index-manifest.json", HERE).href;
     this.setState("loading");
     this.status.textContent = "Loading the index to check this list…";
-    this.ready = checkerFor(indexUrl, manifestUrl).then(
+    // A site's own index, named as site-indexes.json beside this file lists it.
+    const site = textarea.dataset.rollcallSite;
+    this.ready = (site ? checkerForSite(site) : checkerFor(indexUrl, manifestUrl)).then(
       (checker) => {
         this.checker = checker;
         const want = textarea.dataset.rollcallCheck;

@@ -73,8 +73,10 @@ export async function decodeState(fragment) {
       to: typeof o.to === "string" ? o.to : "",
       billable: o.billable === true,
       mode: o.mode === "period" ? "period" : "on",
-      // A system name only (checked against the menu by the page).
-      system: typeof o.system === "string" && /^[a-z0-9]{2,12}$/.test(o.system) ? o.system : "",
+      // A system name, or "site:" and the name of a site's own index (its
+      // manifest's file name); checked against the menu by the page.
+      system:
+        typeof o.system === "string" && /^(?:[a-z0-9]{2,12}|site:[A-Za-z0-9][A-Za-z0-9._-]{0,119})$/.test(o.system) ? o.system : "",
     },
   };
 }

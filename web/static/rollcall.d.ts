@@ -302,6 +302,29 @@ export class Checker {
 /** Start a worker, load and verify an index. Rejects with a readable message. */
 export function open(source: IndexSource, options?: OpenOptions): Promise<Checker>;
 
+/** One of a site's own indexes: its name in site-indexes.json (its manifest's file name) and that manifest. */
+export interface SiteIndex {
+  name: string;
+  manifest: IndexManifest & { file: string };
+}
+
+/** What site-indexes.json beside rollcall.js offers. */
+export interface SiteIndexes {
+  /** The file's name: site-indexes.json. */
+  file: string;
+  /** False when the site has no such file (it then has no indexes of its own). */
+  found: boolean;
+  indexes: SiteIndex[];
+  /** Each listed manifest that is missing or wrong (left out of `indexes`), and why. */
+  problems: { name: string; message: string }[];
+}
+
+/** The site's own indexes, each manifest checked. Rejects with a readable message when site-indexes.json is malformed. */
+export function siteIndexes(): Promise<SiteIndexes>;
+
+/** Open one of the site's own indexes by its name in site-indexes.json; verified against its manifest. */
+export function openSite(name: string, options?: Pick<OpenOptions, "onProgress">): Promise<Checker>;
+
 /** A manifest object as it is, or fetched from its URL and checked for shape. */
 export function readManifest(manifest: IndexManifest | string | URL | null | undefined): Promise<IndexManifest | null>;
 

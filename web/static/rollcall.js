@@ -3,9 +3,10 @@
 // Worker that this module starts and owns, so a long check never blocks the
 // page. Types: rollcall.d.ts next to this file.
 //
-//   import { open } from "./rollcall.js";
+//   import { open, openSite } from "./rollcall.js";
 //   const checker = await open("icd10cm.rcx", { manifest: "index-manifest.json" });
 //   const report = await checker.check("E11.9\nE11\n", { from: "2019-01-01", to: "2024-12-31", billable: true });
+//   const labs = await openSite("loinc-manifest.json"); // an index the site lists in site-indexes.json
 
 /** The folder this module was loaded from: worker.js, the Wasm and the index sit beside it. */
 const HERE = new URL(".", import.meta.url);
@@ -290,22 +291,74 @@ export async function open(source, options = {}) {
   const channel = new Channel(worker);
   try {
     if (options.wasm) await channel.ask("init", { wasm: options.wasm });
-    const manifest = await readManifest(options.manifest);
-    const bytes = await indexBytes(source, manifest && manifest.byte_length, options.onProgress);
-    const got = bytes.byteLength; // the buffer moves to the worker
-    let info;
-    try {
-      info = await channel.ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
-    } catch (e) {
-      let msg = messageOf(e);
-      if (manifest && got !== manifest.byte_length) {
-        msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
-      }
-      throw new Error(msg);
-    }
-    return new Checker(channel, info, options.notes || null);
+    return await openIn(channel, source, options);
   } catch (e) {
     channel.close();
     throw e;
   }
+}
+
+/**
+ * A site's own indexes: those `site-indexes.json` beside this module lists
+ * (built with vocab-build, their manifests written by index-manifest; see
+ * the README). Resolves to `{file, found, indexes: [{name, manifest}],
+ * problems: [{name, message}]}`: `found` is false when the site has no
+ * such file, and each listed manifest that is missing or wrong is left out
+ * of `indexes` and named in `problems`. Rejects with a readable message when the file itself
+ * is malformed.
+ */
+export async function siteIndexes() {
+  const channel = new Channel(new Worker(new URL("worker.js", HERE)));
+  try {
+    return await channel.ask("site");
+  } finally {
+    channel.close();
+  }
+}
+
+/**
+ * Open one of the site's own indexes by its name in `site-indexes.json`
+ * (its manifest's file name): the index is fetched from beside this module
+ * and verified against that manifest. Options: `onProgress`, as for `open`.
+ */
+export async function openSite(name, options = {}) {
+  const channel = new Channel(new Worker(new URL("worker.js", HERE)));
+  try {
+    const site = await channel.ask("site");
+    const entry = site.indexes.find((s) => s.name === name);
+    if (!entry) throw new Error(notOffered(String(name), site));
+    return await openIn(channel, new URL(entry.manifest.file, HERE), { ...options, manifest: entry.manifest });
+  } catch (e) {
+    channel.close();
+    throw e;
+  }
+}
+
+/** Why a site index asked for by name cannot be opened, and what to do. */
+function notOffered(name, site) {
+  if (!site.found) {
+    return `the site lists no indexes of its own (there is no ${site.file} beside rollcall.js), so there is no “${name}”; see the README, “A site's own index on the page”`;
+  }
+  const problem = site.problems.find((p) => p.name === name);
+  if (problem) return `the site's index “${name}” cannot be used: ${problem.message}`;
+  const names = site.indexes.map((s) => s.name);
+  return `${site.file} lists no index “${name}”; ${names.length ? `it lists ${names.join(", ")}` : "it lists none"}`;
+}
+
+/** Load and verify an index in a started worker; resolves to a Checker. */
+async function openIn(channel, source, options) {
+  const manifest = await readManifest(options.manifest);
+  const bytes = await indexBytes(source, manifest && manifest.byte_length, options.onProgress);
+  const got = bytes.byteLength; // the buffer moves to the worker
+  let info;
+  try {
+    info = await channel.ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
+  } catch (e) {
+    let msg = messageOf(e);
+    if (manifest && got !== manifest.byte_length) {
+      msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
+    }
+    throw new Error(msg);
+  }
+  return new Checker(channel, info, options.notes || null);
 }

@@ -54,3 +54,8 @@ export function creditOf(name) {
     `${titleOf(name)} is checked by the shape and check digit of its codes only: rollcall holds none of its content.`
   );
 }
+
+/** The footer's credit while one of the site's own indexes is in use (its licence notice is shown beside it). */
+export function siteCreditOf(title) {
+  return `${title} is checked against this site's own index, built by the site from a release it holds under its own licence; rollcall ships none of its content and is not affiliated with or endorsed by its publisher.`;
+}

@@ -38,6 +38,12 @@
 //      (the index's notes file, for cards: fetched beside this file by the
 //      manifest the binding names, or given, as the single-file page does)
 //   <- {id, ok: true, result: true | false}   (false: the system keeps no notes)
+//   -> {id, type: "site"}
+//   <- {id, ok: true, result: {file, found, indexes: [{name, manifest}], problems: [{name, message}]}}
+//      (a site's own indexes: site-indexes.json beside this file lists their
+//      manifests, each checked by the binding; found false: the site has no
+//      such file (404); a listed manifest that is missing or wrong is left
+//      out and named in problems; a malformed site file fails the request)
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen, rollcall_workbook, WORKBOOK_WASM_GZ */
 "use strict";
@@ -228,6 +234,43 @@ function notes(given, givenManifest) {
   return notesReady;
 }
 
+// A site's own indexes (built with vocab-build from releases it holds),
+// listed by their manifests in a file beside the page. The binding holds the
+// rules for the file and each manifest; the index itself is verified against
+// its manifest by "load" once it is picked.
+async function siteIndexes() {
+  const file = wasm_bindgen.siteIndexesFile();
+  let res;
+  try {
+    res = await fetch(`./${file}`, { cache: "no-cache" });
+  } catch (e) {
+    throw new Error(`${file} could not be fetched (${e.message})`);
+  }
+  if (res.status === 404) return { file, found: false, indexes: [], problems: [] };
+  if (!res.ok) throw new Error(`${file} could not be read (the server answered ${res.status})`);
+  const names = wasm_bindgen.siteIndexList(await res.text());
+  // One bad manifest leaves out its index only; the others are offered.
+  const read = await Promise.all(
+    names.map(async (name) => {
+      try {
+        const m = await fetch(`./${name}`, { cache: "no-cache" });
+        if (!m.ok) {
+          throw new Error(`${file} lists ${name}, which could not be read (the server answered ${m.status}); copy it beside the page`);
+        }
+        return { index: JSON.parse(wasm_bindgen.siteIndexJson(name, await m.text())) };
+      } catch (e) {
+        return { problem: { name, message: e && e.message ? e.message : String(e) } };
+      }
+    }),
+  );
+  return {
+    file,
+    found: true,
+    indexes: read.filter((r) => r.index).map((r) => r.index),
+    problems: read.filter((r) => r.problem).map((r) => r.problem),
+  };
+}
+
 /** The bundled indexes a report says its list needs and that are not loaded yet. */
 function needed(report) {
   const wanted = new Set(
@@ -354,6 +397,9 @@ self.onmessage = async (event) => {
       case "find":
         if (!checker) throw new Error("the index is not loaded");
         result = JSON.parse(checker.find(String(msg.query ?? ""), Number(msg.limit) || 10));
+        break;
+      case "site":
+        result = await siteIndexes();
         break;
       case "notes":
         result = await notes(msg.bytes ? new Uint8Array(msg.bytes) : null, msg.manifest || null);
