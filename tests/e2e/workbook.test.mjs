@@ -204,8 +204,9 @@ async function openPage(context, url) {
     if (m.type() === "error" && !m.text().startsWith("Failed to load resource")) page.problems.push(`console error: ${m.text()}`);
   });
   page.on("response", (r) => {
-    // A browser asks for /favicon.ico on its own; the pages have none.
-    if (r.status() >= 400 && !r.url().endsWith("/favicon.ico")) page.problems.push(`${r.status()} for ${r.url()}`);
+    // A browser asks for /favicon.ico on its own; the pages have none. A
+    // site with no indexes of its own answers 404 for their list.
+    if (r.status() >= 400 && !/\/(favicon\.ico|site-indexes\.json)$/.test(r.url())) page.problems.push(`${r.status()} for ${r.url()}`);
   });
   page.on("requestfailed", (r) => page.problems.push(`failed: ${r.url()}`));
   page.on("request", (r) => page.requests.push(r.url()));
