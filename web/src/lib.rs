@@ -990,6 +990,24 @@ fn tokens_of(text: &str, draft: &rollcall::list::Draft) -> Vec<serde_json::Value
         .collect()
 }
 
+/// A dropped file as the core reads files (`rollcall check FILE` does the
+/// same): `{"workbook": true}` for a spreadsheet workbook (its bytes are then
+/// checked as sheets), else `{"workbook": false, "text": ...}`, the text in
+/// UTF-8 or UTF-16 with its mark (the mark left out). An Error says what is wrong and what to do.
+#[wasm_bindgen(js_name = decodeFile)]
+pub fn decode_file(bytes: &[u8]) -> Result<String, JsValue> {
+    let value = if rollcall::list::is_workbook(bytes) {
+        serde_json::json!({ "workbook": true })
+    } else {
+        let text = rollcall::list::decode(bytes)
+            .map_err(|e| JsValue::from(js_sys::Error::new(&e.message)))?;
+        // A byte-order mark is no part of the list the user sees.
+        let text = text.strip_prefix('\u{feff}').unwrap_or(&text);
+        serde_json::json!({ "workbook": false, "text": text })
+    };
+    serde_json::to_string(&value).map_err(|e| fail("could not hand the result to the page", e))
+}
+
 /// Lower-case hex SHA-256 of some bytes (to compare a fetched index with its
 /// manifest).
 #[wasm_bindgen(js_name = sha256Hex)]

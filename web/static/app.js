@@ -1,7 +1,6 @@
 // The page: loads the index into the worker, checks the list as you type,
 // shows findings, pictures and exports. Plain DOM, no framework.
 
-import { fileText, isWorkbook } from "./inputs.js";
 import { initDraft, readingSentence } from "./draft.js";
 import { cleanedRows, toJsonReport, download } from "./outputs.js";
 import { ensureDefs, stripSvg, stripWords, coverageRow, esc } from "./pictures.js";
@@ -798,11 +797,15 @@ async function takeFile(file) {
   try {
     if (file.size > 50 * 1024 * 1024) throw new Error(`“${file.name}” is larger than 50 MB`);
     const bytes = new Uint8Array(await file.arrayBuffer());
-    if (isWorkbook(file.name, bytes)) {
+    // The core tells a workbook from text and decodes it, as the CLI reads files.
+    const read = await ask("decode", { bytes: bytes.slice().buffer }).catch((e) => {
+      throw new Error(`“${file.name}”: ${e.message}`);
+    });
+    if (read.workbook) {
       await takeWorkbook(file.name, bytes);
       return;
     }
-    const text = fileText(file.name, bytes);
+    const text = read.text;
     // A text file after a workbook is checked as text, not as the workbook.
     state.workbook = null;
     draft.workbookDropped(false);

@@ -24,6 +24,10 @@
 //   <- {id, ok: true, result: {comparison: Comparison, ms}}
 //   -> {id, type: "timelines", codes: string[]}
 //   <- {id, ok: true, result: {code: Span[] | null}}
+//   -> {id, type: "decode", bytes: ArrayBuffer}
+//   <- {id, ok: true, result: {workbook: true} | {workbook: false, text}}
+//      (a dropped file as the core reads files: a workbook, or text in UTF-8
+//      or UTF-16; an error says what is wrong)
 //   -> {id, type: "digest", text: string}
 //   <- {id, ok: true, result: "hex SHA-256 of the text as UTF-8"}
 //   -> {id, type: "export", text, options, format, system?: string, url?: string}
@@ -373,6 +377,9 @@ self.onmessage = async (event) => {
       }
       case "timelines":
         result = timelines(Array.isArray(msg.codes) ? msg.codes.map(String) : []);
+        break;
+      case "decode":
+        result = JSON.parse(wasm_bindgen.decodeFile(new Uint8Array(msg.bytes)));
         break;
       case "digest":
         result = wasm_bindgen.sha256Hex(new TextEncoder().encode(String(msg.text ?? "")));

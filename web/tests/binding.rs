@@ -358,3 +358,24 @@ fn sheets_are_checked_as_the_workbook_is_read() {
         .unwrap_err();
     assert!(message(bytes).contains("reads no workbooks"));
 }
+
+/// A dropped file is read as the core reads files (`rollcall check FILE`):
+/// UTF-16 with its mark decoded, a zip container named a workbook, and bytes
+/// that are no UTF-8 refused with a message naming the line.
+#[wasm_bindgen_test]
+fn a_dropped_file_is_decoded_by_the_core() {
+    let text: String = "E11.9\tType 2 diabetes\nI10\n".into();
+    let mut utf16 = vec![0xFF, 0xFE];
+    utf16.extend(text.encode_utf16().flat_map(|u| u.to_le_bytes()));
+    let read: serde_json::Value =
+        serde_json::from_str(&rollcall_web::decode_file(&utf16).unwrap()).unwrap();
+    assert_eq!(read["workbook"], false);
+    assert_eq!(read["text"], text.as_str());
+    let zip = b"PK\x03\x04rest of a workbook";
+    let read: serde_json::Value =
+        serde_json::from_str(&rollcall_web::decode_file(zip).unwrap()).unwrap();
+    assert_eq!(read["workbook"], true);
+    let err = rollcall_web::decode_file(b"E11.9\n\xff\xfe\xfd oops\n").unwrap_err();
+    let message = err.dyn_into::<js_sys::Error>().unwrap().message();
+    assert!(String::from(message).contains("line 2"), "{err:?}");
+}
