@@ -376,6 +376,6 @@ fn a_dropped_file_is_decoded_by_the_core() {
         serde_json::from_str(&rollcall_web::decode_file(zip).unwrap()).unwrap();
     assert_eq!(read["workbook"], true);
     let err = rollcall_web::decode_file(b"E11.9\n\xff\xfe\xfd oops\n").unwrap_err();
-    let message = err.dyn_into::<js_sys::Error>().unwrap().message();
-    assert!(String::from(message).contains("line 2"), "{err:?}");
+    let message = String::from(err.dyn_into::<js_sys::Error>().unwrap().message());
+    assert!(message.contains("line 2"), "{message}");
 }
