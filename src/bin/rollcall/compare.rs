@@ -31,7 +31,10 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
         }
     };
     let out = match format {
-        "json" => serde_json::to_string_pretty(&c).map_err(|e| e.to_string())? + "\n",
+        "json" => {
+            write_json(&c);
+            String::new()
+        }
         "csv" => render::comparison_csv(&c),
         _ => render::comparison_text(&c),
     };

@@ -65,6 +65,18 @@ fn write_out(s: &str) {
     let _ = out.write_all(s.as_bytes());
 }
 
+/// `value` as pretty JSON and a newline on standard output, written while
+/// it is serialised.
+fn write_json(value: &impl serde::Serialize) {
+    use std::io::Write;
+    let mut out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+    // As in write_out: a closed pipe ends the output quietly.
+    if serde_json::to_writer_pretty(&mut out, value).is_ok() {
+        let _ = out.write_all(b"\n");
+    }
+    let _ = out.flush();
+}
+
 fn main() -> ExitCode {
     let argv: Vec<String> = std::env::args().skip(1).collect();
     match run(&argv) {

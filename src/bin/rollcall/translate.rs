@@ -28,7 +28,10 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
         None => return Err("translate needs --into icd10cm or --into icd9cm".into()),
     };
     let out = match format {
-        "json" => serde_json::to_string_pretty(&t).map_err(|e| e.to_string())? + "\n",
+        "json" => {
+            write_json(&t);
+            String::new()
+        }
         "csv" => render::translation_csv(&t),
         _ => render::translation_text(&t),
     };
