@@ -10,8 +10,8 @@ mod readers;
 mod stated;
 
 use assemble::Inputs;
-use readers::*;
 use error::BuildError;
+use readers::*;
 use rollcall::model::Source;
 use rollcall::{Date, Period};
 use std::io::Read;
