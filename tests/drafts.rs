@@ -390,29 +390,9 @@ fn xlsx(sheets: &[(&str, &[&[&str]])]) -> Vec<u8> {
     buf.into_inner()
 }
 
-/// A workbook of two sheets, one with no codes: every entry names its sheet
-/// and row, and the reading says which sheet held none. Source of the
-/// expected statuses: the FY2024 code file.
-#[test]
-fn a_workbook_is_read_sheet_by_sheet() {
-    let book = xlsx(&[
-        (
-            "Notes",
-            &[
-                &["Larkfield study: draft list"],
-                &["Prepared by the data team"],
-            ],
-        ),
-        (
-            "Codes",
-            &[
-                &["Code", "Description"],
-                &["E11.9", "Type 2 diabetes mellitus without complications"],
-                &["I50.22", "Chronic systolic (congestive) heart failure"],
-            ],
-        ),
-    ]);
-    let d = read_bytes(&book, Reading::Auto).unwrap();
+/// The two-sheet workbook of the tests below, read: a "Notes" sheet with no
+/// codes, and E11.9 and I50.22 on rows 2 and 3 of "Codes".
+fn assert_two_sheets_read(d: &rollcall::Draft) {
     assert_eq!(d.facts.reading, Reading::Workbook);
     let sheets: Vec<(&str, usize)> = d
         .facts
@@ -438,6 +418,32 @@ fn a_workbook_is_read_sheet_by_sheet() {
             ("I50.22".to_string(), Some("Codes"), Some(3)),
         ]
     );
+}
+
+/// A workbook of two sheets, one with no codes: every entry names its sheet
+/// and row, and the reading says which sheet held none. Source of the
+/// expected statuses: the FY2024 code file.
+#[test]
+fn a_workbook_is_read_sheet_by_sheet() {
+    let book = xlsx(&[
+        (
+            "Notes",
+            &[
+                &["Larkfield study: draft list"],
+                &["Prepared by the data team"],
+            ],
+        ),
+        (
+            "Codes",
+            &[
+                &["Code", "Description"],
+                &["E11.9", "Type 2 diabetes mellitus without complications"],
+                &["I50.22", "Chronic systolic (congestive) heart failure"],
+            ],
+        ),
+    ]);
+    let d = read_bytes(&book, Reading::Auto).unwrap();
+    assert_two_sheets_read(&d);
     let r = rollcall::check::check_draft(&index(), &[], &d, &on("2024-01-01")).0;
     let e: Vec<_> = r.entries.iter().filter(|e| !e.status.skipped()).collect();
     assert_eq!(e.len(), 2);
@@ -496,31 +502,7 @@ fn an_opendocument_spreadsheet_is_read_sheet_by_sheet() {
         z.finish().unwrap();
     }
     let d = read_bytes(&buf.into_inner(), Reading::Auto).unwrap();
-    assert_eq!(d.facts.reading, Reading::Workbook);
-    let sheets: Vec<(&str, usize)> = d
-        .facts
-        .sheets
-        .iter()
-        .map(|s| (s.name.as_str(), s.codes))
-        .collect();
-    assert_eq!(sheets, [("Notes", 0), ("Codes", 2)]);
-    let got: Vec<(String, Option<&str>, Option<usize>)> = d
-        .lines
-        .iter()
-        .filter_map(|l| match &l.kind {
-            LineKind::Entry { code, .. } => {
-                Some((code.clone(), l.place.sheet.as_deref(), l.place.row))
-            }
-            _ => None,
-        })
-        .collect();
-    assert_eq!(
-        got,
-        [
-            ("E11.9".to_string(), Some("Codes"), Some(2)),
-            ("I50.22".to_string(), Some("Codes"), Some(3)),
-        ]
-    );
+    assert_two_sheets_read(&d);
 }
 
 fn billable_2024() -> Vec<String> {
