@@ -257,6 +257,32 @@ fn list_line(line: &str, from: usize, w: &Word) -> bool {
     bullet || marked || line[w.end..].split_whitespace().count() <= 8
 }
 
+/// Whether a listed shape with a letter O or I after its first character (a
+/// code typed with a letter for a digit) comes right after a short heading
+/// and a colon or dash on its line (`Hypertension: I1O essential
+/// hypertension`, `**Hypertension** – I1O ...`): the heading names what the
+/// code is for, as a bullet would set it apart. Other listed shapes there
+/// (`Note: B2B contracts`) stay prose.
+fn after_heading(line: &str, from: usize, w: &Word) -> bool {
+    let text = &line[w.start..w.end];
+    let letter_for_digit = text.as_bytes()[0].is_ascii_alphabetic()
+        && text[1..].bytes().any(|b| matches!(b, b'O' | b'I'));
+    if !letter_for_digit {
+        return false;
+    }
+    short_heading(line[from..w.start].trim_end())
+}
+
+/// Whether `head`, the text of a line before a code, is a short heading
+/// ended by a colon or dash (`Hypertension:`, `**Hypertension** –`): one to
+/// four words.
+fn short_heading(head: &str) -> bool {
+    let Some(words) = head.strip_suffix([':', '–', '—', '-']) else {
+        return false;
+    };
+    (1..=4).contains(&words.split_whitespace().count())
+}
+
 /// The codes of a line: strong shapes anywhere, listed shapes where set
 /// apart, first in the item, or continuing a run of codes; with
 /// `code_draft` (the draft holds codes elsewhere), dotted ICD-9-CM numbers
@@ -277,6 +303,7 @@ fn codes_in(line: &str, from: usize, all_listed: bool, code_draft: bool) -> Vec<
                 all_listed
                     || w.apart
                     || k == 0 && w.start == from && list_line(line, from, w)
+                    || after_heading(line, from, w)
                     || out.last().is_some_and(|p| in_run(&line[p.end..w.start]))
                     || code_draft && number_in_code_draft(line, w)
             }
@@ -471,7 +498,13 @@ fn labels(line: &str, from: usize, found: &[Found], prose: bool) -> Vec<Option<S
             let item = !prose || from > line.len() - line.trim_start().len();
             let opens_item = item && k == 0 && line[from..f.start].trim_matches(marks).is_empty();
             let dashed = after_t.starts_with(['-', '–', '—', ':', '|', '=']);
-            if opens_item || dashed {
+            // `Hypertension – I1O essential hypertension`: the code opens
+            // what follows a short heading.
+            let after_heading = k == 0 && {
+                let head = line[from..f.start].trim_end_matches(marks);
+                system_named(head).is_none() && short_heading(head)
+            };
+            if opens_item || dashed || after_heading {
                 if let Some(l) = clean_label(&after[..clause_end(after)]) {
                     return Some(l);
                 }
@@ -485,10 +518,12 @@ fn labels(line: &str, from: usize, found: &[Found], prose: bool) -> Vec<Option<S
                     return clean_label(&rest[m.len()..]);
                 }
             }
-            // `Hypertension: I10`, the only code on the line.
+            // `Hypertension: I10`, the only code on the line; a heading
+            // that names a system (`Procedures (ICD-10-PCS): ...`) says
+            // which system, not what the code is.
             if n == 1 {
                 let b = before.trim_end_matches(marks);
-                if b.ends_with([':', '-', '–', '—', '=']) {
+                if b.ends_with([':', '-', '–', '—', '=']) && system_named(b).is_none() {
                     return clean_label(b);
                 }
             }
@@ -645,8 +680,10 @@ pub fn reads_as_lines(text: &str) -> bool {
     })
 }
 
-/// The form a draft takes, for the report's heading.
-fn form_of(lines: &[&str]) -> &'static str {
+/// The forms a draft takes, for the report's heading: each of SQL, R, code
+/// literals and markdown it shows, in that order (`markdown and sql` for an
+/// email with bullets and a query), else prose.
+fn form_of(lines: &[&str]) -> String {
     let has = |f: &dyn Fn(&str) -> bool| lines.iter().any(|l| f(l));
     let lower: Vec<String> = lines.iter().map(|l| l.to_ascii_lowercase()).collect();
     let any_lower = |p: &str| lower.iter().any(|l| l.contains(p));
@@ -654,22 +691,32 @@ fn form_of(lines: &[&str]) -> &'static str {
         || any_lower(" in (\"")
         || any_lower(" like '")
         || any_lower("select ") && any_lower(" from ");
-    if sql {
-        "sql"
-    } else if any_lower("c(\"") || any_lower("c('") || any_lower("<- c(") {
-        "r"
-    } else if has(&|l| l.contains("['") || l.contains("[\"") || l.contains("= [")) {
-        "code literals"
-    } else if has(&|l| {
+    let r = any_lower("c(\"") || any_lower("c('") || any_lower("<- c(");
+    let literals = !r && has(&|l| l.contains("['") || l.contains("[\"") || l.contains("= ["));
+    let markdown = has(&|l| {
         markdown_table_row(l)
             || item_start(l) > l.len() - l.trim_start().len()
             || l.contains("**")
             || l.trim_start().starts_with('#')
             || l.contains('`')
-    }) {
-        "markdown"
-    } else {
-        "prose"
+    });
+    // Beside a query or script, only bold or a table says markdown: a
+    // script's own comments (`#`, `--`) and quotes look like markdown too.
+    let code = sql || r || literals;
+    let plainly_markdown = has(&|l| markdown_table_row(l) || l.contains("**"));
+    let forms: Vec<&str> = [
+        (markdown && (!code || plainly_markdown), "markdown"),
+        (sql, "sql"),
+        (r, "r"),
+        (literals, "code literals"),
+    ]
+    .into_iter()
+    .filter_map(|(on, name)| on.then_some(name))
+    .collect();
+    match forms.as_slice() {
+        [] => "prose".into(),
+        [one] => (*one).into(),
+        [first @ .., last] => format!("{} and {last}", first.join(", ")),
     }
 }
 
@@ -699,7 +746,7 @@ pub fn read(text: &str, forced: bool) -> Draft {
         read_line_in(line, i + 1, &mut context, code_draft, prose, &mut out);
         i += 1;
     }
-    Draft::finish(out, Reading::Text, form, forced, lines.len())
+    Draft::finish(out, Reading::Text, &form, forced, lines.len())
 }
 
 /// The system a heading named, for a code whose shape fits it (a closing
@@ -956,6 +1003,52 @@ mod tests {
             })
             .collect();
         assert_eq!(systems, [Some("ICD-10-PCS".to_string()), None]);
+    }
+
+    /// A code typed with a letter for a digit after a short heading and a
+    /// colon or dash is a code (the core then reads `I1O` as I10); other
+    /// code-like words there stay prose. Common practice in drafts.
+    #[test]
+    fn a_mistyped_code_after_a_heading_is_a_code() {
+        assert_eq!(
+            got("Hypertension: I1O essential hypertension\n"),
+            [e(1, "I1O", Some("essential hypertension"))]
+        );
+        assert_eq!(
+            got("**Hypertension** – I1O essential hypertension, I11.0 (hypertensive heart disease)\n"),
+            [
+                e(1, "I1O", Some("essential hypertension")),
+                e(1, "I11.0", Some("hypertensive heart disease"))
+            ]
+        );
+        assert!(got("Note: B2B contracts apply\n").is_empty());
+    }
+
+    /// A heading that names a system says which system, not what the code
+    /// is: it is no label.
+    #[test]
+    fn a_system_heading_is_no_label() {
+        let r = read(
+            "Procedures (ICD-10-PCS): 02HA0QZ for the LVAD patients.\n",
+            false,
+        );
+        let LineKind::Entry { label, system, .. } = &r.lines[0].kind else {
+            panic!("an entry");
+        };
+        assert_eq!(label.as_deref(), None);
+        assert_eq!(system.as_deref(), Some("ICD-10-PCS"));
+    }
+
+    /// An email with bullets and a warehouse query reads as both.
+    #[test]
+    fn a_draft_of_several_forms_names_them_all() {
+        let r = read(
+            "**Heart failure**\n- I50.22 Chronic systolic heart failure\nWHERE dx IN ('I50.20', 'I50.21')\n",
+            false,
+        );
+        assert_eq!(r.facts.form, "markdown and sql");
+        let r = read("WHERE dx IN ('I50.20', 'I50.21') -- heart failure\n", false);
+        assert_eq!(r.facts.form, "sql");
     }
 
     #[test]
