@@ -223,17 +223,8 @@ pub fn cards<D: AsRef<[u8]>>(
         .collect();
     Cards {
         vocabulary: meta.vocabulary.clone(),
-        index: IndexInfo {
-            release: meta.release.clone(),
-            coverage_from: meta.coverage_from,
-            coverage_to: meta.coverage_to,
-            sources: meta.sources.clone(),
-            notice: meta.notice.clone(),
-        },
-        options: OptionsInfo {
-            single_release: meta.snapshot(),
-            ..OptionsInfo::of(&period, false)
-        },
+        index: IndexInfo::of(meta),
+        options: OptionsInfo::against(meta, &period, false),
         cards,
     }
 }

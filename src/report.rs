@@ -408,6 +408,32 @@ impl OptionsInfo {
             single_release: false,
         }
     }
+
+    /// The options of a check over `period` against an index of `meta`
+    /// (one release only, HPO, says so).
+    pub fn against(
+        meta: &crate::model::Meta,
+        period: &crate::model::Period,
+        billable: bool,
+    ) -> Self {
+        OptionsInfo {
+            single_release: meta.snapshot(),
+            ..OptionsInfo::of(period, billable)
+        }
+    }
+}
+
+impl IndexInfo {
+    /// What a report says of the index of `meta`.
+    pub fn of(meta: &crate::model::Meta) -> Self {
+        IndexInfo {
+            release: meta.release.clone(),
+            coverage_from: meta.coverage_from,
+            coverage_to: meta.coverage_to,
+            sources: meta.sources.clone(),
+            notice: meta.notice.clone(),
+        }
+    }
 }
 
 impl Summary {

@@ -313,17 +313,8 @@ fn run_draft<D: AsRef<[u8]>>(
     let report = Report {
         vocabulary: meta.vocabulary.clone(),
         reading: draft.facts.clone(),
-        index: IndexInfo {
-            release: meta.release.clone(),
-            coverage_from: meta.coverage_from,
-            coverage_to: meta.coverage_to,
-            sources: meta.sources.clone(),
-            notice: meta.notice.clone(),
-        },
-        options: OptionsInfo {
-            single_release: meta.snapshot(),
-            ..OptionsInfo::of(&period, options.billable)
-        },
+        index: IndexInfo::of(meta),
+        options: OptionsInfo::against(meta, &period, options.billable),
         entries,
         list_findings,
         summary,
