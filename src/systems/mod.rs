@@ -91,6 +91,30 @@ impl System {
         )
     }
 
+    /// The bundled index kept at hand beside a list of this system: the
+    /// other of ICD-10-CM and ICD-9-CM, since the GEMs of both directions
+    /// live in the ICD-9-CM index (an old code in a new list is named with
+    /// its targets, and a card shows its mappings both ways).
+    pub fn companion(self) -> Option<System> {
+        match self {
+            System::Icd10cm => Some(System::Icd9cm),
+            System::Icd9cm => Some(System::Icd10cm),
+            _ => None,
+        }
+    }
+
+    /// The name of the manifest beside the page that describes the system's
+    /// bundled index (release, coverage, size, SHA-256): `index-manifest.json`
+    /// for the page's default, ICD-10-CM, `manifest-NAME.json` for the
+    /// others; none for a system with no bundled index.
+    pub fn index_manifest(self) -> Option<String> {
+        match self {
+            System::Icd10cm => Some("index-manifest.json".into()),
+            s if s.bundled() => Some(format!("manifest-{}.json", s.name())),
+            _ => None,
+        }
+    }
+
     /// The file of the bundled notes of the system (the tabular list's
     /// notes, kept apart from the index: only the code card needs them),
     /// if it has one. It sits beside the index, and the page lists it in
@@ -230,4 +254,30 @@ pub(crate) fn fails(reason: impl Into<String>) -> Shape {
 
 pub(crate) fn all_digits(s: &str) -> bool {
     !s.is_empty() && s.bytes().all(|b| b.is_ascii_digit())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The names the page's build writes (web/Trunk.toml's post-build hook)
+    /// and the worker asks for.
+    #[test]
+    fn bundled_indexes_have_manifests_and_the_icd_pair_are_companions() {
+        assert_eq!(
+            System::Icd10cm.index_manifest().as_deref(),
+            Some("index-manifest.json")
+        );
+        assert_eq!(
+            System::Hpo.index_manifest().as_deref(),
+            Some("manifest-hpo.json")
+        );
+        assert_eq!(System::Loinc.index_manifest(), None);
+        assert_eq!(System::Icd10cm.companion(), Some(System::Icd9cm));
+        assert_eq!(System::Icd9cm.companion(), Some(System::Icd10cm));
+        assert_eq!(System::Hpo.companion(), None);
+        for s in ALL {
+            assert_eq!(s.index_manifest().is_some(), s.bundled(), "{s:?}");
+        }
+    }
 }

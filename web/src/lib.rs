@@ -990,6 +990,24 @@ fn tokens_of(text: &str, draft: &rollcall::list::Draft) -> Vec<serde_json::Value
         .collect()
 }
 
+/// The name of the manifest beside the page for the bundled index of the
+/// system `name` (`index-manifest.json` for ICD-10-CM), or `undefined` when
+/// it has none: the core's `System::index_manifest`.
+#[wasm_bindgen(js_name = indexManifest)]
+pub fn index_manifest(name: &str) -> Option<String> {
+    rollcall::systems::System::parse(name).and_then(|s| s.index_manifest())
+}
+
+/// The bundled index kept at hand beside a list of the system `name`
+/// (ICD-9-CM beside ICD-10-CM and back, for the GEMs), or `undefined`: the
+/// core's `System::companion`.
+#[wasm_bindgen(js_name = companionOf)]
+pub fn companion_of(name: &str) -> Option<String> {
+    rollcall::systems::System::parse(name)
+        .and_then(|s| s.companion())
+        .map(|s| s.name().to_string())
+}
+
 /// A dropped file as the core reads files (`rollcall check FILE` does the
 /// same): `{"workbook": true}` for a spreadsheet workbook (its bytes are then
 /// checked as sheets), else `{"workbook": false, "text": ...}`, the text in

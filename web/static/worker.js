@@ -184,8 +184,9 @@ async function companion(name) {
       name,
       (async () => {
         try {
-          // The default index's manifest has its own name (see web/Trunk.toml).
-          const file = name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`;
+          // The manifest's name is the core's (System::index_manifest).
+          const file = wasm_bindgen.indexManifest(name);
+          if (!file) return false;
           const manifest = await (await fetch(`./${file}`)).json();
           const bytes = new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
           if (wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) return false;
@@ -280,8 +281,10 @@ function needed(report) {
   const wanted = new Set(
     (report.summary.by_system || []).filter((p) => p.checked === "not-loaded").map((p) => p.system),
   );
-  if (report.vocabulary === "icd10cm" && report.entries.some((e) => e.status === "other-system" && e.system === "icd9cm")) {
-    wanted.add("icd9cm");
+  // The companion (ICD-9-CM beside ICD-10-CM) once the list holds its codes.
+  const other = wasm_bindgen.companionOf(report.vocabulary);
+  if (other && report.entries.some((e) => e.status === "other-system" && e.system === other)) {
+    wanted.add(other);
   }
   return [...wanted].filter((name) => !companions.has(name));
 }
@@ -396,7 +399,7 @@ self.onmessage = async (event) => {
         // the ICD-10-CM one beside ICD-9-CM, as on the command line.
         {
           const vocabulary = checker.info().vocabulary;
-          const other = { icd10cm: "icd9cm", icd9cm: "icd10cm" }[vocabulary];
+          const other = wasm_bindgen.companionOf(vocabulary);
           if (other) await companion(other);
         }
         result = checker.card(String(msg.code ?? ""), msg.options ?? {});

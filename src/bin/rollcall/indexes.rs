@@ -127,13 +127,7 @@ pub(crate) fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
 /// is named with its GEM targets.
 pub(crate) fn at_hand(own: &str, draft: &Draft) -> Result<Vec<Index<&'static [u8]>>, String> {
     let mut want = systems_named_in(draft);
-    // Each of the two with the GEMs beside the other (both directions are
-    // kept in the ICD-9-CM index).
-    match own {
-        "icd10cm" => want.push(System::Icd9cm),
-        "icd9cm" => want.push(System::Icd10cm),
-        _ => {}
-    }
+    want.extend(System::parse(own).and_then(System::companion));
     want.sort();
     want.dedup();
     want.into_iter()
