@@ -47,13 +47,14 @@ pub(crate) fn nearest_in_use(
             .take_while(|(x, y)| x == y)
             .count()
     };
-    let most = under.iter().map(|&o| shared(o)).max().unwrap_or(0);
+    let scored: Vec<(u32, usize)> = under.into_iter().map(|o| (o, shared(o))).collect();
+    let most = scored.iter().map(|&(_, n)| n).max().unwrap_or(0);
     let node = view.display(&view.code(a));
-    under
+    scored
         .into_iter()
-        .filter(|&o| shared(o) == most)
+        .filter(|&(_, n)| n == most)
         .take(NAMED_LIMIT)
-        .map(|o| {
+        .map(|(o, _)| {
             suggestion(
                 view,
                 o,
