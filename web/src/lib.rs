@@ -1008,6 +1008,13 @@ pub fn companion_of(name: &str) -> Option<String> {
         .map(|s| s.name().to_string())
 }
 
+/// Whether a file's bytes are a spreadsheet workbook (a zip or OLE2
+/// container), as the core tells them apart (`rollcall::list::is_workbook`).
+#[wasm_bindgen(js_name = isWorkbook)]
+pub fn is_workbook(bytes: &[u8]) -> bool {
+    rollcall::list::is_workbook(bytes)
+}
+
 /// A dropped file as the core reads files (`rollcall check FILE` does the
 /// same): `{"workbook": true}` for a spreadsheet workbook (its bytes are then
 /// checked as sheets), else `{"workbook": false, "text": ...}`, the text in

@@ -133,8 +133,8 @@ function readAsWorkbook(bytes, options) {
   const reading = String(options.reading ?? "").trim() || "auto";
   if (reading === "workbook") return true;
   if (reading !== "auto") return false;
-  const starts = (magic) => magic.every((b, i) => bytes[i] === b);
-  return starts([0x50, 0x4b, 0x03, 0x04]) || starts([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1]);
+  // The core's rule, as the CLI and decodeFile use it.
+  return wasm_bindgen.isWorkbook(bytes);
 }
 
 let checker = null;
