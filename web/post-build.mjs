@@ -1,7 +1,10 @@
 // After `trunk build`: subresource integrity and Content-Security-Policy
 // hashes for every page in the built folder (web/build.sh runs it).
-//   - worker.js gets the SRI hashes of the checker's Wasm and of the workbook
-//     reader's, which it then fetches with them;
+//   - the checker's Wasm gets a gzip copy (rollcall-web_bg.wasm.gz) that the
+//     worker fetches and unpacks where the browser can (DecompressionStream),
+//     for servers that send files as they are;
+//   - worker.js gets the SRI hashes of the checker's Wasm, of its gzip copy
+//     and of the workbook reader's Wasm, which it then fetches with them;
 //   - each page's <script src> and stylesheet <link> get `integrity`, and an
 //     import map gives the integrity of every module they import;
 //   - every inline <script> (the import map included) and <style> is hashed
@@ -11,6 +14,7 @@
 import crypto from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import zlib from "node:zlib";
 
 const HERE = path.dirname(new URL(import.meta.url).pathname);
 const DIST = path.resolve(process.argv[2] || path.join(HERE, "dist"));
@@ -61,10 +65,17 @@ function main() {
   if (!fs.existsSync(DIST)) die(`no built folder at ${DIST}`);
   // 1. The worker fetches the checker's Wasm, and the workbook reader's on
   //    first use, with their integrity.
+  const wasmFile = path.join(DIST, "rollcall-web_bg.wasm");
+  if (!fs.existsSync(wasmFile)) die("rollcall-web_bg.wasm is not in the build");
+  const wasm = fs.readFileSync(wasmFile);
+  const packed = zlib.gzipSync(wasm, { level: 9 });
+  if (!zlib.gunzipSync(packed).equals(wasm)) die("the gzip copy of the Wasm does not unpack to it");
+  fs.writeFileSync(`${wasmFile}.gz`, packed);
   const workerFile = path.join(DIST, "worker.js");
   let worker = fs.readFileSync(workerFile, "utf8");
   for (const [name, file] of [
     ["WASM_INTEGRITY", "rollcall-web_bg.wasm"],
+    ["WASM_GZ_INTEGRITY", "rollcall-web_bg.wasm.gz"],
     ["WORKBOOK_WASM_INTEGRITY", "rollcall-workbook_bg.wasm"],
   ]) {
     const target = path.join(DIST, file);

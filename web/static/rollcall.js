@@ -129,6 +129,10 @@ async function fetchBytes(url, expected, onProgress) {
     throw new Error(`the index file “${name}” could not be fetched (${messageOf(e)}).`);
   }
   if (!res.ok) throw new Error(`the index file “${name}” is missing (the server answered ${res.status}).`);
+  return readBody(res, expected, onProgress);
+}
+
+async function readBody(res, expected, onProgress) {
   const total = expected || Number(res.headers.get("content-length")) || 0;
   if (!res.body) {
     const buf = new Uint8Array(await res.arrayBuffer());
@@ -345,18 +349,49 @@ function notOffered(name, site) {
   return `${site.file} lists no index “${name}”; ${names.length ? `it lists ${names.join(", ")}` : "it lists none"}`;
 }
 
+/**
+ * The packed copy of the manifest's index (`NAME.rcx.gz`, written by
+ * `index-manifest --pack`), when the source is the manifest's own file and
+ * the browser can unpack gzip: a server that sends files as they are then
+ * sends a fifth of the bytes. Resolves to `{bytes, packed}`, or null when
+ * there is no packed copy to use (none named, another file asked for, or the
+ * server has none: the index itself is fetched).
+ */
+async function packedBytes(source, manifest, onProgress) {
+  const packed = manifest && manifest.packed;
+  if (!packed || packed.encoding !== "gzip" || typeof DecompressionStream !== "function") return null;
+  if (!(typeof source === "string" || source instanceof URL)) return null;
+  const base = globalThis.document ? document.baseURI : globalThis.location.href;
+  const url = new URL(source, base);
+  if (nameOf(url) !== manifest.file || !/^[A-Za-z0-9][A-Za-z0-9._-]*\.gz$/.test(String(packed.file))) return null;
+  let res;
+  try {
+    res = await fetch(new URL(packed.file, url), { cache: "no-cache" });
+  } catch {
+    return null;
+  }
+  if (!res.ok) return null;
+  return { bytes: await readBody(res, packed.byte_length, onProgress), packed };
+}
+
 /** Load and verify an index in a started worker; resolves to a Checker. */
 async function openIn(channel, source, options) {
   const manifest = await readManifest(options.manifest);
-  const bytes = await indexBytes(source, manifest && manifest.byte_length, options.onProgress);
+  const packed = await packedBytes(source, manifest, options.onProgress);
+  const bytes = packed ? packed.bytes : await indexBytes(source, manifest && manifest.byte_length, options.onProgress);
   const got = bytes.byteLength; // the buffer moves to the worker
+  const expected = packed ? packed.packed.byte_length : manifest && manifest.byte_length;
   let info;
   try {
-    info = await channel.ask("load", { bytes: bytes.buffer, manifest }, [bytes.buffer]);
+    info = await channel.ask(
+      "load",
+      { bytes: bytes.buffer, manifest, packed: packed ? { file: packed.packed.file, encoding: "gzip" } : null },
+      [bytes.buffer],
+    );
   } catch (e) {
     let msg = messageOf(e);
-    if (manifest && got !== manifest.byte_length) {
-      msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(manifest.byte_length)})`;
+    if (manifest && got !== expected) {
+      msg += ` (${formatBytes(got)} arrived where the manifest expects ${formatBytes(expected)})`;
     }
     throw new Error(msg);
   }

@@ -6,7 +6,8 @@
 //   -> {id, type: "init", wasm: ArrayBuffer}   (optional, first: the Wasm bytes
 //      instead of fetching rollcall-web_bg.wasm beside this file)
 //   <- {id, ok: true, result: true}
-//   -> {id, type: "load", bytes: ArrayBuffer, manifest: object}
+//   -> {id, type: "load", bytes: ArrayBuffer, manifest: object, packed?: {file, encoding: "gzip"}}
+//      (packed: the bytes are the manifest's gzip copy, unpacked here)
 //   <- {id, ok: true, result: IndexInfo}   (with default_day: the day checked
 //      when none is given, inside the index's coverage)
 //   -> {id, type: "check", text: string, options: CheckOptionsInput, system?: string}
@@ -55,29 +56,73 @@
 // The single-file page builds this worker from one Blob with the glue in it.
 if (typeof wasm_bindgen === "undefined") importScripts("./rollcall-web.js");
 
-// Set by web/post-build.mjs to the SRI hash of the built Wasm, which is then
-// fetched with that integrity.
+// Set by web/post-build.mjs to the SRI hashes of the built Wasm and of its
+// gzip copy (rollcall-web_bg.wasm.gz, for servers that send files as they
+// are), which are then fetched with them.
 const WASM_INTEGRITY = "";
+const WASM_GZ_INTEGRITY = "";
+
+// Whether this browser unpacks gzip itself (DecompressionStream).
+const CAN_UNPACK = typeof DecompressionStream === "function";
 
 let wasmReady = null;
 
+function wasmRefused(e) {
+  return new Error(
+    `the checker's Wasm file (rollcall-web_bg.wasm) could not be loaded or does not match its integrity hash (${e.message}); ` +
+      "the page's files may be damaged or from different builds",
+  );
+}
+
+/** The checker's Wasm as a Response: the gzip copy unpacked as it arrives
+ * (compiled while it streams), or the file itself where there is no copy. */
+async function wasmSource() {
+  const url = new URL("./rollcall-web_bg.wasm", self.location.href);
+  if (!WASM_INTEGRITY) return url; // an unbuilt tree: no hashes to check
+  if (CAN_UNPACK && WASM_GZ_INTEGRITY) {
+    let res;
+    try {
+      res = await fetch(new URL("./rollcall-web_bg.wasm.gz", self.location.href), { integrity: WASM_GZ_INTEGRITY });
+    } catch (e) {
+      throw wasmRefused(e);
+    }
+    if (res.ok) {
+      return new Response(res.body.pipeThrough(new DecompressionStream("gzip")), {
+        headers: { "Content-Type": "application/wasm" },
+      });
+    }
+  }
+  return fetch(url, { integrity: WASM_INTEGRITY }).catch((e) => {
+    throw wasmRefused(e);
+  });
+}
+
 function startWasm(bytes) {
   if (!wasmReady) {
-    let source = bytes;
-    if (!source) {
-      const url = new URL("./rollcall-web_bg.wasm", self.location.href);
-      source = WASM_INTEGRITY
-        ? fetch(url, { integrity: WASM_INTEGRITY }).catch((e) => {
-            throw new Error(
-              `the checker's Wasm file (rollcall-web_bg.wasm) could not be loaded or does not match its integrity hash (${e.message}); ` +
-                "the page's files may be damaged or from different builds",
-            );
-          })
-        : url;
-    }
-    wasmReady = wasm_bindgen({ module_or_path: source });
+    wasmReady = (bytes ? Promise.resolve(bytes) : wasmSource()).then((source) => wasm_bindgen({ module_or_path: source }));
   }
   return wasmReady;
+}
+
+/** Unpacks gzip bytes; `name` is the file they came from, for the message. */
+async function gunzip(bytes, name) {
+  try {
+    const stream = new Blob([bytes]).stream().pipeThrough(new DecompressionStream("gzip"));
+    return new Uint8Array(await new Response(stream).arrayBuffer());
+  } catch (e) {
+    throw new Error(`the packed file “${name}” does not unpack (${e.message}): it is damaged or not gzip; it may be from another build`);
+  }
+}
+
+/** The bytes of the index a manifest names: its packed copy where the
+ * manifest names one and the server has it, else the file itself. */
+async function fetchIndexFile(manifest) {
+  const packed = manifest.packed;
+  if (CAN_UNPACK && packed && packed.encoding === "gzip" && /^[A-Za-z0-9][A-Za-z0-9._-]*\.gz$/.test(String(packed.file))) {
+    const res = await fetch(`./${packed.file}`);
+    if (res.ok) return gunzip(new Uint8Array(await res.arrayBuffer()), packed.file);
+  }
+  return new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
 }
 
 // The workbook reader (calamine) is a Wasm module of its own, loaded the
@@ -123,8 +168,7 @@ async function gunzipBase64(base64) {
   const text = atob(base64);
   const bytes = new Uint8Array(text.length);
   for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
-  const stream = new Blob([bytes]).stream().pipeThrough(new DecompressionStream("gzip"));
-  return new Uint8Array(await new Response(stream).arrayBuffer());
+  return gunzip(bytes, "rollcall-workbook_bg.wasm");
 }
 
 /** Whether the bytes are read as a workbook, as the command line decides:
@@ -141,7 +185,8 @@ let checker = null;
 // The notes file of the loaded index, added once (see notes()).
 let notesReady = null;
 
-function load(bytes, manifest) {
+async function load(bytes, manifest, packed) {
+  if (packed) bytes = await gunzip(new Uint8Array(bytes), String(packed.file));
   if (checker) {
     checker.free();
     checker = null;
@@ -188,7 +233,7 @@ async function companion(name) {
           const file = wasm_bindgen.indexManifest(name);
           if (!file) return false;
           const manifest = await (await fetch(`./${file}`)).json();
-          const bytes = new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
+          const bytes = await fetchIndexFile(manifest);
           if (wasm_bindgen.sha256Hex(bytes.subarray(56)) !== manifest.sha256) return false;
           checker.addCompanion(bytes);
           return true;
@@ -354,7 +399,7 @@ self.onmessage = async (event) => {
         result = true;
         break;
       case "load":
-        result = load(msg.bytes, msg.manifest);
+        result = await load(msg.bytes, msg.manifest, msg.packed);
         break;
       case "check":
         result = await check(String(msg.text ?? ""), msg.options ?? {}, msg.system ? String(msg.system) : null);
