@@ -478,7 +478,8 @@ test("every built page carries a CSP without unsafe-inline or unsafe-eval, and i
 
 test("a tampered Wasm file is refused by its integrity", async () => {
   const page = await context.newPage();
-  await page.route("**/rollcall-web_bg.wasm", async (route) => {
+  // The Wasm or its gzip copy, whichever the worker fetches.
+  await page.route(/rollcall-web_bg\.wasm(\.gz)?$/, async (route) => {
     const res = await route.fetch();
     const body = Buffer.from(await res.body());
     body[body.length - 10] ^= 0x01;
