@@ -3,9 +3,6 @@
 use super::*;
 
 pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
-    if !matches!(format, "text" | "json" | "csv") {
-        return Err(format!("--format must be text, json or csv, not {format}"));
-    }
     let target = target(a)?;
     let opts = options(a, default_day(&target)).map_err(|Usage(m)| m)?;
     let [fa, fb] = a.files.as_slice() else {

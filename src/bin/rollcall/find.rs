@@ -3,49 +3,15 @@
 use super::*;
 
 /// `rollcall find WORDS...`: codes for words, best first.
-pub(crate) fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
-    let mut words = Vec::new();
-    let (mut day, mut limit, mut format, mut index) = (None, 10usize, "text".to_string(), None);
-    let mut it = argv.iter();
-    while let Some(arg) = it.next() {
-        let mut value = || {
-            it.next()
-                .cloned()
-                .ok_or_else(|| Usage(format!("{arg} needs a value")))
-        };
-        match arg.as_str() {
-            "--date" => {
-                day = Some(Date::parse(&value()?).map_err(|e| Usage(format!("--date: {e}")))?)
-            }
-            "--limit" => {
-                let v = value()?;
-                limit = v
-                    .parse()
-                    .ok()
-                    .filter(|n| (1..=1000).contains(n))
-                    .ok_or_else(|| {
-                        Usage(format!("--limit must be a number from 1 to 1000, not {v}"))
-                    })?;
-            }
-            "--format" => format = value()?,
-            "--index" => index = Some(value()?),
-            s if s.starts_with("--") => return Err(Usage(format!("unknown option {s} for find"))),
-            s => words.push(s.to_string()),
-        }
-    }
-    if !matches!(format.as_str(), "text" | "json") {
-        return Err(Usage(format!(
-            "--format must be text or json for find, not {format}"
-        )));
-    }
+pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
+    let (limit, index) = (a.limit.unwrap_or(10), a.index.as_deref());
+    let words = &a.files;
     let query = words.join(" ");
     if rollcall::words::words(&query).is_empty() {
-        return Err(Usage(
-            "find needs words to look for, e.g. rollcall find type 2 diabetes".into(),
-        ));
+        return Err("find needs words to look for, e.g. rollcall find type 2 diabetes".into());
     }
-    let day = day.unwrap_or_else(today);
-    let loaded = load_index(index.as_deref()).map_err(Usage)?;
+    let day = a.date.unwrap_or_else(today);
+    let loaded = load_index(index)?;
     let finds = rollcall::find::find(&loaded.index().view(), &query, day, limit, true);
     let found = &finds.results;
     let out = if format == "json" {
@@ -56,7 +22,7 @@ pub(crate) fn find_command(argv: &[String]) -> Result<ExitCode, Usage> {
             "no_code": finds.no_code,
             "results": found,
         });
-        serde_json::to_string_pretty(&v).map_err(|e| Usage(e.to_string()))? + "\n"
+        serde_json::to_string_pretty(&v).map_err(|e| e.to_string())? + "\n"
     } else if let Some(start) = &finds.no_code {
         format!("no code starts with {start}; check the code, or search by words\n")
     } else if found.is_empty() {

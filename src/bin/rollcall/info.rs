@@ -3,8 +3,11 @@
 use super::*;
 
 pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
-    if !a.files.is_empty() || a.on.is_some() || a.from.is_some() || a.to.is_some() || a.billable {
-        return Err("info takes only --format and --index".into());
+    if let Some(f) = a.files.first() {
+        return Err(format!(
+            "info takes no files (got {f}); it takes only {}",
+            flags::flag_names("info")
+        ));
     }
     let loaded: Vec<Loaded> = match a.index.as_deref() {
         Some(p) => vec![load_index(Some(p))?],
@@ -54,7 +57,7 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
             let v = serde_json::json!({ "indexes": list });
             serde_json::to_string_pretty(&v).map_err(|e| e.to_string())? + "\n"
         }
-        "text" => {
+        _ => {
             let mut s = String::new();
             for (meta, path, size, sum) in &described {
                 s.push_str(&format!(
@@ -74,7 +77,6 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
             s.push_str("checked by shape and check digit only (no content bundled): loinc, snomed, ndc, hcpcs, cpt, rxnorm\n");
             s
         }
-        f => return Err(format!("--format must be text or json for info, not {f}")),
     };
     write_out(&out);
     Ok(ExitCode::SUCCESS)

@@ -15,6 +15,7 @@ mod args;
 mod check;
 mod compare;
 mod find;
+mod flags;
 mod indexes;
 mod info;
 mod input;
@@ -22,38 +23,31 @@ mod show;
 mod translate;
 
 use args::*;
-use find::*;
 use indexes::*;
 use input::*;
 
 fn run(argv: &[String]) -> Result<ExitCode, String> {
     if argv.is_empty() || argv.iter().any(|a| a == "-h" || a == "--help") {
-        print!("{HELP}");
+        print!("{}", flags::help());
         return Ok(ExitCode::SUCCESS);
     }
     if argv[0] == "--version" {
         println!("rollcall {}", env!("CARGO_PKG_VERSION"));
         return Ok(ExitCode::SUCCESS);
     }
-    if argv[0] == "find" {
-        return find_command(&argv[1..]).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"));
-    }
     let a = parse(argv).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"))?;
+    // The parser has checked the format against the command's.
     let format = a.format.clone().unwrap_or_else(|| "text".into());
-    if a.notes.is_some() && a.command != "show" {
-        return Err(format!(
-            "--notes goes with show (the notes are for code cards), not with {}",
-            a.command
-        ));
-    }
     match a.command.as_str() {
         "check" => check::run(&a, &format),
         "compare" => compare::run(&a, &format),
         "translate" => translate::run(&a, &format),
         "info" => info::run(&a, &format),
+        "find" => find::run(&a, &format),
         "show" => show::run(&a, &format),
         other => Err(format!(
-            "unknown command \"{other}\"; the commands are check, compare, translate, info, find and show (see rollcall --help)"
+            "unknown command \"{other}\"; the commands are {} (see rollcall --help)",
+            flags::command_names()
         )),
     }
 }
