@@ -174,6 +174,18 @@ pub struct ValueSetMeta {
     pub date: Date,
 }
 
+impl ValueSetMeta {
+    /// A ValueSet written on `date` at the canonical URL `url`, trimmed; an
+    /// empty one gets [`PLACEHOLDER_URL`].
+    pub fn new(url: &str, date: Date) -> ValueSetMeta {
+        let url = url.trim();
+        ValueSetMeta {
+            url: if url.is_empty() { PLACEHOLDER_URL } else { url }.to_string(),
+            date,
+        }
+    }
+}
+
 /// The FHIR R4 URI of a system, by rollcall's name for it.
 pub fn fhir_uri(system: &str) -> Option<&'static str> {
     let s = System::parse(system)?;

@@ -12,9 +12,11 @@
 //! - [`text`]: markdown, prose and code literals, a line at a time;
 //! - [`json`]: any JSON, with its own small parser that keeps line numbers;
 //! - [`tokens`]: which words have a code's shape;
+//! - [`edit`]: edits that keep every other character of the list;
 //! - `workbook` (behind the `workbook` feature): sheets of `.xlsx`, `.xls`,
 //!   `.ods`, read as tables.
 
+pub mod edit;
 pub mod json;
 pub mod table;
 pub mod text;

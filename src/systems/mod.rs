@@ -55,6 +55,16 @@ pub const ALL: [System; 10] = [
     System::Rxnorm,
 ];
 
+/// The system a list is checked in when none is named: the page's first
+/// index, whose manifest is `index-manifest.json`.
+pub const DEFAULT: System = System::Icd10cm;
+
+/// The systems whose index rollcall ships ([`System::bundled`]), in the
+/// order of [`ALL`].
+pub fn bundled_systems() -> impl Iterator<Item = System> {
+    ALL.into_iter().filter(|s| s.bundled())
+}
+
 impl System {
     /// The name used by `--system` and in JSON.
     pub fn name(self) -> &'static str {
@@ -109,7 +119,7 @@ impl System {
     /// others; none for a system with no bundled index.
     pub fn index_manifest(self) -> Option<String> {
         match self {
-            System::Icd10cm => Some("index-manifest.json".into()),
+            DEFAULT => Some("index-manifest.json".into()),
             s if s.bundled() => Some(format!("manifest-{}.json", s.name())),
             _ => None,
         }
@@ -279,5 +289,9 @@ mod tests {
         for s in ALL {
             assert_eq!(s.index_manifest().is_some(), s.bundled(), "{s:?}");
         }
+        // The four indexes web/Trunk.toml copies beside the page.
+        let bundled: Vec<&str> = bundled_systems().map(System::name).collect();
+        assert_eq!(bundled, ["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
+        assert!(DEFAULT.bundled());
     }
 }
