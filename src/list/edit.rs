@@ -182,7 +182,7 @@ pub fn apply(text: &str, edits: &[Edit], reading: Reading) -> Result<String, Edi
         let found = on_line
             .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
             .find(|l| column.is_none() || l.column() == column);
-        found.ok_or_else(|| match column {
+        found.ok_or(match column {
             Some(column) => EditError::NoCodeAt { line, column },
             None => EditError::NoCode(line),
         })

@@ -7,7 +7,7 @@
 //! every user of the worker reads them alike, and each message says what to
 //! write instead.
 
-use crate::IndexInfo;
+use crate::manifest::IndexInfo;
 use serde::{Deserialize, Serialize};
 use wasm_bindgen::prelude::*;
 
@@ -164,7 +164,7 @@ pub fn site_index_list(text: &str) -> Result<Vec<String>, JsValue> {
 pub fn site_index_json(name: &str, text: &str) -> Result<String, JsValue> {
     let index = site_manifest(name, text).map_err(|e| JsValue::from(js_sys::Error::new(&e)))?;
     serde_json::to_string(&index)
-        .map_err(|e| super::fail("could not hand the manifest to the page", e))
+        .map_err(|e| crate::js::fail("could not hand the manifest to the page", e))
 }
 
 #[cfg(test)]

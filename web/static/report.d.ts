@@ -1,5 +1,5 @@
 // Types of the report, card and comparison: the JSON the CLI writes
-// (`--format json`), the Wasm binding returns (web/src/lib.rs includes this
+// (`--format json`), the Wasm binding returns (web/src/js.rs includes this
 // file as its TypeScript section) and the JavaScript API resolves to
 // (rollcall.d.ts re-exports it). Written once, here.
 
@@ -24,6 +24,21 @@ export interface IndexInfo {
 /** index-manifest.json: an IndexInfo written at build time, with the index's file name. */
 export interface IndexManifest extends IndexInfo {
   file?: string;
+}
+
+/** A system whose index the page serves beside it (the binding's
+ * `bundledSystems()`, from the core's policy); every other system is checked
+ * by shape and check digit only. */
+export interface BundledSystem {
+  /** `icd10cm`, `icd10pcs`, `icd9cm`, `hpo`. */
+  name: string;
+  title: string;
+  /** The manifest beside the page that describes its index. */
+  manifest: string;
+  /** The bundled index kept at hand beside it (ICD-9-CM beside ICD-10-CM and back), or null. */
+  companion: string | null;
+  /** The system a list is checked in when none is named (the page's first index). */
+  default: boolean;
 }
 
 /** Options of one check. Give `on`, or `from` and `to`, or neither (the index's default day: today, UTC, when it covers it). Dates are YYYY-MM-DD. */

@@ -379,3 +379,36 @@ fn a_dropped_file_is_decoded_by_the_core() {
     let message = String::from(err.dyn_into::<js_sys::Error>().unwrap().message());
     assert!(message.contains("line 2"), "{message}");
 }
+
+#[wasm_bindgen_test]
+fn bundled_systems_name_the_manifests_the_build_writes() {
+    // The manifests web/Trunk.toml's post-build hook writes beside the page,
+    // one per bundled index; ICD-10-CM, the page's first index, is the default.
+    let list: JsValue = rollcall_web::bundled_systems().unwrap().into();
+    let list: js_sys::Array = list.dyn_into().expect("an array");
+    let rows: Vec<(String, String, Option<String>, bool)> = list
+        .iter()
+        .map(|s| {
+            (
+                get(&s, "name").as_string().unwrap(),
+                get(&s, "manifest").as_string().unwrap(),
+                get(&s, "companion").as_string(),
+                get(&s, "default").as_bool().unwrap(),
+            )
+        })
+        .collect();
+    let want = [
+        ("icd10cm", "index-manifest.json", Some("icd9cm"), true),
+        ("icd10pcs", "manifest-icd10pcs.json", None, false),
+        ("icd9cm", "manifest-icd9cm.json", Some("icd10cm"), false),
+        ("hpo", "manifest-hpo.json", None, false),
+    ];
+    let want: Vec<_> = want
+        .iter()
+        .map(|(n, m, c, d)| (n.to_string(), m.to_string(), c.map(str::to_string), *d))
+        .collect();
+    assert_eq!(rows, want);
+    for (name, manifest, _, _) in &rows {
+        assert_eq!(rollcall_web::index_manifest(name).as_ref(), Some(manifest));
+    }
+}

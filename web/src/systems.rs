@@ -1,0 +1,61 @@
+//! The core's policy on systems, for the page and the worker: which have a
+//! bundled index and the manifest it is described by, and the companion
+//! kept at hand beside each (`rollcall::systems`).
+
+use crate::js::{to_js, JsBundledSystems};
+use rollcall::systems::{self, System};
+use serde::Serialize;
+use wasm_bindgen::prelude::*;
+use wasm_bindgen::JsCast;
+
+/// The name of the manifest beside the page for the bundled index of the
+/// system `name` (`index-manifest.json` for ICD-10-CM), or `undefined` when
+/// it has none: the core's `System::index_manifest`.
+#[wasm_bindgen(js_name = indexManifest)]
+pub fn index_manifest(name: &str) -> Option<String> {
+    System::parse(name).and_then(|s| s.index_manifest())
+}
+
+/// The bundled index kept at hand beside a list of the system `name`
+/// (ICD-9-CM beside ICD-10-CM and back, for the GEMs), or `undefined`: the
+/// core's `System::companion`.
+#[wasm_bindgen(js_name = companionOf)]
+pub fn companion_of(name: &str) -> Option<String> {
+    System::parse(name)
+        .and_then(|s| s.companion())
+        .map(|s| s.name().to_string())
+}
+
+/// One system with a bundled index, as [`bundled_systems`] lists it.
+#[derive(Serialize)]
+struct Bundled {
+    /// Its name (`icd10cm`).
+    name: &'static str,
+    /// Its title (`ICD-10-CM`).
+    title: &'static str,
+    /// The manifest beside the page that describes its index.
+    manifest: String,
+    /// The bundled index kept at hand beside it, if any.
+    companion: Option<&'static str>,
+    /// Whether it is the system a list is checked in when none is named
+    /// (the page's first index).
+    default: bool,
+}
+
+/// The systems whose index the page serves beside it, in the core's order:
+/// `[{ name, title, manifest, companion, default }]` (`System::bundled`,
+/// `System::index_manifest`, `System::companion`, `systems::DEFAULT`).
+/// Every other system is checked by shape and check digit only.
+#[wasm_bindgen(js_name = bundledSystems)]
+pub fn bundled_systems() -> Result<JsBundledSystems, JsValue> {
+    let list: Vec<Bundled> = systems::bundled_systems()
+        .map(|s: System| Bundled {
+            name: s.name(),
+            title: s.title(),
+            manifest: s.index_manifest().unwrap_or_default(),
+            companion: s.companion().map(System::name),
+            default: s == systems::DEFAULT,
+        })
+        .collect();
+    Ok(to_js(&list)?.unchecked_into())
+}
