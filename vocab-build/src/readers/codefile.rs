@@ -2,6 +2,7 @@
 //! description.
 
 use crate::error::BuildError;
+use crate::formats::{in_force, Builds, Format, Takes};
 
 /// Reads `(code, description)` pairs.
 pub fn parse(file: &str, text: &str) -> Result<Vec<(String, String)>, BuildError> {
@@ -23,6 +24,23 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<(String, String)>, BuildError
     }
     Ok(out)
 }
+
+/// `--codes FILE@PERIOD`: the billable codes of the period.
+pub const FORMAT: Format = Format {
+    flag: "--codes",
+    takes: Takes::Dated,
+    reads: "CMS code-description file (billable codes)",
+    builds: Builds::Part {
+        role: "billable codes",
+        add: |inp, l, period| {
+            let p = in_force(period, "--codes")?;
+            let rows = parse(&l.name, &l.text).map_err(|e| e.to_string())?;
+            let said = format!("{} billable codes", rows.len());
+            inp.codefiles.push((p, rows));
+            Ok(said)
+        },
+    },
+};
 
 #[cfg(test)]
 mod tests {

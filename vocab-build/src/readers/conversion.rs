@@ -4,6 +4,7 @@
 
 use crate::error::BuildError;
 use rollcall::Date;
+use crate::formats::{Builds, Format, Takes};
 
 /// One conversion pair.
 #[derive(Debug, Clone, PartialEq)]
@@ -53,3 +54,17 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
     }
     Ok(out)
 }
+
+/// `--conversion FILE`: the successors of retired codes.
+pub const FORMAT: Format = Format {
+    flag: "--conversion",
+    takes: Takes::File,
+    reads: "CMS conversion table (effective_date, current_code, previous_code)",
+    builds: Builds::Part {
+        role: "successors of retired codes",
+        add: |inp, l, _| {
+            inp.conversion = parse(&l.name, &l.text).map_err(|e| e.to_string())?;
+            Ok(format!("{} conversion pairs", inp.conversion.len()))
+        },
+    },
+};

@@ -5,6 +5,7 @@
 
 use crate::error::BuildError;
 use rollcall::model::{MapFlags, MapRow, Mapping};
+use crate::formats::{Builds, Format, Takes};
 
 fn unquote(s: &str) -> &str {
     s.trim().trim_matches('"')
@@ -82,6 +83,22 @@ pub fn parse(file: &str, text: &str) -> Result<Mapping, BuildError> {
         rows,
     })
 }
+
+/// `--gems FILE`: a mapping kept in the index (a release may have several).
+pub const FORMAT: Format = Format {
+    flag: "--gems",
+    takes: Takes::File,
+    reads: "a General Equivalence Mappings CSV (either direction), kept in the index",
+    builds: Builds::Part {
+        role: "mapping to or from another vocabulary",
+        add: |inp, l, _| {
+            let m = parse(&l.name, &l.text).map_err(|e| e.to_string())?;
+            let said = format!("{} ({} rows)", m.title, m.rows.len());
+            inp.mappings.push(m);
+            Ok(said)
+        },
+    },
+};
 
 #[cfg(test)]
 mod tests {

@@ -3,6 +3,7 @@
 
 use crate::error::BuildError;
 use rollcall::{Date, Period};
+use crate::formats::{Builds, Format, Takes};
 
 /// One history row.
 #[derive(Debug, Clone, PartialEq)]
@@ -51,6 +52,20 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
     }
     Ok(out)
 }
+
+/// `--history FILE`: the billable dates and descriptions of every code.
+pub const FORMAT: Format = Format {
+    flag: "--history",
+    takes: Takes::File,
+    reads: "release-history TSV (code, valid_from, valid_to, description)",
+    builds: Builds::Part {
+        role: "billable dates and descriptions",
+        add: |inp, l, _| {
+            inp.history = parse(&l.name, &l.text).map_err(|e| e.to_string())?;
+            Ok(format!("{} history rows", inp.history.len()))
+        },
+    },
+};
 
 #[cfg(test)]
 mod tests {

@@ -8,6 +8,10 @@ use crate::stated::Term;
 use rollcall::systems::{shape, Shape, System};
 use rollcall::{Date, Period};
 use std::collections::HashMap;
+use crate::formats::{Builds, Format, Options, Own, Takes};
+use crate::provenance::load;
+use crate::stated;
+use std::path::Path;
 
 /// The credit the LOINC licence asks for. The wording is from memory of
 /// the notice the licence (http://loinc.org/license) requires; check it
@@ -198,6 +202,62 @@ pub fn read(
         deprecated,
         qualified,
         map_to: n_map,
+    })
+}
+
+/// `--loinc FILE`: a LOINC release a site is licensed for, an index of its own.
+pub const FORMAT: Format = Format {
+    flag: "--loinc",
+    takes: Takes::File,
+    reads: "the LOINC table (Loinc.csv): LOINC_NUM, LONG_COMMON_NAME or COMPONENT, SHORTNAME, \
+            STATUS (TRIAL and DISCOURAGED warn, DEPRECATED is retired)",
+    builds: Builds::Own {
+        options: &[
+            ("--loinc-map-to", false),
+            ("--release-date", true),
+            ("--release", false),
+        ],
+        default_out: None,
+        read: read_release,
+    },
+};
+
+fn read_release(file: &Path, o: &Options, _: Option<&str>) -> Result<Own, String> {
+    let e = |e: BuildError| e.to_string();
+    let (day, release) = o.release()?;
+    let l = load(file, "terms, names and statuses", None).map_err(e)?;
+    let m = match &o.map_to {
+        Some(m) => Some(load(m, "replacements of deprecated terms", None).map_err(e)?),
+        None => None,
+    };
+    let t = read(
+        &l.name,
+        &l.text,
+        m.as_ref().map(|m| (m.name.as_str(), m.text.as_str())),
+        day,
+    )
+    .map_err(e)?;
+    eprintln!(
+        "read {}: {} terms, {} deprecated, {} trial or discouraged; {} map-to rows",
+        l.name,
+        t.terms.len(),
+        t.deprecated,
+        t.qualified,
+        t.map_to
+    );
+    let mut sources = vec![l.source];
+    sources.extend(m.map(|m| m.source));
+    let about = stated::About {
+        id: "loinc".into(),
+        title: "LOINC".into(),
+        release,
+        day,
+        notice: NOTICE.into(),
+        sources,
+    };
+    Ok(Own {
+        about,
+        terms: t.terms,
     })
 }
 

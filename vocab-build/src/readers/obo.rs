@@ -6,6 +6,10 @@
 use crate::error::BuildError;
 use crate::stated::Term;
 use rollcall::{Date, Period};
+use crate::formats::{Builds, Format, Options, Own, Takes};
+use crate::provenance::load;
+use crate::stated;
+use std::path::Path;
 
 /// What the file says about itself, and its terms.
 pub struct Ontology {
@@ -148,5 +152,58 @@ pub fn read(name: &str, text: &str) -> Result<Ontology, BuildError> {
         day,
         terms,
         obsolete,
+    })
+}
+
+/// `--hpo FILE`: an HPO release, an index of its own (`vocab/hpo.rcx`
+/// with no `--out`).
+pub const FORMAT: Format = Format {
+    flag: "--hpo",
+    takes: Takes::File,
+    reads: "an HPO release in OBO format (hp.obo): terms, is_a parents, obsolete terms with \
+            replaced_by and consider, alt_ids",
+    builds: Builds::Own {
+        options: &[],
+        default_out: Some("hpo.rcx"),
+        read: read_release,
+    },
+};
+
+/// The credit the HPO licence asks for (https://hpo.jax.org/app/license):
+/// name the HPO and its release version, and point to the project.
+fn notice(release: &str) -> String {
+    format!(
+        "This product uses the Human Phenotype Ontology (HPO), release {release}, from the HPO consortium; find out more at http://www.human-phenotype-ontology.org (licence: https://hpo.jax.org/app/license). Terms and their links are shown as released."
+    )
+}
+
+fn read_release(file: &Path, _: &Options, sums: Option<&str>) -> Result<Own, String> {
+    let e = |e: BuildError| e.to_string();
+    let l = load(
+        file,
+        "terms, is_a hierarchy, obsolete terms, alternate ids",
+        sums,
+    )
+    .map_err(e)?;
+    let onto = read(&l.name, &l.text).map_err(e)?;
+    eprintln!(
+        "read {}: {} ({} terms, {} obsolete)",
+        l.name,
+        onto.data_version,
+        onto.terms.len(),
+        onto.obsolete
+    );
+    let release = onto.day.to_string();
+    let about = stated::About {
+        id: "hpo".into(),
+        title: "HPO".into(),
+        notice: notice(&release),
+        release,
+        day: onto.day,
+        sources: vec![l.source],
+    };
+    Ok(Own {
+        about,
+        terms: onto.terms,
     })
 }

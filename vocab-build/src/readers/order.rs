@@ -3,6 +3,7 @@
 //! description in 17-76, long description from 78.
 
 use crate::error::BuildError;
+use crate::formats::{in_force, Builds, Format, Takes};
 
 /// One order-file row.
 #[derive(Debug, Clone, PartialEq)]
@@ -55,6 +56,28 @@ pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
     }
     Ok(out)
 }
+
+/// `--order FILE@PERIOD`: a tree and the billable flags in force for the period.
+pub const FORMAT: Format = Format {
+    flag: "--order",
+    takes: Takes::Dated,
+    reads: "CMS order file (fixed width; flag 1 billable, 0 header)",
+    builds: Builds::Part {
+        role: "hierarchy and billable flags",
+        add: |inp, l, period| {
+            let p = in_force(period, "--order")?;
+            let rows = parse(&l.name, &l.text).map_err(|e| e.to_string())?;
+            let b = rows.iter().filter(|r| r.billable).count();
+            let said = format!(
+                "{} rows, {b} billable, {} headers",
+                rows.len(),
+                rows.len() - b
+            );
+            inp.orders.push((p, rows));
+            Ok(said)
+        },
+    },
+};
 
 #[cfg(test)]
 mod tests {

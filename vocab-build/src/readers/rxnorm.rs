@@ -13,6 +13,10 @@ use crate::error::BuildError;
 use crate::stated::Term;
 use rollcall::{Date, Period};
 use std::collections::{BTreeMap, HashSet};
+use crate::formats::{Builds, Format, Options, Own, Takes};
+use crate::provenance::load;
+use crate::stated;
+use std::path::Path;
 
 /// Term types in the order their name is preferred as a concept's
 /// description (an order of our own: clinical and branded drugs and packs
@@ -210,6 +214,73 @@ pub fn read(
         remapped,
         still_current,
         unknown_targets,
+    })
+}
+
+/// `--rxnorm DIR`: an RxNorm release a site holds, an index of its own.
+pub const FORMAT: Format = Format {
+    flag: "--rxnorm",
+    takes: Takes::Dir,
+    reads: "an RxNorm release's rrf/ folder: RXNCONSO.RRF (SAB=RXNORM names), RXNCUI.RRF when \
+            present (retired and remapped RXCUIs)",
+    builds: Builds::Own {
+        options: &[("--release-date", true), ("--release", false)],
+        default_out: None,
+        read: read_release,
+    },
+};
+
+fn read_release(dir: &Path, o: &Options, _: Option<&str>) -> Result<Own, String> {
+    let e = |e: BuildError| e.to_string();
+    let (day, release) = o.release()?;
+    let conso = load(
+        &dir.join("RXNCONSO.RRF"),
+        "concept names and term types",
+        None,
+    )
+    .map_err(e)?;
+    let cui_path = dir.join("RXNCUI.RRF");
+    let cui = if cui_path.exists() {
+        Some(load(&cui_path, "retired and remapped concepts", None).map_err(e)?)
+    } else {
+        eprintln!(
+            "note: {} is not there; no retired concepts",
+            cui_path.display()
+        );
+        None
+    };
+    let c = read(
+        (&conso.name, &conso.text),
+        cui.as_ref().map(|c| (c.name.as_str(), c.text.as_str())),
+        day,
+    )
+    .map_err(e)?;
+    eprintln!(
+        "read {}: {} RXNORM names, {} concepts in use ({} with every name suppressed)",
+        conso.name,
+        c.names,
+        c.terms.len() - c.retired,
+        c.suppressed
+    );
+    if cui.is_some() {
+        eprintln!(
+            "read RXNCUI.RRF: {} retired concepts, {} remapped; {} rows name a concept still in RXNCONSO (kept in use); {} remap targets are no concept of the release (left out)",
+            c.retired, c.remapped, c.still_current, c.unknown_targets
+        );
+    }
+    let mut sources = vec![conso.source];
+    sources.extend(cui.map(|c| c.source));
+    let about = stated::About {
+        id: "rxnorm".into(),
+        title: "RxNorm".into(),
+        release,
+        day,
+        notice: String::new(),
+        sources,
+    };
+    Ok(Own {
+        about,
+        terms: c.terms,
     })
 }
 

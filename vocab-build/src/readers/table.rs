@@ -9,6 +9,10 @@ use crate::error::BuildError;
 use crate::stated::Term;
 use rollcall::{Date, Period};
 use std::collections::HashMap;
+use crate::formats::{Builds, Format, Options, Own, Takes};
+use crate::provenance::load;
+use crate::stated;
+use std::path::Path;
 
 /// The columns the format knows.
 pub const COLUMNS: [&str; 7] = [
@@ -288,6 +292,53 @@ fn on_cycle(terms: &[Term]) -> Option<&Term> {
         }
     }
     None
+}
+
+/// `--table FILE`: a vocabulary a site keeps in the plain table format, an
+/// index of its own.
+pub const FORMAT: Format = Format {
+    flag: "--table",
+    takes: Takes::File,
+    reads: "the plain table format (see README: code, description, parent, status, \
+            valid_from, valid_to, replaced_by)",
+    builds: Builds::Own {
+        options: &[
+            ("--id", true),
+            ("--title", true),
+            ("--release-date", true),
+            ("--release", false),
+        ],
+        default_out: None,
+        read: read_release,
+    },
+};
+
+fn read_release(file: &Path, o: &Options, _: Option<&str>) -> Result<Own, String> {
+    let e = |e: BuildError| e.to_string();
+    let (day, release) = o.release()?;
+    let (Some(id), Some(title)) = (&o.id, &o.title) else {
+        return Err("a --table import needs --id (e.g. local-labs) and --title (the vocabulary's name)".into());
+    };
+    let l = load(file, "codes, parents, statuses and dates", None).map_err(e)?;
+    let t = read(&l.name, &l.text, day).map_err(e)?;
+    eprintln!(
+        "read {}: {} codes ({})",
+        l.name,
+        t.terms.len(),
+        if t.dated { "dated" } else { "one release" }
+    );
+    let about = stated::About {
+        id: id.clone(),
+        title: title.clone(),
+        release,
+        day,
+        notice: String::new(),
+        sources: vec![l.source],
+    };
+    Ok(Own {
+        about,
+        terms: t.terms,
+    })
 }
 
 #[cfg(test)]

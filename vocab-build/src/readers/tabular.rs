@@ -4,6 +4,7 @@
 
 use super::xml::{Event, Reader, XmlError};
 use rollcall::model::{Chapter, NoteKind, Section};
+use crate::formats::{in_force, Builds, Format, Takes};
 
 /// One `diag` element.
 #[derive(Debug, Clone)]
@@ -194,6 +195,31 @@ pub fn parse(text: &str) -> Result<Tabular, XmlError> {
     out.nodes.retain(|n| !n.code.is_empty());
     Ok(out)
 }
+
+/// `--tabular FILE@PERIOD`: a tree in force for the period, with the
+/// chapters, sections, 7th-character rules and notes.
+pub const FORMAT: Format = Format {
+    flag: "--tabular",
+    takes: Takes::Dated,
+    reads: "CDC tabular XML (hierarchy, chapters, sections, 7th characters)",
+    builds: Builds::Part {
+        role: "hierarchy",
+        add: |inp, l, period| {
+            let p = in_force(period, "--tabular")?;
+            let t = parse(&l.text).map_err(|x| format!("{}: {x}", l.name))?;
+            let said = format!(
+                "version {}, {} chapters, {} sections, {} nodes, {} with 7th-character rules",
+                t.version,
+                t.chapters.len(),
+                t.sections.len(),
+                t.nodes.len(),
+                t.nodes.iter().filter(|n| n.seventh.is_some()).count()
+            );
+            inp.tabulars.push((p, t));
+            Ok(said)
+        },
+    },
+};
 
 #[cfg(test)]
 mod tests {
