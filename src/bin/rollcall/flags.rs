@@ -1,7 +1,7 @@
 //! The one table of commands and flags. The parser (`args::parse`) asks it
-//! which flags a command takes and how each stores its value; `help()`
-//! writes the usage lines and the flag list from it, so the two cannot
-//! drift apart.
+//! which flags a command takes and how each stores its value, `main` which
+//! function runs a command; `help()` writes the usage lines and the flag
+//! list from it, so the two cannot drift apart.
 
 use super::*;
 
@@ -15,6 +15,8 @@ pub(crate) struct Command {
     /// Whether `--format` also takes the exports (`rollcall::export::FORMATS`).
     pub(crate) exports: bool,
     pub(crate) summary: &'static str,
+    /// What it does with the arguments and the format asked for.
+    pub(crate) run: fn(&Args, &str) -> Result<ExitCode, String>,
 }
 
 /// How a flag is written beside the one above it in the table, on a usage
@@ -54,6 +56,7 @@ pub(crate) static COMMANDS: &[Command] = &[
                   study period: each code's status and dates, headers, retired codes and what \
                   replaces them, near codes for unknown ones, labels that do not fit; or hands \
                   the list on as one of the exports (EXPORT)",
+        run: check::run,
     },
     Command {
         name: "compare",
@@ -62,6 +65,7 @@ pub(crate) static COMMANDS: &[Command] = &[
         exports: false,
         summary: "checks both lists, then compares the billable codes each reaches in the \
                   period; --format csv writes one row per code only one list reaches",
+        run: compare::run,
     },
     Command {
         name: "translate",
@@ -70,6 +74,7 @@ pub(crate) static COMMANDS: &[Command] = &[
         exports: false,
         summary: "maps an ICD-9-CM list to ICD-10-CM, or back, with the 2015 GEMs, and judges \
                   each target for the period; the first list's system is the other one",
+        run: translate::run,
     },
     Command {
         name: "info",
@@ -79,6 +84,7 @@ pub(crate) static COMMANDS: &[Command] = &[
         summary: "the indexes at hand (the bundled ones, or the --index file): release, \
                   coverage, path, size, checksum and source files, and the systems checked by \
                   shape only",
+        run: info::run,
     },
     Command {
         name: "find",
@@ -89,6 +95,7 @@ pub(crate) static COMMANDS: &[Command] = &[
                   as DM, HTN, w/o allowed); a code or code start first (E11.6) lists that node \
                   and what lies under it, and narrows the words after it to that part of the \
                   tree (E11.6 foot)",
+        run: find::run,
     },
     Command {
         name: "show",
@@ -99,6 +106,7 @@ pub(crate) static COMMANDS: &[Command] = &[
                   releases, chapter, section and ancestors, children and siblings in force on \
                   the day (the last day of a period), the tabular list's notes, successors, \
                   predecessors and GEM mappings; an unknown code gets the check's suggestions",
+        run: show::run,
     },
 ];
 
@@ -573,6 +581,17 @@ mod tests {
             translate.contains(" --into icd10cm|icd9cm [--on"),
             "{translate}"
         );
+    }
+
+    /// A flag or a command is named once.
+    #[test]
+    fn names_are_unique() {
+        for (i, f) in FLAGS.iter().enumerate() {
+            assert!(FLAGS[..i].iter().all(|g| g.name != f.name), "{}", f.name);
+        }
+        for (i, c) in COMMANDS.iter().enumerate() {
+            assert!(COMMANDS[..i].iter().all(|d| d.name != c.name), "{}", c.name);
+        }
     }
 
     #[test]

@@ -36,20 +36,20 @@ fn run(argv: &[String]) -> Result<ExitCode, String> {
         return Ok(ExitCode::SUCCESS);
     }
     let a = parse(argv).map_err(|Usage(m)| format!("{m}\n(see rollcall --help)"))?;
-    // The parser has checked the format against the command's.
-    let format = a.format.clone().unwrap_or_else(|| "text".into());
-    match a.command.as_str() {
-        "check" => check::run(&a, &format),
-        "compare" => compare::run(&a, &format),
-        "translate" => translate::run(&a, &format),
-        "info" => info::run(&a, &format),
-        "find" => find::run(&a, &format),
-        "show" => show::run(&a, &format),
-        other => Err(format!(
-            "unknown command \"{other}\"; the commands are {} (see rollcall --help)",
+    // The parser has found the command in the table, and checked the
+    // format against the command's (the first is the default).
+    let Some(c) = flags::command(&a.command) else {
+        return Err(format!(
+            "unknown command \"{}\"; the commands are {} (see rollcall --help)",
+            a.command,
             flags::command_names()
-        )),
-    }
+        ));
+    };
+    let format = a
+        .format
+        .clone()
+        .unwrap_or_else(|| c.formats.first().copied().unwrap_or("text").to_string());
+    (c.run)(&a, &format)
 }
 
 fn write_out(s: &str) {
