@@ -20,9 +20,6 @@ const $ = (id) => document.getElementById(id);
 const ROW_PAGE = 500;
 const STRIP_LIMIT = 150;
 const LINK_LIMIT = 60_000; // characters of fragment; longer lists get no link
-// Systems with a bundled index (manifest-NAME.json beside the page); the
-// others in the "Code system" menu are checked by shape and check digit.
-const BUNDLED = new Set(["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
 // A site's own indexes (site-indexes.json beside the page) are picked by
 // this prefix and their name there, so a link keeps the pick.
 const SITE = "site:";
@@ -59,6 +56,10 @@ const state = {
   pageText: null, // what the page last wrote into the list (its undo keys apply while the list still holds it)
   focusAfter: null, // after a fix: {index, key} of the finding to focus once the check is shown
   workbook: null, // { name, bytes } while a dropped workbook is the list
+  // The systems with a bundled index, by name ({name, title, manifest, ...}),
+  // as the core says through the binding once the first index is in; the
+  // others in the "Code system" menu are checked by shape and check digit.
+  bundled: null,
 };
 const edits = new EditHistory();
 
@@ -94,11 +95,18 @@ function showProgress(got, total) {
   $("index-progress-text").textContent = total ? `${formatBytes(got)} of ${formatBytes(total)}` : formatBytes(got);
 }
 
+/** The manifest beside the page of a system's bundled index (the core's name for it). */
+function manifestOf(name) {
+  const system = state.bundled && state.bundled.get(name);
+  if (!system) throw new Error("the index is not loaded");
+  return system.manifest;
+}
+
 /** Opens the index of another system (fetched the first time it is asked for). */
 async function switchSystem(name) {
   const box = $("options-error");
   const site = siteIndexes.get(name) || null;
-  if (!BUNDLED.has(name) && !site) {
+  if (state.bundled && !state.bundled.has(name) && !site) {
     // No content to load: the loaded index stays for rows naming its system.
     state.shapes = name;
     box.hidden = true;
@@ -122,7 +130,7 @@ async function switchSystem(name) {
     // A site index's manifest was read (and checked) with the site's list.
     const manifest = site
       ? site.manifest
-      : await readManifest(name === "icd10cm" ? "index-manifest.json" : `manifest-${name}.json`);
+      : await readManifest(manifestOf(name));
     const opened = await open(manifest.file, { manifest, onProgress: showProgress });
     if (checker) checker.close();
     checker = opened;
@@ -157,7 +165,10 @@ async function loadIndex() {
       const manifest = await readManifest("index-manifest.json");
       opened = await open(indexFileName(manifest), { manifest, onProgress: showProgress });
     }
+    const systems = await opened.request("bundled");
+    state.bundled = new Map(systems.map((s) => [s.name, s]));
   } catch (e) {
+    if (opened) opened.close();
     const msg = e.message.replace(/^Error: /, "");
     throw new Error(`${msg.charAt(0).toUpperCase()}${msg.slice(1)}`);
   }

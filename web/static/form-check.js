@@ -14,7 +14,7 @@
 //   <textarea name="codes" data-rollcall-check="icd10cm" data-rollcall-from="2019-01-01"
 //             data-rollcall-to="2024-12-31" data-rollcall-billable></textarea>
 
-import { open, openSite } from "./rollcall.js";
+import { open, openSite, readManifest } from "./rollcall.js";
 
 const HERE = new URL(".", import.meta.url);
 const SUMMARY_FORMAT = "rollcall-summary/1";
@@ -58,6 +58,63 @@ const checkers = new Map();
 function checkerFor(indexUrl, manifestUrl) {
   const key = `${indexUrl} ${manifestUrl}`;
   if (!checkers.has(key)) checkers.set(key, open(indexUrl, { manifest: manifestUrl }));
+  return checkers.get(key);
+}
+
+/**
+ * One request to a worker that has opened no index yet: the worker speaks
+ * the protocol of worker.js, and `open` takes it over afterwards.
+ */
+function askWorker(worker, type) {
+  return new Promise((resolve, reject) => {
+    const id = `${type}-first`;
+    const done = () => {
+      worker.removeEventListener("message", onMessage);
+      worker.removeEventListener("error", onError);
+    };
+    const onMessage = (event) => {
+      const reply = event.data || {};
+      if (reply.id !== id) return;
+      done();
+      if (reply.ok) resolve(reply.result);
+      else reject(new Error(reply.error));
+    };
+    const onError = (event) => {
+      if (event.preventDefault) event.preventDefault();
+      done();
+      reject(new Error(`the checker could not start: ${event.message || "the worker failed to load"}`));
+    };
+    worker.addEventListener("message", onMessage);
+    worker.addEventListener("error", onError);
+    worker.postMessage({ id, type });
+  });
+}
+
+/**
+ * The checker of the core's default system (ICD-10-CM), for a textarea that
+ * names no index: its manifest (or the one the textarea names) is the one
+ * the core gives it, and the index is the file that manifest names.
+ */
+function checkerForDefault(manifestUrl) {
+  const key = `default ${manifestUrl}`;
+  if (!checkers.has(key)) {
+    checkers.set(
+      key,
+      (async () => {
+        const worker = new Worker(new URL("worker.js", HERE));
+        try {
+          const systems = await askWorker(worker, "bundled");
+          const first = systems.find((s) => s.default);
+          const manifest = await readManifest(manifestUrl || new URL(first.manifest, HERE).href);
+          if (!manifest.file) throw new Error("the index manifest names no index file; give data-rollcall-index too");
+          return await open(new URL(manifest.file, HERE).href, { manifest, worker });
+        } catch (e) {
+          worker.terminate();
+          throw e;
+        }
+      })(),
+    );
+  }
   return checkers.get(key);
 }
 
@@ -159,17 +216,19 @@ class FormList {
     this.label = (textarea.labels && textarea.labels[0] && textarea.labels[0].textContent.trim()) || "the code list";
     this.build();
     const idx = textarea.dataset.rollcallIndex;
-    const indexUrl = idx ? new URL(idx, document.baseURI).href : new URL("icd10cm.rcx", HERE).href;
     const manifestUrl = textarea.dataset.rollcallManifest
       ? new URL(textarea.dataset.rollcallManifest, document.baseURI).href
-      : idx
-        ? null
-        : new URL("index-manifest.json", HERE).href;
+      : null;
     this.setState("loading");
     this.status.textContent = "Loading the index to check this list…";
     // A site's own index, named as site-indexes.json beside this file lists it.
     const site = textarea.dataset.rollcallSite;
-    this.ready = (site ? checkerForSite(site) : checkerFor(indexUrl, manifestUrl)).then(
+    const opening = site
+      ? checkerForSite(site)
+      : idx
+        ? checkerFor(new URL(idx, document.baseURI).href, manifestUrl)
+        : checkerForDefault(manifestUrl);
+    this.ready = opening.then(
       (checker) => {
         this.checker = checker;
         const want = textarea.dataset.rollcallCheck;

@@ -456,6 +456,7 @@ self.onmessage = async (event) => {
       case "site":
         result = await siteIndexes();
         break;
+      case "bundled": result = wasm_bindgen.bundledSystems(); break; // <- [{name, title, manifest, companion, default}]
       case "notes":
         result = await notes(msg.bytes ? new Uint8Array(msg.bytes) : null, msg.manifest || null);
         break;
