@@ -68,7 +68,9 @@ fn idf(n: u32, df: u32) -> f32 {
     (1.0 + (n - df + 0.5) / (df + 0.5)).ln()
 }
 
-/// Edit distance of two short words (characters changed, added or dropped).
+/// Edit distance of two short words (characters changed, added or dropped):
+/// the full table, against which the tests hold the quicker checks.
+#[cfg(test)]
 fn edits(a: &str, b: &str) -> usize {
     let (a, b) = (a.as_bytes(), b.as_bytes());
     let mut prev: Vec<usize> = (0..=b.len()).collect();
@@ -82,6 +84,26 @@ fn edits(a: &str, b: &str) -> usize {
         std::mem::swap(&mut prev, &mut cur);
     }
     prev[b.len()]
+}
+
+/// Whether two words are at most one edit apart (the same as
+/// `edits(a, b) <= 1`, without the table: one pass, no allocation).
+fn within_one_edit(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    let (short, long) = if a.len() <= b.len() { (a, b) } else { (b, a) };
+    if long.len() - short.len() > 1 {
+        return false;
+    }
+    // The first byte that differs; past it, the rest must be the same
+    // after one byte changed (same length) or one dropped from the longer.
+    let Some(i) = short.iter().zip(long).position(|(x, y)| x != y) else {
+        return true;
+    };
+    if short.len() == long.len() {
+        short[i + 1..] == long[i + 1..]
+    } else {
+        short[i..] == long[i + 1..]
+    }
 }
 
 /// How many edits a word of this length may be misspelt by.
@@ -99,7 +121,7 @@ fn allowed_edits(w: &str) -> u32 {
 fn same_word(a: &str, b: &str) -> f32 {
     if a == b {
         1.0
-    } else if a.len() >= 5 && b.len() >= 5 && a.len().abs_diff(b.len()) <= 1 && edits(a, b) <= 1 {
+    } else if a.len() >= 5 && b.len() >= 5 && within_one_edit(a, b) {
         MISSPELT
     } else {
         0.0
@@ -222,7 +244,7 @@ fn variants(view: &View<'_>, w: &str, prefix: bool) -> Vec<(u64, f32)> {
         let mut s = map.search(aut).into_stream();
         while let Some((k, off)) = s.next() {
             let k = std::str::from_utf8(k).unwrap_or("");
-            let weight = if edits(w, k) <= 1 {
+            let weight = if within_one_edit(w, k) {
                 EDIT1_WEIGHT
             } else {
                 EDIT2_WEIGHT
@@ -308,11 +330,18 @@ fn search_words(
     }
     let n = view.len() as u32;
     let avg = view.mean_word_count();
-    let mut score = vec![0f32; view.len()];
-    let mut best = vec![0f32; view.len()];
-    // Per code: the weight of the query words found in any of its wordings.
-    let mut cover = vec![0f32; view.len()];
-    let mut best_w = vec![0f32; view.len()];
+    // Per code: its score, the best score of the current word's variants, the
+    // weight of the query words found in any of its wordings, and the best
+    // weight of the current word's. Kept between searches, all zero (see
+    // `Scratch`).
+    let mut scratch = SCRATCH.with(|s| s.take());
+    scratch.fit(view.len());
+    let Scratch {
+        score,
+        best,
+        cover,
+        best_w,
+    } = &mut scratch;
     let mut skipped = Vec::with_capacity(q.len());
     let mut touched: Vec<u32> = Vec::new();
     let mut any: Vec<u32> = Vec::new();
@@ -367,28 +396,31 @@ fn search_words(
         }
         touched.clear();
     }
+    // The codes whose score and cover are set, to zero them again at the end.
+    let set = any.clone();
     if let Some(w) = within {
         any.retain(|o| w.binary_search(o).is_ok());
     }
-    // Keep the strongest candidates, then re-rank them by their description.
-    any.sort_unstable_by(|a, b| {
+    // Keep the strongest candidates (by score, then ordinal: a total order,
+    // so the set kept does not depend on how it is found), then re-rank them
+    // by their description. Only the strongest are put in order.
+    let stronger = |a: &u32, b: &u32| {
         score[*b as usize]
             .total_cmp(&score[*a as usize])
             .then(a.cmp(b))
-    });
+    };
+    let mut any = strongest(any, RERANK, &stronger);
     // A short query also re-ranks the codes of few words beyond the
     // strongest: the category's general code for it ("Pneumonia,
     // unspecified organism") is among them, however many rare codes
     // ("Gonococcal pneumonia") are shorter still.
     if q.len() <= SHORT_QUERY && any.len() > RERANK {
-        let few: Vec<u32> = any[RERANK..]
-            .iter()
-            .copied()
+        let few: Vec<u32> = any
+            .split_off(RERANK)
+            .into_iter()
             .filter(|&o| view.word_count(o) as usize <= q.len() + 3)
-            .take(RERANK)
             .collect();
-        any.truncate(RERANK);
-        any.extend(few);
+        any.extend(strongest(few, RERANK, &stronger).into_iter().take(RERANK));
     } else {
         any.truncate(RERANK);
     }
@@ -436,7 +468,57 @@ fn search_words(
         .collect();
     hits.sort_by(|a, b| b.score.total_cmp(&a.score).then(a.ord.cmp(&b.ord)));
     hits.truncate(opts.limit.max(1));
+    for o in set {
+        score[o as usize] = 0.0;
+        cover[o as usize] = 0.0;
+    }
+    SCRATCH.with(|s| s.replace(scratch));
     hits
+}
+
+/// The per-code tables of [`search_words`], one `f32` per code each, kept
+/// for the next search rather than allocated and zeroed per query (four
+/// times the codes of the index, for every reading of every label). Every
+/// value is zero between searches.
+#[derive(Default)]
+struct Scratch {
+    score: Vec<f32>,
+    best: Vec<f32>,
+    cover: Vec<f32>,
+    best_w: Vec<f32>,
+}
+
+impl Scratch {
+    /// One value per code of an index of `len` codes.
+    fn fit(&mut self, len: usize) {
+        for v in [
+            &mut self.score,
+            &mut self.best,
+            &mut self.cover,
+            &mut self.best_w,
+        ] {
+            v.resize(len, 0.0);
+        }
+    }
+}
+
+thread_local! {
+    static SCRATCH: std::cell::RefCell<Scratch> = std::cell::RefCell::default();
+}
+
+/// `items` with its `k` first by `order` moved to the front and sorted
+/// (the rest after them, in no order): a full sort's first `k`, without
+/// sorting thousands of weak candidates.
+fn strongest<F>(mut items: Vec<u32>, k: usize, order: &F) -> Vec<u32>
+where
+    F: Fn(&u32, &u32) -> std::cmp::Ordering,
+{
+    if items.len() > k && k > 0 {
+        items.select_nth_unstable_by(k - 1, order);
+    }
+    let end = k.min(items.len());
+    items[..end].sort_unstable_by(order);
+    items
 }
 
 /// Words that leave a description as general as the query it fits
@@ -719,6 +801,31 @@ mod tests {
                 }
             }
         }
+    }
+
+    /// The one-pass check agrees with the full table on every pair of words
+    /// of up to five letters over a small alphabet.
+    #[test]
+    fn within_one_edit_agrees_with_the_full_table() {
+        let mut all: Vec<String> = vec![String::new()];
+        for len in 1..=5u32 {
+            for n in 0..3usize.pow(len) {
+                let mut w = String::new();
+                let mut k = n;
+                for _ in 0..len {
+                    w.push(b"abc"[k % 3] as char);
+                    k /= 3;
+                }
+                all.push(w);
+            }
+        }
+        for a in all.iter().step_by(5) {
+            for b in &all {
+                assert_eq!(within_one_edit(a, b), edits(a, b) <= 1, "{a} {b}");
+            }
+        }
+        assert!(within_one_edit("hyperglycemia", "hyperglycaemia"));
+        assert!(!within_one_edit("hyperglycemia", "hypoglycemia"));
     }
 
     #[test]
