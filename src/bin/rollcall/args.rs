@@ -111,23 +111,18 @@ pub(crate) fn parse(argv: &[String]) -> Result<Args, Usage> {
     Ok(a)
 }
 
-/// The check options asked for; with no day or period, the default day of
-/// the index checked against (`Meta::default_day`), today for a shape check.
+/// The check options asked for (the core's rule, `CheckOptions::asked`),
+/// its refusals worded with the CLI's flags; with no day or period, the
+/// default day of the index checked against (`Meta::default_day`), today for
+/// a shape check.
 pub(crate) fn options(a: &Args, default_day: Date) -> Result<CheckOptions, Usage> {
-    match (a.on, a.from, a.to) {
-        (Some(_), Some(_), _) | (Some(_), _, Some(_)) => Err(Usage(
-            "give either --on DATE or --from DATE --to DATE, not both".into(),
-        )),
-        (Some(d), None, None) => Ok(CheckOptions::on(d, a.billable)),
-        (None, Some(f), Some(t)) if t < f => Err(Usage(format!("--to {t} is before --from {f}"))),
-        (None, Some(f), Some(t)) => Ok(CheckOptions {
-            from: f,
-            to: t,
-            billable: a.billable,
-        }),
-        (None, Some(_), None) | (None, None, Some(_)) => {
-            Err(Usage("a study period needs both --from and --to".into()))
-        }
-        (None, None, None) => Ok(CheckOptions::on(default_day, a.billable)),
-    }
+    CheckOptions::asked(a.on, a.from, a.to, a.billable, default_day).map_err(|e| {
+        Usage(match e {
+            DaysError::DayAndPeriod => {
+                "give either --on DATE or --from DATE --to DATE, not both".into()
+            }
+            DaysError::Backwards { from, to } => format!("--to {to} is before --from {from}"),
+            DaysError::HalfPeriod => "a study period needs both --from and --to".into(),
+        })
+    })
 }

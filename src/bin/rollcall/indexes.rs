@@ -201,10 +201,7 @@ pub(crate) fn export_text(
     opts: &CheckOptions,
     url: Option<&str>,
 ) -> Result<String, String> {
-    let meta = rollcall::export::ValueSetMeta {
-        url: url.unwrap_or(rollcall::export::PLACEHOLDER_URL).to_string(),
-        date: today(),
-    };
+    let meta = rollcall::export::ValueSetMeta::new(url.unwrap_or_default(), today());
     match target {
         Target::Index(l) => {
             let index = l.index();

@@ -4,6 +4,7 @@
 //! Exit status: 0 no error-level finding, 1 error-level findings, 2 usage or
 //! input error.
 
+use rollcall::check::DaysError;
 use rollcall::list::{Draft, Reading};
 use rollcall::mixed::{check_listed_draft, systems_named_in, Primary};
 use rollcall::systems::System;
