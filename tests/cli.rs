@@ -880,3 +880,28 @@ fn a_lone_surrogate_in_utf16_is_refused() {
     assert!(err(&o).contains("UTF-16"), "{}", err(&o));
     assert!(err(&o).contains("line 2"), "{}", err(&o));
 }
+
+// The README's usage block is the help's usage section, line for line, so
+// the two cannot drift apart (the help is written from the flag table).
+#[test]
+fn the_readme_usage_block_is_the_help_usage_section() {
+    let help = out(&rollcall(&["--help"], None));
+    let section: Vec<&str> = help
+        .lines()
+        .skip_while(|l| *l != "usage:")
+        .take_while(|l| !l.is_empty())
+        .collect();
+    assert!(section.len() > 6, "no usage section in the help:\n{help}");
+    let readme = std::fs::read_to_string(root().join("README.md")).unwrap();
+    let block: Vec<&str> = readme
+        .split("```text\n")
+        .find(|b| b.starts_with("usage:\n"))
+        .and_then(|b| b.split("\n```").next())
+        .expect("README.md has a ```text block starting with usage:")
+        .lines()
+        .collect();
+    assert_eq!(
+        block, section,
+        "README.md's usage block differs from rollcall --help"
+    );
+}
