@@ -49,6 +49,8 @@
 //      manifests, each checked by the binding; found false: the site has no
 //      such file (404); a listed manifest that is missing or wrong is left
 //      out and named in problems; a malformed site file fails the request)
+//   -> {id, type: "bundled"}
+//   <- {id, ok: true, result: BundledSystem[]}   (the systems whose index the page serves, from the core)
 //   any failure: {id, ok: false, error: "readable message"}
 /* global wasm_bindgen, rollcall_workbook, WORKBOOK_WASM_GZ */
 "use strict";
