@@ -7,6 +7,7 @@ import { test, before, after } from "node:test";
 import assert from "node:assert/strict";
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
+import zlib from "node:zlib";
 import os from "node:os";
 import path from "node:path";
 import { chromium } from "playwright-core";
@@ -397,6 +398,38 @@ test("a truncated or wrong index gives a clear message", async () => {
   await notIndex.waitForSelector("#index-error:not([hidden])");
   assert.match(await notIndex.textContent("#index-error"), /cannot open the index: this is not a rollcall index/i);
   await notIndex.close();
+});
+
+test("the index travels packed, and a damaged packed copy gives a clear message", async () => {
+  // index-manifest --pack writes icd10cm.rcx.gz beside the index and names it
+  // in the manifest; a browser with DecompressionStream fetches that copy
+  // alone (a fifth of the bytes from a server that sends files as they are).
+  const manifest = JSON.parse(fs.readFileSync(path.join(DIST, "index-manifest.json"), "utf8"));
+  const packedFile = fs.readFileSync(path.join(DIST, "icd10cm.rcx.gz"));
+  assert.deepEqual(manifest.packed, { file: "icd10cm.rcx.gz", encoding: "gzip", byte_length: packedFile.length });
+  assert.deepEqual(zlib.gunzipSync(packedFile), fs.readFileSync(path.join(DIST, "icd10cm.rcx")));
+  const page = await context.newPage();
+  const seen = [];
+  page.on("request", (r) => seen.push(new URL(r.url()).pathname));
+  await page.goto(`${origin}/`);
+  await waitReady(page);
+  assert.ok(seen.includes("/icd10cm.rcx.gz"), "the packed copy is fetched");
+  assert.ok(!seen.includes("/icd10cm.rcx"), "the raw index is not fetched as well");
+  await page.close();
+
+  // A copy that is not gzip, and one that unpacks to other bytes.
+  for (const [body, want] of [
+    [Buffer.concat([packedFile.subarray(0, 1000), Buffer.alloc(50, 0xaa)]), /icd10cm\.rcx\.gz.*does not unpack.*damaged/],
+    [zlib.gzipSync(Buffer.from("this is not an index file at all, just text ".repeat(20))), /cannot open the index: this is not a rollcall index/i],
+  ]) {
+    const bad = await context.newPage();
+    await bad.route("**/icd10cm.rcx.gz", (route) => route.fulfill({ status: 200, contentType: "application/octet-stream", body }));
+    await bad.goto(`${origin}/`);
+    await bad.waitForSelector("#index-error:not([hidden])");
+    assert.match(await bad.textContent("#index-error"), want);
+    assert.equal(await bad.isDisabled("#check-now"), true);
+    await bad.close();
+  }
 });
 
 test("a missing index gives a clear message", async () => {
