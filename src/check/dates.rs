@@ -169,65 +169,9 @@ pub(crate) fn judge_dates(
         match (first, last) {
             (_, Some(last)) if last < period.from => {
                 e.status = Status::Retired;
-                let last_b = billable.iter().map(|p| p.to).max().unwrap_or(last);
-                let mut sugg: Vec<Suggestion> = view
-                    .successors(ord)
-                    .filter(|(s, _)| view.billable_in(*s, period))
-                    .map(|(s, d)| {
-                        suggestion(
-                            view,
-                            s,
-                            format!(
-                                "{}: its data from {d} is coded as this",
-                                successor_source(view)
-                            ),
-                        )
-                    })
-                    .collect();
-                if sugg.is_empty() {
-                    let kids = billable_under(view, ord, period);
-                    for &o in kids.iter().take(NAMED_LIMIT) {
-                        sugg.push(suggestion(
-                            view,
-                            o,
-                            "a code under it, billable in the period",
-                        ));
-                    }
-                }
-                if sugg.is_empty() {
-                    sugg = nearest_in_use(view, &view.code(ord), ord, period);
-                }
-                let listed: Vec<&Suggestion> = sugg
-                    .iter()
-                    .filter(|s| {
-                        view.ordinal(&s.code.replace('.', ""))
-                            .is_some_and(|o| ctx.reached.contains(&o))
-                    })
-                    .collect();
-                let mut msg = format!(
-                    "{shown} was retired: its last valid day was {last_b}, before the period starts ({})",
-                    period.from
-                );
-                if !sugg.is_empty() {
-                    msg.push_str(&format!(
-                        "; {} {}",
-                        if sugg.len() == 1 {
-                            "its replacement is"
-                        } else {
-                            "replacements are"
-                        },
-                        sugg.iter()
-                            .map(|s| s.code.as_str())
-                            .take(NAMED_LIMIT)
-                            .collect::<Vec<_>>()
-                            .join(", ")
-                    ));
-                    if !listed.is_empty() {
-                        msg.push_str(&format!(" ({} already in the list)", listed.len()));
-                    }
-                }
-                e.findings
-                    .push(Finding::new(Kind::Retired, Severity::Error, msg, sugg));
+                let last_valid = billable.iter().map(|p| p.to).max().unwrap_or(last);
+                let facts = retired_before(view, period, ctx, ord, shown, last_valid);
+                e.findings.push(facts.finding());
             }
             (Some(first), _) if first > period.to => {
                 e.status = Status::NotYetValid;
@@ -281,6 +225,146 @@ pub(crate) fn judge_dates(
     }
     // Mixed: billable on part of the period.
     e.status = Status::Partial;
+    e.findings
+        .push(partial_period(view, ctx, ord, shown, &segs).finding());
+}
+
+/// A code retired before the period starts, as facts;
+/// [`RetiredBefore::message`] writes the sentence.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub(crate) struct RetiredBefore {
+    /// The code as the list shows it.
+    pub code: String,
+    /// Its last billable day.
+    pub last_valid: Date,
+    /// The first day of the period.
+    pub period_from: Date,
+    /// What replaces it: its successors billable in the period, else the
+    /// codes under it billable then, else the nearest codes in use.
+    pub replacements: Vec<Suggestion>,
+    /// How many of the replacements the list already reaches.
+    pub listed: usize,
+}
+
+/// The facts of a code at `ord` whose last billable day, `last_valid`,
+/// lies before `period`.
+pub(crate) fn retired_before(
+    view: &View<'_>,
+    period: &Period,
+    ctx: &ListContext,
+    ord: u32,
+    shown: &str,
+    last_valid: Date,
+) -> RetiredBefore {
+    let mut replacements: Vec<Suggestion> = view
+        .successors(ord)
+        .filter(|(s, _)| view.billable_in(*s, period))
+        .map(|(s, d)| {
+            suggestion(
+                view,
+                s,
+                format!(
+                    "{}: its data from {d} is coded as this",
+                    successor_source(view)
+                ),
+            )
+        })
+        .collect();
+    if replacements.is_empty() {
+        let kids = billable_under(view, ord, period);
+        for &o in kids.iter().take(NAMED_LIMIT) {
+            replacements.push(suggestion(
+                view,
+                o,
+                "a code under it, billable in the period",
+            ));
+        }
+    }
+    if replacements.is_empty() {
+        replacements = nearest_in_use(view, &view.code(ord), ord, period);
+    }
+    let listed = replacements
+        .iter()
+        .filter(|s| {
+            view.ordinal(&s.code.replace('.', ""))
+                .is_some_and(|o| ctx.reached.contains(&o))
+        })
+        .count();
+    RetiredBefore {
+        code: shown.to_string(),
+        last_valid,
+        period_from: period.from,
+        replacements,
+        listed,
+    }
+}
+
+/// A code billable on part of the period only, as facts;
+/// [`PartialPeriod::message`] writes the sentence.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub(crate) struct PartialPeriod {
+    /// The code as the list shows it.
+    pub code: String,
+    /// The parts of the period, in order, each with the code's state.
+    pub parts: Vec<Part>,
+    /// Codes covering the parts the code does not, that the list lacks.
+    pub suggestions: Vec<Suggestion>,
+}
+
+/// One part of the period and the code's state on it.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub(crate) struct Part {
+    /// Its days.
+    pub days: Period,
+    /// The code's state on them.
+    pub state: PartState,
+}
+
+/// What a code is on a part of the period.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub(crate) enum PartState {
+    /// Billable.
+    Billable,
+    /// A header over these billable codes.
+    Header(Named),
+    /// Not valid yet; its data coded as these codes (none named by the release).
+    NotYetValid(Named),
+    /// Retired; its data coded as these codes.
+    Retired(Named),
+}
+
+/// Codes a finding names: the first three as a message shows them, how
+/// many there are, and how many of them the list reaches.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub(crate) struct Named {
+    /// The first three, dotted.
+    pub shown: Vec<String>,
+    /// How many there are.
+    pub count: usize,
+    /// How many of them the list reaches.
+    pub listed: usize,
+}
+
+impl Named {
+    /// The codes at `ords`, those the list reaches counted.
+    pub(crate) fn of(view: &View<'_>, ctx: &ListContext, ords: &[u32]) -> Named {
+        Named {
+            shown: shown_codes(view, ords),
+            count: ords.len(),
+            listed: ords.iter().filter(|o| ctx.reached.contains(o)).count(),
+        }
+    }
+}
+
+/// The facts of a code at `ord` over the segments `segs` of the period,
+/// billable on some of them only.
+pub(crate) fn partial_period(
+    view: &View<'_>,
+    ctx: &ListContext,
+    ord: u32,
+    shown: &str,
+    segs: &[(Period, Option<SpanKind>)],
+) -> PartialPeriod {
     let mut parts = Vec::new();
     let mut sugg = Vec::new();
     let mut seen = HashSet::new();
@@ -292,26 +376,17 @@ pub(crate) fn judge_dates(
             }
         }
     };
-    for (p, k) in &segs {
-        match k {
-            Some(SpanKind::Billable) => parts.push(format!("billable from {} to {}", p.from, p.to)),
+    for &(p, k) in segs {
+        let state = match k {
+            Some(SpanKind::Billable) => PartState::Billable,
             Some(SpanKind::Header) => {
-                let kids = billable_under(view, ord, p);
-                let have = kids.iter().filter(|o| ctx.reached.contains(o)).count();
-                parts.push(format!(
-                    "from {} to {} a header over {} billable code{} ({}), {}",
-                    p.from,
-                    p.to,
-                    kids.len(),
-                    if kids.len() == 1 { "" } else { "s" },
-                    name_codes(view, &kids),
-                    in_list(have, kids.len())
-                ));
+                let kids = billable_under(view, ord, &p);
                 offer(
                     &mut sugg,
                     &kids,
                     format!("covers {} to {} under it", p.from, p.to),
                 );
+                PartState::Header(Named::of(view, ctx, &kids))
             }
             None => {
                 let before = p.to
@@ -327,44 +402,180 @@ pub(crate) fn judge_dates(
                 let cover: Vec<u32> = cover
                     .into_iter()
                     .map(|(o, _)| o)
-                    .filter(|o| view.billable_in(*o, p) && *o != ord)
+                    .filter(|o| view.billable_in(*o, &p) && *o != ord)
                     .collect();
-                let have = cover.iter().filter(|o| ctx.reached.contains(o)).count();
-                let what = if before { "not yet valid" } else { "retired" };
-                if cover.is_empty() {
-                    parts.push(format!("from {} to {} {what}", p.from, p.to));
-                } else {
-                    parts.push(format!(
-                        "from {} to {} {what}, its data coded as {} ({})",
-                        p.from,
-                        p.to,
-                        name_codes(view, &cover),
-                        in_list(have, cover.len())
-                    ));
-                }
                 offer(
                     &mut sugg,
                     &cover,
                     format!("{}: covers {} to {}", successor_source(view), p.from, p.to),
                 );
+                let named = Named::of(view, ctx, &cover);
+                if before {
+                    PartState::NotYetValid(named)
+                } else {
+                    PartState::Retired(named)
+                }
             }
-        }
+        };
+        parts.push(Part { days: p, state });
     }
-    e.findings.push(Finding::new(
-        Kind::PartialPeriod,
-        Severity::Warning,
-        format!(
-            "{shown} is billable for part of the period only: {}",
-            parts.join("; ")
-        ),
-        sugg,
-    ));
+    PartialPeriod {
+        code: shown.to_string(),
+        parts,
+        suggestions: sugg,
+    }
 }
 
 #[cfg(test)]
 mod tests {
+    use super::{partial_period, retired_before, segments, within_coverage};
+    use super::{Named, Part, PartState, PartialPeriod};
     use crate::check::testing::*;
     use crate::report::{Kind, Status};
+    use crate::View;
+
+    /// The facts of a code over `from`..`to` billable on part of it only.
+    fn partial(
+        view: &View<'_>,
+        code: &str,
+        from: &str,
+        to: &str,
+        reached: &[&str],
+    ) -> PartialPeriod {
+        let ord = view.ordinal(code).unwrap();
+        let segs = segments(view, ord, &within_coverage(view, &span(from, to)));
+        let ctx = context(view, reached);
+        partial_period(view, &ctx, ord, &view.display(code), &segs)
+    }
+
+    fn named(shown: &[&str], count: usize, listed: usize) -> Named {
+        Named {
+            shown: shown.iter().map(|s| s.to_string()).collect(),
+            count,
+            listed,
+        }
+    }
+
+    // The facts of `ten`: R00.1 billable until 2019-09-30, R00.11 its
+    // successor from 2019-10-01 (invented codes and days, in the shape of
+    // the CMS conversion table's rows).
+    #[test]
+    fn retired_before_the_period_holds_its_last_day_replacements_and_how_many_are_listed() {
+        let index = index(ten());
+        let view = index.view();
+        let ord = view.ordinal("R001").unwrap();
+        let period = span("2020-01-01", "2020-12-31");
+        let facts = |reached: &[&str]| {
+            let ctx = context(&view, reached);
+            retired_before(&view, &period, &ctx, ord, "R00.1", day("2019-09-30"))
+        };
+        let alone = facts(&[]);
+        assert_eq!(alone.last_valid, day("2019-09-30"));
+        assert_eq!(alone.period_from, day("2020-01-01"));
+        let codes: Vec<&str> = alone.replacements.iter().map(|s| s.code.as_str()).collect();
+        assert_eq!(codes, ["R00.11"]);
+        assert_eq!(alone.listed, 0);
+        assert_eq!(
+            alone.message(),
+            "R00.1 was retired: its last valid day was 2019-09-30, before the period starts (2020-01-01); its replacement is R00.11"
+        );
+        let beside = facts(&["R0011"]);
+        assert_eq!(beside.listed, 1);
+        assert!(
+            beside.message().ends_with("R00.11 (1 already in the list)"),
+            "{}",
+            beside.message()
+        );
+    }
+
+    #[test]
+    fn a_code_retired_during_the_period_has_a_billable_part_then_a_retired_one() {
+        let index = index(ten());
+        let view = index.view();
+        let facts = partial(&view, "R001", "2019-01-01", "2020-12-31", &[]);
+        assert_eq!(
+            facts.parts,
+            [
+                Part {
+                    days: span("2019-01-01", "2019-09-30"),
+                    state: PartState::Billable
+                },
+                Part {
+                    days: span("2019-10-01", "2020-12-31"),
+                    state: PartState::Retired(named(&["R00.11"], 1, 0)),
+                },
+            ]
+        );
+        let offered: Vec<&str> = facts.suggestions.iter().map(|s| s.code.as_str()).collect();
+        assert_eq!(offered, ["R00.11"]);
+        assert_eq!(
+            facts.message(),
+            "R00.1 is billable for part of the period only: billable from 2019-01-01 to 2019-09-30; from 2019-10-01 to 2020-12-31 retired, its data coded as R00.11 (not in the list)"
+        );
+        // With its successor listed, nothing is offered and the count says so.
+        let listed = partial(&view, "R001", "2019-01-01", "2020-12-31", &["R0011"]);
+        assert_eq!(
+            listed.parts[1].state,
+            PartState::Retired(named(&["R00.11"], 1, 1))
+        );
+        assert!(listed.suggestions.is_empty());
+    }
+
+    #[test]
+    fn a_code_added_during_the_period_is_not_yet_valid_first() {
+        let index = index(ten());
+        let view = index.view();
+        let facts = partial(&view, "U071", "2020-01-01", "2020-12-31", &[]);
+        assert_eq!(
+            facts.parts,
+            [
+                Part {
+                    days: span("2020-01-01", "2020-03-31"),
+                    state: PartState::NotYetValid(Named::default()),
+                },
+                Part {
+                    days: span("2020-04-01", "2020-12-31"),
+                    state: PartState::Billable
+                },
+            ]
+        );
+        assert_eq!(
+            facts.message(),
+            "U07.1 is billable for part of the period only: from 2020-01-01 to 2020-03-31 not yet valid; billable from 2020-04-01 to 2020-12-31"
+        );
+    }
+
+    // A billable code that becomes a header over new codes (the shape of
+    // ICD-10-CM I48.2 in FY2020, whose I48.20 and I48.21 began 2019-10-01).
+    #[test]
+    fn a_code_that_becomes_a_header_names_the_codes_under_it() {
+        let mut codes = ten();
+        let mut i482 = billable(
+            "I482",
+            "Chronic atrial fibrillation",
+            &[span("2015-10-01", "2019-09-30")],
+        );
+        i482.header = vec![span("2019-10-01", "2027-03-31")];
+        let new = span("2019-10-01", "2027-03-31");
+        codes.extend([
+            i482,
+            billable("I4820", "Chronic atrial fibrillation, unspecified", &[new]),
+            billable("I4821", "Permanent atrial fibrillation", &[new]),
+        ]);
+        let index = index(codes);
+        let view = index.view();
+        let facts = partial(&view, "I482", "2019-01-01", "2024-12-31", &["I4821"]);
+        assert_eq!(
+            facts.parts[1].state,
+            PartState::Header(named(&["I48.20", "I48.21"], 2, 1))
+        );
+        let offered: Vec<&str> = facts.suggestions.iter().map(|s| s.code.as_str()).collect();
+        assert_eq!(offered, ["I48.20"]);
+        assert_eq!(
+            facts.message(),
+            "I48.2 is billable for part of the period only: billable from 2019-01-01 to 2019-09-30; from 2019-10-01 to 2024-12-31 a header over 2 billable codes (I48.20 and I48.21), 1 of them in the list"
+        );
+    }
 
     /// A code retired before the period: its last valid day and its
     /// successor are the finding's facts (the entries of `ten`).

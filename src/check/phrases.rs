@@ -1,5 +1,7 @@
 //! Small pieces the findings share: a suggestion of a code, the codes a
-//! message names, counts in words, and the billable codes under a node.
+//! message names, counts in words, and the billable codes under a node; and
+//! the sentences of the findings whose rules return facts (a code retired
+//! before the period, one billable on part of it).
 
 use super::*;
 
@@ -11,14 +13,22 @@ pub(crate) fn suggestion(view: &View<'_>, ord: u32, reason: impl Into<String>) -
     }
 }
 
-/// Names codes for a message: `E11.9`, `E11.9 and E11.65`, `E11.9, E11.65 and 3 more`.
-pub(crate) fn name_codes(view: &View<'_>, ords: &[u32]) -> String {
-    let shown: Vec<String> = ords
-        .iter()
+/// The first three codes at `ords`, dotted: what a message names of them.
+pub(crate) fn shown_codes(view: &View<'_>, ords: &[u32]) -> Vec<String> {
+    ords.iter()
         .take(3)
         .map(|&o| view.display(&view.code(o)))
-        .collect();
-    match (ords.len(), shown.as_slice()) {
+        .collect()
+}
+
+/// Names codes for a message: `E11.9`, `E11.9 and E11.65`, `E11.9, E11.65 and 3 more`.
+pub(crate) fn name_codes(view: &View<'_>, ords: &[u32]) -> String {
+    names(&shown_codes(view, ords), ords.len())
+}
+
+/// Names `count` codes of which `shown` are the first three.
+fn names(shown: &[String], count: usize) -> String {
+    match (count, shown) {
         (0, _) => "none".into(),
         (1, [a]) => a.clone(),
         (2, [a, b]) => format!("{a} and {b}"),
@@ -45,4 +55,106 @@ pub(crate) fn billable_under(view: &View<'_>, ord: u32, within: &Period) -> Vec<
     view.descendants(ord)
         .filter(|&o| view.billable_in(o, within))
         .collect()
+}
+
+impl Named {
+    /// `E11.9, E11.65 and 3 more`.
+    fn names(&self) -> String {
+        names(&self.shown, self.count)
+    }
+
+    /// `2 of them in the list`.
+    fn in_list(&self) -> String {
+        in_list(self.listed, self.count)
+    }
+}
+
+impl RetiredBefore {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let mut msg = format!(
+            "{} was retired: its last valid day was {}, before the period starts ({})",
+            self.code, self.last_valid, self.period_from
+        );
+        if !self.replacements.is_empty() {
+            let codes: Vec<&str> = self
+                .replacements
+                .iter()
+                .map(|s| s.code.as_str())
+                .take(NAMED_LIMIT)
+                .collect();
+            msg.push_str(&format!(
+                "; {} {}",
+                if self.replacements.len() == 1 {
+                    "its replacement is"
+                } else {
+                    "replacements are"
+                },
+                codes.join(", ")
+            ));
+            if self.listed > 0 {
+                msg.push_str(&format!(" ({} already in the list)", self.listed));
+            }
+        }
+        msg
+    }
+
+    /// The `retired` finding, an error.
+    pub(crate) fn finding(self) -> Finding {
+        let message = self.message();
+        Finding::new(Kind::Retired, Severity::Error, message, self.replacements)
+    }
+}
+
+impl PartialPeriod {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let parts: Vec<String> = self.parts.iter().map(Part::phrase).collect();
+        format!(
+            "{} is billable for part of the period only: {}",
+            self.code,
+            parts.join("; ")
+        )
+    }
+
+    /// The `partial-period` finding, a warning.
+    pub(crate) fn finding(self) -> Finding {
+        let message = self.message();
+        Finding::new(
+            Kind::PartialPeriod,
+            Severity::Warning,
+            message,
+            self.suggestions,
+        )
+    }
+}
+
+impl Part {
+    /// `from 2019-10-01 to 2020-12-31 retired, its data coded as R00.11 (in the list)`.
+    fn phrase(&self) -> String {
+        let (from, to) = (self.days.from, self.days.to);
+        let (what, named) = match &self.state {
+            PartState::Billable => return format!("billable from {from} to {to}"),
+            PartState::Header(under) => {
+                return format!(
+                    "from {from} to {to} a header over {} billable code{} ({}), {}",
+                    under.count,
+                    if under.count == 1 { "" } else { "s" },
+                    under.names(),
+                    under.in_list()
+                )
+            }
+            PartState::NotYetValid(named) => ("not yet valid", named),
+            PartState::Retired(named) => ("retired", named),
+        };
+        if named.count == 0 {
+            format!("from {from} to {to} {what}")
+        } else {
+            format!(
+                "from {from} to {to} {what}, its data coded as {} ({})",
+                named.names(),
+                named.in_list()
+            )
+        }
+    }
 }

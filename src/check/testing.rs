@@ -123,3 +123,22 @@ pub(crate) fn check_ten(text: &str, from: &str, to: &str) -> Report {
     };
     check(&index(ten()), text, &opts)
 }
+
+/// What a list holding (and reaching) the codes `reached` (undotted) knows
+/// of itself, for the rules called one at a time.
+pub(crate) fn context(view: &crate::View<'_>, reached: &[&str]) -> check::ListContext {
+    let mut ctx = check::ListContext {
+        listed: check::OrdMap::default(),
+        reached: check::Marks::new(view.len()),
+        explicit: check::Marks::new(view.len()),
+        by_pattern: check::OrdMap::default(),
+        dotted: true,
+    };
+    for (line, code) in reached.iter().enumerate() {
+        let ord = view.ordinal(code).expect("a code of the tiny index");
+        ctx.listed.insert(ord, vec![line]);
+        ctx.reached.insert(ord);
+        ctx.explicit.insert(ord);
+    }
+    ctx
+}
