@@ -3,8 +3,8 @@
 //! `effective_date` is now coded as `current_code`.
 
 use crate::error::BuildError;
-use rollcall::Date;
 use crate::formats::{Builds, Format, Takes};
+use rollcall::Date;
 
 /// One conversion pair.
 #[derive(Debug, Clone, PartialEq)]
@@ -16,35 +16,18 @@ pub struct Row {
 
 /// Reads the TSV; the first line must be the column header.
 pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
-    let mut lines = text.lines().enumerate();
-    let header = lines
-        .next()
-        .map(|(_, l)| l.trim_end_matches('\r'))
-        .unwrap_or("");
-    if header.split('\t').collect::<Vec<_>>() != ["effective_date", "current_code", "previous_code"]
-    {
-        return Err(BuildError::at(
-            file,
-            1,
-            "expected the header `effective_date<TAB>current_code<TAB>previous_code`",
-        ));
-    }
+    let rows = super::csv::tab_rows(
+        file,
+        text,
+        |h| h == ["effective_date", "current_code", "previous_code"],
+        "effective_date<TAB>current_code<TAB>previous_code",
+    )?;
     let mut out = Vec::new();
-    for (i, line) in lines {
-        let line = line.trim_end_matches('\r');
-        if line.is_empty() {
-            continue;
-        }
-        let f: Vec<&str> = line.split('\t').collect();
+    for (n, f) in rows {
         if f.len() != 3 {
-            return Err(BuildError::at(
-                file,
-                i + 1,
-                "expected 3 tab-separated columns",
-            ));
+            return Err(BuildError::at(file, n, "expected 3 tab-separated columns"));
         }
-        let effective =
-            Date::parse(f[0]).map_err(|e| BuildError::at(file, i + 1, e.to_string()))?;
+        let effective = Date::parse(f[0]).map_err(|e| BuildError::at(file, n, e.to_string()))?;
         let code = |s: &str| s.trim().replace('.', "").to_ascii_uppercase();
         out.push(Row {
             effective,

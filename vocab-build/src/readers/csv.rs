@@ -1,7 +1,8 @@
 //! Reading comma-separated text as RFC 4180 defines it (the LOINC table
 //! files): fields may be quoted, a quoted field may hold commas, doubled
 //! quotes and line breaks, and each record is kept with the line it starts
-//! on, for messages.
+//! on, for messages. Also the rows of a tab-separated file with a header
+//! (the history and conversion tables).
 
 use crate::error::BuildError;
 
@@ -89,6 +90,31 @@ pub fn records(name: &str, text: &str) -> Result<Vec<Record>, BuildError> {
 /// The position of the column named `want` in a header record.
 pub fn column(header: &[String], want: &str) -> Option<usize> {
     header.iter().position(|h| h.trim() == want)
+}
+
+/// The rows of a tab-separated text after its header line, each with its
+/// 1-based line number and its fields (a `\r` before the line end dropped,
+/// blank lines skipped). A header whose fields `fits` refuses is an error at
+/// line 1 naming `expected`, the header as it should read.
+pub fn tab_rows<'a>(
+    name: &str,
+    text: &'a str,
+    fits: impl Fn(&[&str]) -> bool,
+    expected: &str,
+) -> Result<impl Iterator<Item = (usize, Vec<&'a str>)>, BuildError> {
+    let mut lines = text.lines().enumerate();
+    let header = lines.next().map_or("", |(_, l)| l.trim_end_matches('\r'));
+    if !fits(&header.split('\t').collect::<Vec<_>>()) {
+        return Err(BuildError::at(
+            name,
+            1,
+            format!("expected the header `{expected}`"),
+        ));
+    }
+    Ok(lines.filter_map(|(i, line)| {
+        let line = line.trim_end_matches('\r');
+        (!line.is_empty()).then(|| (i + 1, line.split('\t').collect()))
+    }))
 }
 
 #[cfg(test)]

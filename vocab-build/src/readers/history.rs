@@ -2,8 +2,8 @@
 //! inclusive), `description`; one row per code that was ever billable.
 
 use crate::error::BuildError;
-use rollcall::{Date, Period};
 use crate::formats::{Builds, Format, Takes};
+use rollcall::{Date, Period};
 
 /// One history row.
 #[derive(Debug, Clone, PartialEq)]
@@ -15,34 +15,25 @@ pub struct Row {
 
 /// Reads the TSV; the first line must be the column header.
 pub fn parse(file: &str, text: &str) -> Result<Vec<Row>, BuildError> {
-    let mut lines = text.lines().enumerate();
-    let header = lines.next().map(|(_, l)| l).unwrap_or("");
-    let cols: Vec<&str> = header.trim_end_matches('\r').split('\t').collect();
-    if cols.get(..3) != Some(&["code", "valid_from", "valid_to"][..]) {
-        return Err(BuildError::at(
-            file,
-            1,
-            "expected the header `code<TAB>valid_from<TAB>valid_to<TAB>description`",
-        ));
-    }
+    let rows = super::csv::tab_rows(
+        file,
+        text,
+        |h| h.get(..3) == Some(&["code", "valid_from", "valid_to"][..]),
+        "code<TAB>valid_from<TAB>valid_to<TAB>description",
+    )?;
     let mut out = Vec::new();
-    for (i, line) in lines {
-        let line = line.trim_end_matches('\r');
-        if line.is_empty() {
-            continue;
-        }
-        let f: Vec<&str> = line.split('\t').collect();
+    for (n, f) in rows {
         if f.len() < 3 {
             return Err(BuildError::at(
                 file,
-                i + 1,
+                n,
                 "expected at least 3 tab-separated columns",
             ));
         }
-        let date = |s: &str| Date::parse(s).map_err(|e| BuildError::at(file, i + 1, e.to_string()));
+        let date = |s: &str| Date::parse(s).map_err(|e| BuildError::at(file, n, e.to_string()));
         let (from, to) = (date(f[1])?, date(f[2])?);
         if to < from {
-            return Err(BuildError::at(file, i + 1, "valid_to is before valid_from"));
+            return Err(BuildError::at(file, n, "valid_to is before valid_from"));
         }
         out.push(Row {
             code: f[0].trim().replace('.', "").to_ascii_uppercase(),
