@@ -27,15 +27,7 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
             ))
         }
     };
-    let out = match format {
-        "json" => {
-            write_json(&c);
-            String::new()
-        }
-        "csv" => render::comparison_csv(&c),
-        _ => render::comparison_text(&c),
-    };
-    write_out(&out);
+    write_as(format, &c, render::comparison_csv, render::comparison_text);
     let clean = c.same_codes() && !c.a.report.has_errors() && !c.b.report.has_errors();
     Ok(if clean {
         ExitCode::SUCCESS

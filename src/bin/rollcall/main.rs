@@ -72,6 +72,21 @@ fn write_json(value: &impl serde::Serialize) {
     let _ = out.flush();
 }
 
+/// `value` on standard output in `format`: JSON as it is serialised, else
+/// the CSV or the text its renderers write.
+fn write_as<T: serde::Serialize>(
+    format: &str,
+    value: &T,
+    csv: fn(&T) -> String,
+    text: fn(&T) -> String,
+) {
+    match format {
+        "json" => write_json(value),
+        "csv" => write_out(&csv(value)),
+        _ => write_out(&text(value)),
+    }
+}
+
 fn main() -> ExitCode {
     let argv: Vec<String> = std::env::args().skip(1).collect();
     match run(&argv) {

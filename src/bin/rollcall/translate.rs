@@ -24,14 +24,11 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
         }
         None => return Err("translate needs --into icd10cm or --into icd9cm".into()),
     };
-    let out = match format {
-        "json" => {
-            write_json(&t);
-            String::new()
-        }
-        "csv" => render::translation_csv(&t),
-        _ => render::translation_text(&t),
-    };
-    write_out(&out);
+    write_as(
+        format,
+        &t,
+        render::translation_csv,
+        render::translation_text,
+    );
     Ok(ExitCode::SUCCESS)
 }
