@@ -245,3 +245,23 @@ fn damaged_notes_never_panic() {
     }
     assert!(paired > 0);
 }
+
+/// A digest computed elsewhere (the page uses the browser's own SHA-256) is
+/// held against the header as `verify` holds its own: the SHA-256 (FIPS
+/// 180-4) of every byte from `CONTENT_START` passes, anything else is a
+/// checksum mismatch naming both values.
+#[test]
+fn a_digest_computed_elsewhere_is_held_against_the_header() {
+    let b = bundled_bytes();
+    let index = Index::open(&b[..]).unwrap();
+    let digest = rollcall::sha256::digest(&b[rollcall::index::CONTENT_START..]);
+    assert_eq!(rollcall::sha256::hex(&digest), index.checksum());
+    index.verify_digest(&digest).unwrap();
+    let mut wrong = digest;
+    wrong[31] ^= 1;
+    let err = index.verify_digest(&wrong).unwrap_err();
+    assert!(matches!(err, IndexError::ChecksumMismatch { .. }), "{err}");
+    assert!(err.to_string().contains(&index.checksum()), "{err}");
+    // A digest of the wrong length never passes.
+    assert!(index.verify_digest(&digest[..31]).is_err());
+}

@@ -40,6 +40,10 @@ pub const NOTES_MAGIC: &[u8; 8] = b"RCALLNT\x1a";
 /// The index format this build reads and writes.
 pub const FORMAT_VERSION: u32 = 2;
 pub(crate) const HEADER_LEN: usize = 56;
+
+/// Where the content the header's checksum covers starts: every byte of the
+/// file from here on (see [`Index::verify_digest`]).
+pub const CONTENT_START: usize = HEADER_LEN;
 /// Records per block of the span and successor offset tables.
 pub(crate) const REC_BLOCK: usize = 64;
 
@@ -217,6 +221,14 @@ impl<D: AsRef<[u8]>> Index<D> {
     /// Recomputes the content checksum and compares it with the header's.
     pub fn verify(&self) -> Result<(), IndexError> {
         verify_sum(self.data.as_ref())
+    }
+
+    /// [`verify`](Self::verify) with the SHA-256 of the content computed
+    /// elsewhere (the browser's own, much faster than hashing in Wasm):
+    /// `digest` is that of the file's bytes from [`CONTENT_START`], compared
+    /// with the header's as `verify` compares its own.
+    pub fn verify_digest(&self, digest: &[u8]) -> Result<(), IndexError> {
+        verify_stated(self.data.as_ref(), digest)
     }
 
     /// The content checksum stated in the header, lower-case hex.

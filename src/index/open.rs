@@ -64,6 +64,12 @@ pub(super) fn directory(
 /// with the header's.
 pub(super) fn verify_sum(bytes: &[u8]) -> Result<(), IndexError> {
     let got = sha256::digest(bytes.get(HEADER_LEN..).unwrap_or_default());
+    verify_stated(bytes, &got)
+}
+
+/// Compares `got`, a SHA-256 of the content of a container file (its bytes
+/// from [`CONTENT_START`]), with the header's.
+pub(super) fn verify_stated(bytes: &[u8], got: &[u8]) -> Result<(), IndexError> {
     let stated = bytes.get(24..HEADER_LEN).unwrap_or_default();
     if got[..] != *stated {
         return Err(IndexError::ChecksumMismatch {
