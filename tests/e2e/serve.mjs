@@ -18,7 +18,8 @@ const TYPES = {
   ".ts": "text/plain; charset=utf-8",
 };
 
-export function serve(root, port = 0) {
+// `onSent(path, bytes)`, when given, is told of every file sent whole.
+export function serve(root, port = 0, onSent = null) {
   const base = path.resolve(root);
   const server = http.createServer((req, res) => {
     let rel;
@@ -53,6 +54,7 @@ export function serve(root, port = 0) {
       }
       res.writeHead(200, headers);
       if (req.method === "HEAD") return res.end();
+      if (onSent) res.on("finish", () => onSent(rel, st.size));
       fs.createReadStream(file).pipe(res);
     });
   });
