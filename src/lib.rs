@@ -39,6 +39,7 @@ pub mod export;
 pub mod find;
 pub mod index;
 pub mod list;
+mod mapping;
 pub mod mixed;
 pub mod model;
 pub mod pattern;

@@ -90,7 +90,7 @@ pub(crate) fn known_elsewhere(
         match mapping {
             Some(m) => {
                 let rows = m.lookup(&other.code(ord));
-                let words = crate::translate::flag_words(&rows);
+                let words = crate::mapping::flag_words(&rows);
                 message.push_str(&format!("; {}: {words}", m.title));
                 for r in rows.iter().filter(|r| !r.flags.no_map) {
                     let Some(t) = view.ordinal(&r.target) else {
@@ -106,7 +106,7 @@ pub(crate) fn known_elsewhere(
                         });
                         continue;
                     };
-                    let mut reason = crate::translate::row_words(&r.flags);
+                    let mut reason = crate::mapping::row_words(&r.flags);
                     if !view.billable_in(t, period) {
                         reason.push_str(", but not billable in the period");
                     }
