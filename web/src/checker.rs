@@ -33,18 +33,32 @@ impl Checker {
     /// corrupted or wrong-version file.
     #[wasm_bindgen(constructor)]
     pub fn new(bytes: Vec<u8>) -> Result<Checker, JsValue> {
+        Checker::opened(bytes, None)
+    }
+
+    /// [`Checker::new`] with the SHA-256 of the index's content (its bytes
+    /// from [`index_content_start`]) computed by the browser,
+    /// which is several times faster than hashing here; the digest is held
+    /// against the header's as the constructor's own would be.
+    #[wasm_bindgen(js_name = withDigest)]
+    pub fn with_digest(bytes: Vec<u8>, digest: Vec<u8>) -> Result<Checker, JsValue> {
+        Checker::opened(bytes, Some(digest))
+    }
+
+    fn opened(bytes: Vec<u8>, digest: Option<Vec<u8>>) -> Result<Checker, JsValue> {
         install_panic_hook();
         if bytes.is_empty() {
             return Err(fail("cannot open the index", "the file is empty"));
         }
         let len = bytes.len() as u64;
         let index = Index::open(bytes).map_err(|e| fail("cannot open the index", e))?;
-        // One pass over the bytes: verify() hashes the content and compares
-        // it with the header; the page then compares that checksum with the
-        // manifest's.
-        index
-            .verify()
-            .map_err(|e| fail("the index is damaged", e))?;
+        // One pass over the bytes: the content's hash is compared with the
+        // header's; the page then compares that checksum with the manifest's.
+        match digest {
+            Some(d) => index.verify_digest(&d),
+            None => index.verify(),
+        }
+        .map_err(|e| fail("the index is damaged", e))?;
         let info = describe_index(&index, len, index.checksum());
         Ok(Checker {
             index,
@@ -304,4 +318,11 @@ impl Checker {
     pub(crate) fn shape_options(&self, options: JsCheckOptions) -> Result<CheckOptions, JsValue> {
         Ok(read_options(options, today())?.0)
     }
+}
+
+/// Where the bytes an index's checksum covers start (the rest of the file
+/// from there), for [`Checker::with_digest`].
+#[wasm_bindgen(js_name = indexContentStart)]
+pub fn index_content_start() -> usize {
+    rollcall::index::CONTENT_START
 }

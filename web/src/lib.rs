@@ -29,7 +29,7 @@ mod options;
 pub mod site;
 mod systems;
 
-pub use checker::Checker;
+pub use checker::{index_content_start, Checker};
 pub use decode::{decode_file, is_workbook, sha256_hex};
 pub use draft::read_draft;
 pub use js::{

@@ -151,6 +151,32 @@ fn damaged_and_foreign_files_are_refused_with_messages() {
     );
 }
 
+/// The page hashes an index with the browser's SHA-256 and hands the digest
+/// over: the SHA-256 (FIPS 180-4) of the bytes from `indexContentStart`
+/// opens it as the constructor does; a digest of damaged bytes is refused
+/// with the constructor's message.
+#[wasm_bindgen_test]
+fn a_digest_from_the_browser_opens_the_index_or_refuses_it() {
+    let start = rollcall_web::index_content_start();
+    let digest = rollcall::sha256::digest(&INDEX[start..]).to_vec();
+    let c = Checker::with_digest(INDEX.to_vec(), digest.clone()).expect("index opens");
+    let plain = Checker::new(INDEX.to_vec()).unwrap();
+    assert_eq!(
+        js_sys::JSON::stringify(&c.info().unwrap()).unwrap(),
+        js_sys::JSON::stringify(&plain.info().unwrap()).unwrap()
+    );
+    let mut flipped = INDEX.to_vec();
+    let at = flipped.len() * 2 / 3;
+    flipped[at] ^= 0x55;
+    let of_flipped = rollcall::sha256::digest(&flipped[start..]).to_vec();
+    let m = message(
+        Checker::with_digest(INDEX.to_vec(), of_flipped)
+            .map(|_| ())
+            .unwrap_err(),
+    );
+    assert!(m.starts_with("the index is damaged"), "{m}");
+}
+
 #[wasm_bindgen_test]
 fn check_json_gives_the_same_report_as_check() {
     let mut c = Checker::new(INDEX.to_vec()).unwrap();
