@@ -442,24 +442,39 @@ impl Summary {
     pub fn of(lines: usize, entries: &[Entry], list_findings: &[ListFinding]) -> Self {
         let mut summary = Summary {
             lines,
-            entries: entries.iter().filter(|e| !e.status.skipped()).count(),
             ..Summary::default()
         };
-        for sys in entries.iter().filter_map(|e| e.system.as_ref()) {
-            *summary.systems.entry(sys.clone()).or_default() += 1;
-        }
-        let sevs = entries
+        entries.iter().for_each(|e| summary.count_entry(e));
+        list_findings
             .iter()
-            .flat_map(|e| e.findings.iter().map(|f| f.severity))
-            .chain(list_findings.iter().map(|f| f.severity));
-        for s in sevs {
-            match s {
-                Severity::Error => summary.errors += 1,
-                Severity::Warning => summary.warnings += 1,
-                Severity::Info => summary.infos += 1,
+            .for_each(|f| summary.count_severity(f.severity));
+        summary
+    }
+
+    /// Counts one more entry and its findings (for a report written entry
+    /// by entry, whose entries are not kept).
+    pub fn count_entry(&mut self, e: &Entry) {
+        self.entries += usize::from(!e.status.skipped());
+        if let Some(sys) = &e.system {
+            match self.systems.get_mut(sys) {
+                Some(n) => *n += 1,
+                None => {
+                    self.systems.insert(sys.clone(), 1);
+                }
             }
         }
-        summary
+        e.findings
+            .iter()
+            .for_each(|f| self.count_severity(f.severity));
+    }
+
+    /// Counts one more finding of `severity`.
+    pub fn count_severity(&mut self, severity: Severity) {
+        match severity {
+            Severity::Error => self.errors += 1,
+            Severity::Warning => self.warnings += 1,
+            Severity::Info => self.infos += 1,
+        }
     }
 }
 

@@ -26,6 +26,7 @@ mod phrases;
 mod redundant;
 mod resolve;
 mod retired;
+mod run;
 #[cfg(test)]
 mod testing;
 mod unknown;
@@ -40,6 +41,7 @@ pub(crate) use phrases::*;
 use redundant::*;
 use resolve::*;
 use retired::*;
+pub use run::Run;
 use unknown::*;
 
 /// Checks a list against an index for the period in `options`.
@@ -205,119 +207,17 @@ fn run<D: AsRef<[u8]>>(
     )
 }
 
-fn run_draft<D: AsRef<[u8]>>(
-    index: &Index<D>,
-    draft: &Draft,
-    options: &CheckOptions,
-    want: Want<'_, '_>,
+fn run_draft<'a, D: AsRef<[u8]>>(
+    index: &'a Index<D>,
+    lines: &'a dyn crate::list::Lines,
+    options: &'a CheckOptions,
+    want: Want<'a, 'a>,
 ) -> (Report, Extras) {
-    let view = index.view();
-    let meta = index.meta();
-    let period = options.period_for(meta);
-    let lines = &draft.lines;
-
-    // Pass 1: what each line is.
-    let items: Vec<Item> = lines
-        .iter()
-        .map(|l| resolve_line(&view, &l.kind, &period))
-        .collect();
-
-    // The list context.
-    let mut ctx = ListContext {
-        listed: OrdMap::default(),
-        reached: Marks::new(view.len()),
-        explicit: Marks::new(view.len()),
-        by_pattern: OrdMap::default(),
-        dotted: false,
-    };
-    let mut extras = Extras::default();
-    for (l, item) in lines.iter().zip(&items) {
-        match item {
-            Item::Code { ord, written, .. } => {
-                ctx.dotted |= written.contains('.');
-                ctx.listed.entry(*ord).or_default().push(l.number);
-                let billable = view.billable_in(*ord, &period);
-                if billable {
-                    ctx.reached.insert(*ord);
-                    ctx.explicit.insert(*ord);
-                }
-                if want.reach {
-                    let mut ords = billable_under(&view, *ord, &period);
-                    if billable {
-                        ords.insert(0, *ord);
-                    }
-                    extras.reach.push(Reach {
-                        line: l.number,
-                        key: EntryKey::Code(*ord),
-                        written: view.display(&view.code(*ord)),
-                        ords,
-                    });
-                }
-            }
-            Item::Pattern(p, m) => {
-                for &o in m {
-                    ctx.reached.insert(o);
-                    ctx.by_pattern.entry(o).or_insert(l.number);
-                }
-                if want.reach {
-                    let written = p.display(&view);
-                    let mut ords = m.clone();
-                    ords.sort_unstable();
-                    extras.reach.push(Reach {
-                        line: l.number,
-                        key: EntryKey::Pattern(written.clone()),
-                        written,
-                        ords,
-                    });
-                }
-            }
-            _ => {}
-        }
-    }
-
-    // Pass 2: judge each entry.
-    let mut suggestions_left = SUGGESTION_LIMIT;
-    let mut memo = Memo::default();
-    let mut entries = Vec::with_capacity(lines.len());
-    for (l, item) in lines.iter().zip(items) {
-        let mut e = Entry::of(l);
-        judge(
-            &view,
-            options,
-            &period,
-            &ctx,
-            item,
-            l.number,
-            &mut e,
-            &mut suggestions_left,
-            &mut memo,
-            want.others,
-        );
-        if e.system.is_none()
-            && !e.status.skipped()
-            && !matches!(e.status, Status::Malformed | Status::OtherSystem)
-        {
-            e.system = Some(view.meta().vocabulary.clone());
-        }
-        e.findings.sort_by_key(|f| f.severity);
-        entries.push(e);
-    }
-
-    // Pass 3: the whole list.
-    let list_findings = list_level::run(&view, &period, &ctx);
-    if want.coverage {
-        extras.coverage = coverage_of(&view, &period, &ctx.reached);
-    }
-
-    let summary = Summary::of(draft.line_count(), &entries, &list_findings);
-    let report = Report {
-        vocabulary: meta.vocabulary.clone(),
-        reading: draft.facts.clone(),
-        index: IndexInfo::of(meta),
-        options: OptionsInfo::against(meta, &period, options.billable),
-        entries,
-        list_findings,
-        summary,
-    };
+    let mut run = Run::with(index, lines, options, want);
+    let mut report = run.heading();
+    report.entries = run.by_ref().collect();
+    let (list_findings, summary, extras) = run.end();
+    report.list_findings = list_findings;
+    report.summary = summary;
     (report, extras)
 }

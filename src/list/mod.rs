@@ -187,6 +187,47 @@ pub struct ReadFacts {
 }
 
 impl ReadFacts {
+    /// The facts of `lines` read as `reading` out of `count` input lines.
+    fn of<'l>(
+        lines: impl Iterator<Item = &'l InputLine>,
+        reading: Reading,
+        form: &str,
+        forced: bool,
+        count: usize,
+    ) -> ReadFacts {
+        let kinds = lines.map(|l| (l.number, matches!(l.kind, LineKind::Entry { .. })));
+        ReadFacts::counted(kinds, reading, form, forced, count)
+    }
+
+    /// [`ReadFacts::of`] from each line's number and whether it holds a code.
+    fn counted(
+        lines: impl Iterator<Item = (usize, bool)>,
+        reading: Reading,
+        form: &str,
+        forced: bool,
+        count: usize,
+    ) -> ReadFacts {
+        let (mut codes, mut lines_with_codes, mut last) = (0, 0, None);
+        for (number, _) in lines.filter(|(_, entry)| *entry) {
+            codes += 1;
+            // Several codes of one line are one line with codes.
+            if last != Some(number) {
+                lines_with_codes += 1;
+            }
+            last = Some(number);
+        }
+        ReadFacts {
+            reading,
+            form: form.to_string(),
+            forced,
+            codes,
+            lines_with_codes,
+            lines: count,
+            sheets: Vec::new(),
+            notes: Vec::new(),
+        }
+    }
+
     /// Whether the list was read as rollcall read lists before drafts
     /// (plain lines or a table), so reports need not say how.
     pub fn as_before(&self) -> bool {
@@ -212,27 +253,8 @@ impl Draft {
         forced: bool,
         count: usize,
     ) -> Draft {
-        let codes = lines
-            .iter()
-            .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
-            .count();
-        let mut with: Vec<usize> = lines
-            .iter()
-            .filter(|l| matches!(l.kind, LineKind::Entry { .. }))
-            .map(|l| l.number)
-            .collect();
-        with.dedup();
         Draft {
-            facts: ReadFacts {
-                reading,
-                form: form.to_string(),
-                forced,
-                codes,
-                lines_with_codes: with.len(),
-                lines: count,
-                sheets: Vec::new(),
-                notes: Vec::new(),
-            },
+            facts: ReadFacts::of(lines.iter(), reading, form, forced, count),
             lines,
         }
     }
@@ -292,7 +314,44 @@ pub fn lines_of(text: &str) -> impl Iterator<Item = &str> {
 /// [`Reading::Auto`] guesses it. [`Reading::Workbook`] needs the file's
 /// bytes ([`read_bytes`]); given text, it reads the text as a table.
 pub fn read(text: &str, reading: Reading) -> Draft {
+    match choose(text, reading) {
+        Choice::Laid(laid) => Draft::finish(
+            table::read_laid_out(text, laid.detected),
+            laid.reading,
+            laid.form,
+            laid.forced,
+            laid.count,
+        ),
+        Choice::Read(draft) => draft,
+    }
+}
+
+/// A reading as plain lines or a table: each line is read on its own.
+struct Laid {
+    detected: Detected,
+    reading: Reading,
+    form: &'static str,
+    forced: bool,
+    count: usize,
+}
+
+/// How [`read`] reads a text: laid out (line by line), or read whole.
+enum Choice {
+    Laid(Laid),
+    Read(Draft),
+}
+
+fn choose(text: &str, reading: Reading) -> Choice {
     let count = lines_of(text).count();
+    let laid = |detected: Detected, reading, form, forced| {
+        Choice::Laid(Laid {
+            detected,
+            reading,
+            form,
+            forced,
+            count,
+        })
+    };
     match reading {
         Reading::Lines => {
             let detected = Detected {
@@ -300,53 +359,29 @@ pub fn read(text: &str, reading: Reading) -> Draft {
                 headings: false,
                 system: None,
             };
-            Draft::finish(
-                table::read_laid_out(text, detected),
-                Reading::Lines,
-                "plain lines",
-                true,
-                count,
-            )
+            laid(detected, Reading::Lines, "plain lines", true)
         }
         Reading::Table | Reading::Workbook => {
             let detected = table::detect_table(text);
             let form = form_of_layout(detected.layout);
-            Draft::finish(
-                table::read_laid_out(text, detected),
-                Reading::Table,
-                form,
-                true,
-                count,
-            )
+            laid(detected, Reading::Table, form, true)
         }
-        Reading::Text => text::read(text, true),
-        Reading::Json => json::read(text, true),
+        Reading::Text => Choice::Read(text::read(text, true)),
+        Reading::Json => Choice::Read(json::read(text, true)),
         Reading::Auto => {
             let t = text.trim_start_matches('\u{feff}').trim_start();
             if t.starts_with(['{', '[']) {
                 if let Some(d) = json::try_read(text) {
-                    return d;
+                    return Choice::Read(d);
                 }
             }
             let detected = detect(text);
             if detected.layout != Layout::Plain {
                 let form = form_of_layout(detected.layout);
-                return Draft::finish(
-                    table::read_laid_out(text, detected),
-                    Reading::Table,
-                    form,
-                    false,
-                    count,
-                );
+                return laid(detected, Reading::Table, form, false);
             }
             if text::reads_as_lines(text) {
-                return Draft::finish(
-                    table::read_laid_out(text, detected),
-                    Reading::Lines,
-                    "plain lines",
-                    false,
-                    count,
-                );
+                return laid(detected, Reading::Lines, "plain lines", false);
             }
             let mut d = text::read(text, false);
             if t.starts_with(['{', '[']) {
@@ -355,7 +390,132 @@ pub fn read(text: &str, reading: Reading) -> Draft {
                         .into(),
                 );
             }
-            d
+            Choice::Read(d)
+        }
+    }
+}
+
+/// The lines of a list as a check walks them. A check walks them twice
+/// (what the list holds, then each entry), so a list read line by line is
+/// read again rather than held.
+pub trait Lines {
+    /// How the list was read.
+    fn facts(&self) -> &ReadFacts;
+    /// The lines, in input order.
+    fn walk(&self) -> Box<dyn Iterator<Item = std::borrow::Cow<'_, InputLine>> + '_>;
+    /// Whether the lines are held in memory, so that what a walk made of
+    /// them is worth keeping for the next.
+    fn held(&self) -> bool;
+    /// Whether any line names its system (a system column's cell, a JSON
+    /// coding's `system`, a heading naming one).
+    fn names_systems(&self) -> bool {
+        self.walk().any(|l| {
+            matches!(
+                l.kind,
+                LineKind::Entry {
+                    system: Some(_),
+                    ..
+                }
+            )
+        })
+    }
+}
+
+impl Lines for Draft {
+    fn facts(&self) -> &ReadFacts {
+        &self.facts
+    }
+    fn walk(&self) -> Box<dyn Iterator<Item = std::borrow::Cow<'_, InputLine>> + '_> {
+        Box::new(self.lines.iter().map(std::borrow::Cow::Borrowed))
+    }
+    fn held(&self) -> bool {
+        true
+    }
+}
+
+/// A list as read, kept as small as its reading allows: a plain list or a
+/// table keeps only its text and layout and reads each line again when it
+/// is walked (a million-line list is never a million [`InputLine`]s at
+/// once); any other reading keeps its [`Draft`]. It reads the same lines as
+/// [`read`].
+pub struct Listing(Kept);
+
+enum Kept {
+    Laid {
+        text: String,
+        detected: Detected,
+        facts: ReadFacts,
+    },
+    Read(Draft),
+}
+
+impl Listing {
+    /// Reads `text` as [`read`] does, keeping the text.
+    pub fn of(text: String, reading: Reading) -> Listing {
+        Listing(match choose(&text, reading) {
+            Choice::Laid(laid) => {
+                let lines = table::laid_out(&text, laid.detected)
+                    .map(|l| (l.number, matches!(l.kind, LineKind::Entry { .. })));
+                let facts =
+                    ReadFacts::counted(lines, laid.reading, laid.form, laid.forced, laid.count);
+                Kept::Laid {
+                    text,
+                    detected: laid.detected,
+                    facts,
+                }
+            }
+            Choice::Read(draft) => Kept::Read(draft),
+        })
+    }
+
+    /// The lines, all read (as [`read`] returns them).
+    pub fn into_draft(self) -> Draft {
+        match self.0 {
+            Kept::Laid {
+                text,
+                detected,
+                facts,
+            } => Draft {
+                lines: table::read_laid_out(&text, detected),
+                facts,
+            },
+            Kept::Read(draft) => draft,
+        }
+    }
+}
+
+impl Lines for Listing {
+    fn facts(&self) -> &ReadFacts {
+        match &self.0 {
+            Kept::Laid { facts, .. } => facts,
+            Kept::Read(draft) => &draft.facts,
+        }
+    }
+    fn walk(&self) -> Box<dyn Iterator<Item = std::borrow::Cow<'_, InputLine>> + '_> {
+        match &self.0 {
+            Kept::Laid { text, detected, .. } => {
+                Box::new(table::laid_out(text, *detected).map(std::borrow::Cow::Owned))
+            }
+            Kept::Read(draft) => draft.walk(),
+        }
+    }
+    fn held(&self) -> bool {
+        matches!(self.0, Kept::Read(_))
+    }
+    fn names_systems(&self) -> bool {
+        match &self.0 {
+            // Only a system column gives a laid-out line a system.
+            Kept::Laid { detected, .. } if detected.system.is_none() => false,
+            Kept::Laid { .. } => self.walk().any(|l| {
+                matches!(
+                    l.kind,
+                    LineKind::Entry {
+                        system: Some(_),
+                        ..
+                    }
+                )
+            }),
+            Kept::Read(draft) => draft.names_systems(),
         }
     }
 }
@@ -406,6 +566,31 @@ pub fn read_bytes(bytes: &[u8], reading: Reading) -> Result<Draft, ReadError> {
     Ok(read(&text, reading))
 }
 
+/// [`read_bytes`] into a [`Listing`]: a plain list or a table is kept as
+/// its text (the bytes themselves when they are UTF-8), not as its lines.
+pub fn read_listing(bytes: Vec<u8>, reading: Reading) -> Result<Listing, ReadError> {
+    if reading == Reading::Workbook || (reading == Reading::Auto && is_workbook(&bytes)) {
+        return read_bytes(&bytes, reading).map(|d| Listing(Kept::Read(d)));
+    }
+    let text = if bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]) {
+        decode(&bytes)?
+    } else {
+        String::from_utf8(bytes).map_err(|e| not_utf8(e.as_bytes(), e.utf8_error()))?
+    };
+    Ok(Listing::of(text, reading))
+}
+
+/// The error of bytes that are not UTF-8, naming the first bad line.
+fn not_utf8(bytes: &[u8], e: std::str::Utf8Error) -> ReadError {
+    let at = e.valid_up_to();
+    let line = bytes[..at].iter().filter(|&&b| b == b'\n').count() + 1;
+    ReadError {
+        message: format!(
+            "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
+        ),
+    }
+}
+
 /// Text from bytes: UTF-8, or UTF-16 in either byte order with its mark.
 pub fn decode(bytes: &[u8]) -> Result<String, ReadError> {
     let utf16 = |le: bool| -> Result<String, ReadError> {
@@ -452,15 +637,7 @@ pub fn decode(bytes: &[u8]) -> Result<String, ReadError> {
     }
     match std::str::from_utf8(bytes) {
         Ok(t) => Ok(t.to_string()),
-        Err(e) => {
-            let at = e.valid_up_to();
-            let line = bytes[..at].iter().filter(|&&b| b == b'\n').count() + 1;
-            Err(ReadError {
-                message: format!(
-                    "line {line} is not UTF-8 text; save the list as UTF-8 (in a spreadsheet: CSV UTF-8) and try again"
-                ),
-            })
-        }
+        Err(e) => Err(not_utf8(bytes, e)),
     }
 }
 

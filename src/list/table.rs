@@ -358,14 +358,18 @@ pub fn detect_table(text: &str) -> Detected {
 /// Reads a whole list laid out as `detected` says. Every line of `text`
 /// is returned, in order.
 pub fn read_laid_out(text: &str, detected: Detected) -> Vec<InputLine> {
+    laid_out(text, detected).collect()
+}
+
+/// The lines of [`read_laid_out`], each read when it is asked for.
+pub fn laid_out(text: &str, detected: Detected) -> impl Iterator<Item = InputLine> + '_ {
     let Detected {
         layout,
         headings,
         system: system_column,
     } = detected;
-    let mut out = Vec::new();
     let mut seen_data = false;
-    for (i, line) in lines_of(text).enumerate() {
+    lines_of(text).enumerate().map(move |(i, line)| {
         let kind = if let Some(k) = is_skip(line) {
             k
         } else {
@@ -406,9 +410,8 @@ pub fn read_laid_out(text: &str, detected: Detected) -> Vec<InputLine> {
                 },
             }
         };
-        out.push(InputLine::new(i + 1, line, kind));
-    }
-    out
+        InputLine::new(i + 1, line, kind)
+    })
 }
 
 /// A plain line: the code is the first word (words are joined when the code
