@@ -3,48 +3,129 @@
 
 pub mod card;
 mod compare;
+mod stream;
 mod translate;
 pub use card::cards_text;
 pub use compare::{comparison_csv, comparison_text};
+pub use stream::{csv_to, json_to, text_to};
 pub use translate::{translation_csv, translation_text};
 
-use crate::report::{Report, Severity, Suggestion};
+use crate::report::{Entry, ListFinding, Report, Severity, Suggestion};
 use std::fmt::Write;
 
-struct Row<'a> {
-    lines: Vec<usize>,
-    code: &'a str,
-    kind: &'static str,
-    severity: Severity,
-    message: &'a str,
-    suggestions: &'a [Suggestion],
+/// The finding rows of a report's text form, gathered entry by entry and
+/// written in order of severity, then line (a finding on the whole list
+/// after the entries' findings of its first line).
+pub(crate) struct FindingRows {
+    indent: &'static str,
+    /// Each row as written, one after the other.
+    text: String,
+    /// Per row: its severity, first line, and where it ends in `text`.
+    rows: Vec<(Severity, usize, usize)>,
 }
 
-fn rows(report: &Report) -> Vec<Row<'_>> {
-    let mut rows: Vec<Row> = report
-        .entries
-        .iter()
-        .flat_map(|e| {
-            e.findings.iter().map(move |f| Row {
-                lines: vec![e.line],
-                code: e.code.as_deref().unwrap_or_else(|| first_cell(&e.input)),
-                kind: f.kind.name(),
-                severity: f.severity,
-                message: &f.message,
-                suggestions: &f.suggestions,
-            })
-        })
-        .chain(report.list_findings.iter().map(|f| Row {
-            lines: f.lines.clone(),
-            code: "",
-            kind: f.kind.name(),
-            severity: f.severity,
-            message: &f.message,
-            suggestions: &f.suggestions,
-        }))
-        .collect();
-    rows.sort_by_key(|r| (r.severity, r.lines.first().copied().unwrap_or(0)));
-    rows
+impl FindingRows {
+    pub(crate) fn new(indent: &'static str) -> Self {
+        FindingRows {
+            indent,
+            text: String::new(),
+            rows: Vec::new(),
+        }
+    }
+
+    /// The rows of one entry's findings.
+    pub(crate) fn entry(&mut self, e: &Entry) {
+        for f in &e.findings {
+            let code = e.code.as_deref().unwrap_or_else(|| first_cell(&e.input));
+            self.row(
+                &[e.line],
+                code,
+                f.kind.name(),
+                f.severity,
+                &f.message,
+                &f.suggestions,
+            );
+        }
+    }
+
+    /// The row of a finding on the whole list.
+    pub(crate) fn list(&mut self, f: &ListFinding) {
+        self.row(
+            &f.lines,
+            "",
+            f.kind.name(),
+            f.severity,
+            &f.message,
+            &f.suggestions,
+        );
+    }
+
+    fn row(
+        &mut self,
+        lines: &[usize],
+        code: &str,
+        kind: &str,
+        severity: Severity,
+        message: &str,
+        suggestions: &[Suggestion],
+    ) {
+        let (s, indent) = (&mut self.text, self.indent);
+        let head = line_label(lines);
+        let _ = writeln!(
+            s,
+            "{indent}  {head:<10} {:<14} {kind}: {message}",
+            if code.is_empty() { "-" } else { code },
+        );
+        for g in suggestions.iter().take(8) {
+            let _ = writeln!(
+                s,
+                "{indent}  {:<10}   -> {:<12} {}  ({})",
+                "", g.code, g.description, g.reason
+            );
+        }
+        if suggestions.len() > 8 {
+            let _ = writeln!(
+                s,
+                "{indent}  {:<10}   -> and {} more",
+                "",
+                suggestions.len() - 8
+            );
+        }
+        let first = lines.first().copied().unwrap_or(0);
+        self.rows.push((severity, first, s.len()));
+    }
+
+    /// The rows grouped by severity, each group under its heading.
+    pub(crate) fn write(self, s: &mut String) {
+        let mut order: Vec<(Severity, usize, usize, usize)> = Vec::with_capacity(self.rows.len());
+        let mut start = 0;
+        for &(severity, first, end) in &self.rows {
+            order.push((severity, first, start, end));
+            start = end;
+        }
+        // Stable: rows of one severity and first line keep their order.
+        order.sort_by_key(|&(severity, first, ..)| (severity, first));
+        let indent = self.indent;
+        for sev in [Severity::Error, Severity::Warning, Severity::Info] {
+            let group = order.iter().filter(|r| r.0 == sev);
+            let n = group.clone().count();
+            if n == 0 {
+                continue;
+            }
+            let _ = writeln!(
+                s,
+                "\n{indent}{} ({n})",
+                match sev {
+                    Severity::Error => "ERRORS",
+                    Severity::Warning => "WARNINGS",
+                    Severity::Info => "NOTES",
+                },
+            );
+            for &(.., from, to) in group {
+                s.push_str(&self.text[from..to]);
+            }
+        }
+    }
 }
 
 /// The first cell of a line, for naming an entry that has no code.
@@ -77,6 +158,15 @@ fn line_label(lines: &[usize]) -> String {
 /// A report for a terminal: a heading, findings grouped by severity with
 /// line numbers and suggestions, and a summary line.
 pub fn text(report: &Report) -> String {
+    let mut s = text_heading(report);
+    write_findings(&mut s, report, "");
+    text_closing(&mut s, report);
+    s
+}
+
+/// The lines of [`text`] before the findings (of a report's heading, see
+/// [`crate::check::Run::heading`]).
+pub(crate) fn text_heading(report: &Report) -> String {
     let mut s = String::new();
     let o = &report.options;
     if report.index.sources.is_empty() {
@@ -102,7 +192,11 @@ pub fn text(report: &Report) -> String {
     if !report.index.notice.is_empty() {
         let _ = writeln!(s, "{}", report.index.notice);
     }
-    write_findings(&mut s, report, "");
+    s
+}
+
+/// The lines of [`text`] after the findings: the counts.
+pub(crate) fn text_closing(s: &mut String, report: &Report) {
     let m = &report.summary;
     if !m.by_system.is_empty() {
         let _ = writeln!(s, "\nBY SYSTEM (the list's system column)");
@@ -141,7 +235,6 @@ pub fn text(report: &Report) -> String {
     s.push_str(
         "rollcall helps assemble research code lists; it is not coding or billing advice.\n",
     );
-    s
 }
 
 /// `on 2026-01-01` or `study period 2019-01-01 to 2024-12-31`, and whether
@@ -223,49 +316,11 @@ pub fn reading(f: &crate::list::ReadFacts) -> Option<String> {
     Some(s)
 }
 
-pub(crate) fn write_findings(s: &mut String, report: &Report, indent: &str) {
-    let rows = rows(report);
-    for sev in [Severity::Error, Severity::Warning, Severity::Info] {
-        let group: Vec<&Row> = rows.iter().filter(|r| r.severity == sev).collect();
-        if group.is_empty() {
-            continue;
-        }
-        let _ = writeln!(
-            s,
-            "\n{indent}{} ({})",
-            match sev {
-                Severity::Error => "ERRORS",
-                Severity::Warning => "WARNINGS",
-                Severity::Info => "NOTES",
-            },
-            group.len()
-        );
-        for r in group {
-            let head = line_label(&r.lines);
-            let _ = writeln!(
-                s,
-                "{indent}  {head:<10} {:<14} {}: {}",
-                if r.code.is_empty() { "-" } else { r.code },
-                r.kind,
-                r.message
-            );
-            for g in r.suggestions.iter().take(8) {
-                let _ = writeln!(
-                    s,
-                    "{indent}  {:<10}   -> {:<12} {}  ({})",
-                    "", g.code, g.description, g.reason
-                );
-            }
-            if r.suggestions.len() > 8 {
-                let _ = writeln!(
-                    s,
-                    "{indent}  {:<10}   -> and {} more",
-                    "",
-                    r.suggestions.len() - 8
-                );
-            }
-        }
-    }
+pub(crate) fn write_findings(s: &mut String, report: &Report, indent: &'static str) {
+    let mut rows = FindingRows::new(indent);
+    report.entries.iter().for_each(|e| rows.entry(e));
+    report.list_findings.iter().for_each(|f| rows.list(f));
+    rows.write(s);
 }
 
 /// One CSV cell, quoted when needed; a cell that a spreadsheet would read
@@ -286,55 +341,68 @@ pub fn csv_cell(v: &str) -> String {
 /// A report as CSV: one row per finding, plus one row for each line
 /// without findings, so every input line appears.
 pub fn csv(report: &Report) -> String {
-    let mut s = String::from("lines,input,code,status,kind,severity,message,suggestions\n");
-    let sugg = |g: &[Suggestion]| {
-        g.iter()
-            .map(|x| format!("{} {}", x.code, x.description))
-            .collect::<Vec<_>>()
-            .join("; ")
-    };
-    for e in &report.entries {
-        let status = e.status.name();
-        let code = e.code.as_deref().unwrap_or("");
-        if e.findings.is_empty() {
-            let _ = writeln!(
-                s,
-                "{},{},{},{},,,,",
-                e.line,
-                csv_cell(&e.input),
-                csv_cell(code),
-                status
-            );
-        }
-        for f in &e.findings {
-            let _ = writeln!(
-                s,
-                "{},{},{},{},{},{},{},{}",
-                e.line,
-                csv_cell(&e.input),
-                csv_cell(code),
-                status,
-                f.kind.name(),
-                f.severity.name(),
-                csv_cell(&f.message),
-                csv_cell(&sugg(&f.suggestions))
-            );
-        }
-    }
-    for f in &report.list_findings {
-        let lines: Vec<String> = f.lines.iter().map(|l| l.to_string()).collect();
+    let mut s = String::from(CSV_HEADINGS);
+    report.entries.iter().for_each(|e| csv_entry(&mut s, e));
+    report
+        .list_findings
+        .iter()
+        .for_each(|f| csv_list_finding(&mut s, f));
+    s
+}
+
+/// The first row of [`csv`].
+pub(crate) const CSV_HEADINGS: &str = "lines,input,code,status,kind,severity,message,suggestions\n";
+
+fn csv_suggestions(g: &[Suggestion]) -> String {
+    g.iter()
+        .map(|x| format!("{} {}", x.code, x.description))
+        .collect::<Vec<_>>()
+        .join("; ")
+}
+
+/// The rows of [`csv`] of one entry.
+pub(crate) fn csv_entry(s: &mut String, e: &Entry) {
+    let status = e.status.name();
+    let code = e.code.as_deref().unwrap_or("");
+    if e.findings.is_empty() {
         let _ = writeln!(
             s,
-            "{},,{},,{},{},{},{}",
-            csv_cell(&lines.join(" ")),
-            csv_cell(&f.codes.join(" ")),
+            "{},{},{},{},,,,",
+            e.line,
+            csv_cell(&e.input),
+            csv_cell(code),
+            status
+        );
+    }
+    for f in &e.findings {
+        let _ = writeln!(
+            s,
+            "{},{},{},{},{},{},{},{}",
+            e.line,
+            csv_cell(&e.input),
+            csv_cell(code),
+            status,
             f.kind.name(),
             f.severity.name(),
             csv_cell(&f.message),
-            csv_cell(&sugg(&f.suggestions))
+            csv_cell(&csv_suggestions(&f.suggestions))
         );
     }
-    s
+}
+
+/// The row of [`csv`] of a finding on the whole list.
+pub(crate) fn csv_list_finding(s: &mut String, f: &ListFinding) {
+    let lines: Vec<String> = f.lines.iter().map(|l| l.to_string()).collect();
+    let _ = writeln!(
+        s,
+        "{},,{},,{},{},{},{}",
+        csv_cell(&lines.join(" ")),
+        csv_cell(&f.codes.join(" ")),
+        f.kind.name(),
+        f.severity.name(),
+        csv_cell(&f.message),
+        csv_cell(&csv_suggestions(&f.suggestions))
+    );
 }
 
 #[cfg(test)]
