@@ -71,10 +71,10 @@ pub(super) fn verify_sum(bytes: &[u8]) -> Result<(), IndexError> {
 /// from [`CONTENT_START`]), with the header's.
 pub(super) fn verify_stated(bytes: &[u8], got: &[u8]) -> Result<(), IndexError> {
     let stated = bytes.get(24..HEADER_LEN).unwrap_or_default();
-    if got[..] != *stated {
+    if got != stated {
         return Err(IndexError::ChecksumMismatch {
             expected: sha256::hex(stated),
-            got: sha256::hex(&got),
+            got: sha256::hex(got),
         });
     }
     Ok(())
