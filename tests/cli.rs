@@ -905,3 +905,37 @@ fn the_readme_usage_block_is_the_help_usage_section() {
         "README.md's usage block differs from rollcall --help"
     );
 }
+
+#[test]
+fn a_report_read_only_in_part_still_ends_with_the_exit_status_of_its_findings() {
+    // `rollcall check LIST | head`: the report is written as the list is
+    // checked, and a reader that stops early is no error; the status is
+    // still 1 when the list has errors. The Elixhauser list v2026.1
+    // (AHRQ's CSV) holds codes added after FY2016 (C43.111, first valid
+    // on 2018-10-01 in the CMS code history), not yet valid on 2016-01-01,
+    // and each format's report is longer than a pipe holds.
+    for format in ["json", "csv", "text"] {
+        let mut child = Command::new(env!("CARGO_BIN_EXE_rollcall"))
+            .args(["check", "-", "--on", "2016-01-01"])
+            .args(["--format", format])
+            .current_dir(root())
+            .stdin(Stdio::piped())
+            .stdout(Stdio::piped())
+            .stderr(Stdio::piped())
+            .spawn()
+            .unwrap();
+        let list = elixhauser();
+        let mut stdin = child.stdin.take().unwrap();
+        let writer = std::thread::spawn(move || {
+            let _ = stdin.write_all(list.as_bytes());
+        });
+        let mut first = [0u8; 100];
+        let mut stdout = child.stdout.take().unwrap();
+        std::io::Read::read_exact(&mut stdout, &mut first).unwrap();
+        drop(stdout);
+        writer.join().unwrap();
+        let o = child.wait_with_output().unwrap();
+        assert_eq!(o.status.code(), Some(1), "{format}: {}", err(&o));
+        assert!(err(&o).is_empty(), "{format}: {}", err(&o));
+    }
+}

@@ -26,8 +26,12 @@ pub(crate) fn read_list(file: &str) -> Result<String, String> {
     rollcall::list::decode(&raw).map_err(|e| format!("{file}: {e}"))
 }
 
-/// A list read as `reading` says (a workbook, or text in any form).
-pub(crate) fn read_draft(file: &str, reading: Reading) -> Result<Draft, String> {
+/// A list read as `reading` says, kept as its text when it is a plain list
+/// or a table (see [`rollcall::list::Listing`]).
+pub(crate) fn read_listing(
+    file: &str,
+    reading: Reading,
+) -> Result<rollcall::list::Listing, String> {
     let raw = read_raw(file)?;
-    rollcall::list::read_bytes(&raw, reading).map_err(|e| format!("{file}: {e}"))
+    rollcall::list::read_listing(raw, reading).map_err(|e| format!("{file}: {e}"))
 }
