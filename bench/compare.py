@@ -1,8 +1,10 @@
 """Times the rollcall CLI against the plain Python lookup, whole processes,
 alternating runs, and prints medians and the ratio.
 
-usage: python3 compare.py TMPDIR RUNS   (TMPDIR holds elix.csv and history.tsv)
+usage: python3 compare.py TMPDIR RUNS [JSON]   (TMPDIR holds elix.csv and history.tsv;
+JSON, when given, is a file to write the medians and the ratio to)
 """
+import json
 import statistics
 import subprocess
 import sys
@@ -28,3 +30,7 @@ print(f"Elixhauser v2026.1 list (4,690 codes), median of {runs} runs, whole proc
 for k, v in med.items():
     extra = "" if k.startswith("python") else f"  ({py / v:.1f}x faster than the Python lookup)"
     print(f"  {k:<52} {v * 1000:7.1f} ms{extra}")
+if len(sys.argv) > 3:
+    with open(sys.argv[3], "w") as f:
+        json.dump({"cli_ms": med["rollcall check --on 2026-01-01"] * 1000, "python_ms": py * 1000,
+                   "cli_ratio": py / med["rollcall check --on 2026-01-01"]}, f)
