@@ -95,8 +95,9 @@ impl FindingRows {
         self.rows.push((severity, first, s.len()));
     }
 
-    /// The rows grouped by severity, each group under its heading.
-    pub(crate) fn write(self, s: &mut String) {
+    /// The rows grouped by severity, each group under its heading, handed
+    /// to `put` piece by piece.
+    pub(crate) fn write_with<E>(self, put: &mut dyn FnMut(&str) -> Result<(), E>) -> Result<(), E> {
         let mut order: Vec<(Severity, usize, usize, usize)> = Vec::with_capacity(self.rows.len());
         let mut start = 0;
         for &(severity, first, end) in &self.rows {
@@ -112,19 +113,25 @@ impl FindingRows {
             if n == 0 {
                 continue;
             }
-            let _ = writeln!(
-                s,
-                "\n{indent}{} ({n})",
-                match sev {
-                    Severity::Error => "ERRORS",
-                    Severity::Warning => "WARNINGS",
-                    Severity::Info => "NOTES",
-                },
-            );
+            let name = match sev {
+                Severity::Error => "ERRORS",
+                Severity::Warning => "WARNINGS",
+                Severity::Info => "NOTES",
+            };
+            put(&format!("\n{indent}{name} ({n})\n"))?;
             for &(.., from, to) in group {
-                s.push_str(&self.text[from..to]);
+                put(&self.text[from..to])?;
             }
         }
+        Ok(())
+    }
+
+    /// [`FindingRows::write_with`] onto `s`.
+    pub(crate) fn write(self, s: &mut String) {
+        let _ = self.write_with(&mut |t| -> Result<(), ()> {
+            s.push_str(t);
+            Ok(())
+        });
     }
 }
 

@@ -22,9 +22,10 @@ pub fn text_to(out: &mut dyn Write, mut run: Run<'_>) -> io::Result<Summary> {
     run.by_ref().for_each(|e| rows.entry(&e));
     let (list_findings, summary) = run.finish();
     list_findings.iter().for_each(|f| rows.list(f));
-    let mut s = text_heading(&report);
-    rows.write(&mut s);
+    out.write_all(text_heading(&report).as_bytes())?;
+    rows.write_with(&mut |t| out.write_all(t.as_bytes()))?;
     report.summary = summary;
+    let mut s = String::new();
     text_closing(&mut s, &report);
     out.write_all(s.as_bytes())?;
     Ok(report.summary)
