@@ -28,15 +28,27 @@ pub struct Run<'a> {
     others: &'a [View<'a>],
     lines: &'a dyn Lines,
     walk: Box<dyn Iterator<Item = Cow<'a, InputLine>> + 'a>,
-    /// What pass 1 made of each line, kept when the lines are held (a list
-    /// read line by line is read and resolved again instead).
-    items: Option<std::vec::IntoIter<Item>>,
+    /// What pass 1 made of each line, for pass 2.
+    items: Kept,
     ctx: ListContext,
     memo: Memo,
     suggestions_left: usize,
     summary: Summary,
     want_coverage: bool,
     extras: Extras,
+}
+
+/// What pass 1 keeps for pass 2.
+enum Kept {
+    /// Every line's reading, when the lines are held anyway.
+    Items(std::vec::IntoIter<Item>),
+    /// For a list read line by line: a code found (the most lines of a
+    /// long list) by its ordinal and how it was read (an index into the
+    /// distinct readings' changes); any other line is resolved again.
+    Codes(
+        std::vec::IntoIter<Option<(u32, u32)>>,
+        Vec<Vec<&'static str>>,
+    ),
 }
 
 impl<'a> Run<'a> {
@@ -65,7 +77,8 @@ impl<'a> Run<'a> {
         let view = index.view();
         let period = options.period_for(index.meta());
         let held = lines.held();
-        let mut kept = Vec::new();
+        let (mut kept, mut codes) = (Vec::new(), Vec::new());
+        let mut changes_seen: Vec<Vec<&'static str>> = Vec::new();
 
         // Pass 1: what each line is, and the list context.
         let mut ctx = ListContext {
@@ -121,6 +134,21 @@ impl<'a> Run<'a> {
             }
             if held {
                 kept.push(item);
+            } else {
+                codes.push(match item {
+                    Item::Code { ord, changes, .. } => {
+                        // A list repeats a handful of ways of writing a code.
+                        let at = match changes_seen.iter().position(|c| *c == changes) {
+                            Some(at) => at,
+                            None => {
+                                changes_seen.push(changes);
+                                changes_seen.len() - 1
+                            }
+                        };
+                        Some((ord, at as u32))
+                    }
+                    _ => None,
+                });
             }
         }
         Run {
@@ -130,7 +158,11 @@ impl<'a> Run<'a> {
             others: want.others,
             lines,
             walk: lines.walk(),
-            items: held.then(|| kept.into_iter()),
+            items: if held {
+                Kept::Items(kept.into_iter())
+            } else {
+                Kept::Codes(codes.into_iter(), changes_seen)
+            },
             ctx,
             memo: Memo::default(),
             suggestions_left: SUGGESTION_LIMIT,
@@ -185,8 +217,16 @@ impl Iterator for Run<'_> {
     fn next(&mut self) -> Option<Entry> {
         let l = self.walk.next()?;
         let item = match &mut self.items {
-            Some(items) => items.next()?,
-            None => resolve_line(&self.view, &l.kind, &self.period),
+            Kept::Items(items) => items.next()?,
+            Kept::Codes(codes, changes) => match (codes.next()?, &l.kind) {
+                // What resolving the cell again would give.
+                (Some((ord, at)), LineKind::Entry { code, .. }) => Item::Code {
+                    ord,
+                    changes: changes.get(at as usize).cloned().unwrap_or_default(),
+                    written: code.trim().to_string(),
+                },
+                _ => resolve_line(&self.view, &l.kind, &self.period),
+            },
         };
         let mut e = Entry::of(&l);
         judge(
