@@ -64,7 +64,12 @@ pub fn json_to(out: &mut dyn Write, run: Run<'_>) -> io::Result<Summary> {
         run: RefCell::new(Some(run)),
         summary: RefCell::new(None),
     };
-    serde_json::to_writer_pretty(&mut *out, &streamed).map_err(io::Error::other)?;
+    // The serialiser's many small writes (a quote, a colon, an indent) go
+    // to a buffer it knows the type of, not each through `dyn Write`.
+    let mut buffered = io::BufWriter::with_capacity(1 << 16, &mut *out);
+    serde_json::to_writer_pretty(&mut buffered, &streamed).map_err(io::Error::other)?;
+    buffered.flush()?;
+    drop(buffered);
     let summary = streamed.summary.take();
     summary.ok_or_else(|| io::Error::other("the report was not written to its end"))
 }
