@@ -206,7 +206,7 @@ pub(crate) fn text_heading(report: &Report) -> String {
 pub(crate) fn text_closing(s: &mut String, report: &Report) {
     let m = &report.summary;
     if !m.by_system.is_empty() {
-        let _ = writeln!(s, "\nBY SYSTEM (the list's system column)");
+        let _ = writeln!(s, "\nBY SYSTEM (the system each entry was checked in)");
         for p in &m.by_system {
             let how = match (p.checked.as_str(), &p.release) {
                 ("index", Some(r)) => format!("against release {r}"),
