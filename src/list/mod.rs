@@ -297,17 +297,18 @@ pub fn lines_of(text: &str) -> impl Iterator<Item = &str> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let bytes = text.as_bytes();
     let mut at = 0;
-    // The next `\n` at or after `at` (the end of the text when none is left).
-    let mut nl = 0;
-    let mut nl_known = false;
+    // The next `\n` at or after `at` (the end of the text when none is left),
+    // once found.
+    let mut next_nl: Option<usize> = None;
     std::iter::from_fn(move || {
         if at >= bytes.len() {
             return None;
         }
-        if !nl_known || nl < at {
-            nl = text[at..].find('\n').map_or(bytes.len(), |i| at + i);
-            nl_known = true;
-        }
+        let nl = match next_nl {
+            Some(n) if n >= at => n,
+            _ => text[at..].find('\n').map_or(bytes.len(), |i| at + i),
+        };
+        next_nl = Some(nl);
         let before = &bytes[at..nl];
         let end = if before.contains(&b'\r') {
             before
