@@ -195,6 +195,15 @@ impl<'a> Run<'a> {
         (list_findings, summary)
     }
 
+    /// [`Run::finish`] with the category coverage of the list (as
+    /// [`check_draft`] gives it): for each category the list reaches, the
+    /// billable codes it includes of all under it in the period.
+    pub fn finish_with_coverage(mut self) -> (Vec<ListFinding>, Summary, Vec<CategoryCoverage>) {
+        self.want_coverage = true;
+        let (list_findings, summary, extras) = self.end();
+        (list_findings, summary, extras.coverage)
+    }
+
     pub(super) fn end(mut self) -> (Vec<ListFinding>, Summary, Extras) {
         for _ in self.by_ref() {}
         let list_findings = list_level::run(&self.view, &self.period, &self.ctx);

@@ -13,6 +13,7 @@
 //! - `exports`: the exports of a checked list;
 //! - `draft`: where the reader finds each code, and edits to a list;
 //! - `options`: the page's check options read into the core's;
+//! - `paged`: a check handed over a page of entries at a time;
 //! - `decode`: a dropped file's bytes, and SHA-256;
 //! - `systems`: the core's policy on bundled systems and companions;
 //! - [`manifest`]: the manifest of an index or notes file; [`site`]: a site's own indexes;
@@ -26,6 +27,7 @@ mod exports;
 mod js;
 pub mod manifest;
 mod options;
+mod paged;
 pub mod site;
 mod systems;
 

@@ -438,3 +438,80 @@ fn bundled_systems_name_the_manifests_the_build_writes() {
         assert_eq!(rollcall_web::index_manifest(name).as_ref(), Some(manifest));
     }
 }
+
+/// The entries of `checkPaged`'s pages, in order, and the rest of its
+/// report make `checkJson`'s report, for every kind of list the page takes:
+/// a plain list, a table with a system column (held whole, sent in pages), a
+/// markdown draft and an R vector; with the ICD-9-CM companion at hand and
+/// a study period. The coverage after each is the same too.
+#[wasm_bindgen_test]
+fn a_check_in_pages_gives_the_whole_report() {
+    const ICD9: &[u8] = include_bytes!("../../vocab/icd9cm.rcx");
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    c.add_companion(ICD9.to_vec()).unwrap();
+    let lists = [
+        include_str!("../../demo-data/demo-list.tsv"),
+        include_str!("../../demo-data/mixed-list.tsv"),
+        include_str!("../../demo-data/drafts/assistant-answer.md"),
+        include_str!("../../demo-data/drafts/cohort.R"),
+        "E11.9\n250.00\nE11.9\nE14.*\nnot a code\n\nI10\n",
+    ];
+    let opts = r#"{"from":"2019-01-01","to":"2024-12-31"}"#;
+    for list in lists {
+        let whole: serde_json::Value =
+            serde_json::from_str(&c.check_json(list, options(opts)).unwrap()).unwrap();
+        let whole_coverage = js_sys::JSON::stringify(&c.coverage().unwrap()).unwrap();
+        for size in [1, 3, 1000] {
+            let pages = std::rc::Rc::new(std::cell::RefCell::new(Vec::<serde_json::Value>::new()));
+            let seen = pages.clone();
+            let on_page = Closure::<dyn FnMut(String, f64, f64) -> bool>::new(
+                move |json: String, done: f64, lines: f64| {
+                    let page: Vec<serde_json::Value> = serde_json::from_str(&json).unwrap();
+                    assert!(page.len() <= size && !page.is_empty());
+                    assert_eq!(page.last().unwrap()["line"].as_f64().unwrap(), done);
+                    assert!(done <= lines);
+                    seen.borrow_mut().extend(page);
+                    true
+                },
+            );
+            let rest = c
+                .check_paged(
+                    list.to_string(),
+                    options(opts),
+                    size as u32,
+                    on_page.as_ref().unchecked_ref(),
+                )
+                .unwrap()
+                .expect("not stopped");
+            let mut paged: serde_json::Value = serde_json::from_str(&rest).unwrap();
+            assert_eq!(paged["entries"], serde_json::json!([]));
+            paged["entries"] = serde_json::Value::Array(pages.borrow().clone());
+            assert_eq!(paged, whole, "pages of {size}: {list:.40}");
+            let coverage = js_sys::JSON::stringify(&c.coverage().unwrap()).unwrap();
+            assert_eq!(coverage, whole_coverage);
+        }
+    }
+}
+
+/// A page's handler that returns false stops the check at once.
+#[wasm_bindgen_test]
+fn a_check_in_pages_stops_when_asked() {
+    let mut c = Checker::new(INDEX.to_vec()).unwrap();
+    let calls = std::rc::Rc::new(std::cell::Cell::new(0));
+    let seen = calls.clone();
+    let stop =
+        Closure::<dyn FnMut(String, f64, f64) -> bool>::new(move |_: String, _: f64, _: f64| {
+            seen.set(seen.get() + 1);
+            false
+        });
+    let list = "E11.9\nE11.65\nI10\nE78.5\n";
+    let r = c
+        .check_paged(
+            list.to_string(),
+            options(r#"{"on":"2024-01-01"}"#),
+            2,
+            stop.as_ref().unchecked_ref(),
+        )
+        .unwrap();
+    assert_eq!((r, calls.get()), (None, 1));
+}
