@@ -13,7 +13,7 @@ import path from "node:path";
 import { chromium } from "playwright-core";
 import { serve } from "./serve.mjs";
 
-import { HERE, ROOT, DIST, CLI, DEMO, CHROMIUM, BROWSER_ARGS } from "./env.mjs";
+import { HERE, ROOT, DIST, CLI, DEMO, CHROMIUM, HISTORY, BROWSER_ARGS } from "./env.mjs";
 
 const OUT = path.join(HERE, "out");
 
@@ -489,6 +489,69 @@ test("100,000 lines are checked while the page keeps answering", async () => {
   const during = ticks.filter((x) => x > clickedAt + 50 && x < clickedAt + checkMs * 0.9);
   assert.ok(during.length >= Math.floor((checkMs * 0.85) / 40), `only ${during.length} timer ticks in ${checkMs.toFixed(0)} ms of checking`);
   console.log(`# 100,000 lines: ${checkMs.toFixed(0)} ms in the worker; a click answered in ${latency} ms; ${during.length} main-thread ticks meanwhile`);
+  await page.close();
+});
+
+// Every code of the ICD-10-CM history file (CMS code files FY2016-FY2027,
+// bundled in vocab-build/sources) with its description, over and over to
+// 200,000 lines, checked for FY2020-FY2024: retired, not yet valid and
+// partial-period codes among them, and every code on several lines.
+test("a long list fills the table a page at a time, and ends with the CLI's findings", async () => {
+  const rows = zlib.gunzipSync(fs.readFileSync(HISTORY)).toString("utf8").split("\n").slice(1).filter(Boolean)
+    .map((l) => { const c = l.split("\t"); return `${c[0]}\t${c[3]}`; });
+  const lines = [];
+  for (let i = 0; lines.length < 200_000; i++) lines.push(rows[i % rows.length]);
+  const text = lines.join("\n") + "\n";
+  const file = path.join(OUT, "long-list.tsv");
+  fs.writeFileSync(file, text);
+  const period = { from: "2019-10-01", to: "2024-09-30" };
+  const want = cli(file, ["--from", period.from, "--to", period.to]);
+
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, period);
+  await page.evaluate(async (t) => {
+    document.getElementById("list").value = t;
+    await new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r)));
+  }, text);
+  // What the status and the table say while the worker checks.
+  await page.evaluate(() => {
+    window.__seen = [];
+    new MutationObserver(() => {
+      const status = document.getElementById("check-status").textContent;
+      const rows = document.querySelectorAll("#findings tbody tr[data-row]").length;
+      if (document.body.dataset.checking === "true") window.__seen.push({ status, rows, busy: document.getElementById("findings").getAttribute("aria-busy") });
+    }).observe(document.getElementById("check-status"), { childList: true, characterData: true, subtree: true });
+  });
+  await checkNow(page);
+  const seen = await page.evaluate(() => window.__seen);
+  const during = seen.filter((x) => /^Checking… [\d,]+ of 200,000 lines so far\.$/.test(x.status));
+  assert.ok(during.length >= 2, `the status told how far the check was only ${during.length} times: ${JSON.stringify(seen.slice(0, 5))}`);
+  const done = during.map((x) => Number(x.status.match(/[\d,]+/)[0].replace(/,/g, "")));
+  assert.ok(done.every((n, i) => n < 200_000 && (i === 0 || n >= done[i - 1])), `lines done: ${done}`);
+  // By the second progress line the first page's findings were in the table, not yet for acting on.
+  assert.ok(during.slice(1).some((x) => x.rows > 0 && x.busy === "true"), "no findings were shown before the check ended");
+  assert.equal(await page.$eval("#findings tbody", (b) => b.inert), false);
+  assert.equal(await page.$eval("#findings", (t) => t.getAttribute("aria-busy")), null);
+
+  // The whole report: the CLI's counts, and each kind's number of findings.
+  const summary = await page.$eval("#summary", (s) => ({ ...s.dataset }));
+  assert.deepEqual(
+    [Number(summary.errors), Number(summary.warnings), Number(summary.infos)],
+    [want.summary.errors, want.summary.warnings, want.summary.infos],
+  );
+  const kinds = {};
+  for (const e of want.entries) for (const f of e.findings) kinds[f.kind] = (kinds[f.kind] || 0) + 1;
+  for (const f of want.list_findings) kinds[f.kind] = (kinds[f.kind] || 0) + 1;
+  const shown = Object.fromEntries(
+    (await page.$$eval("#kind-filter option", (os) => os.map((o) => [o.value, o.textContent])))
+      .filter(([k]) => k)
+      .map(([k, t]) => [k, Number(t.match(/\((\d+)\)$/)[1])]),
+  );
+  assert.deepEqual(shown, kinds);
+  assert.match(await page.textContent("#check-status"), /Checked 200,000 lines/);
+  console.log(`# 200,000 lines: ${during.length} progress updates; ${Object.values(kinds).reduce((a, b) => a + b, 0)} findings`);
+  assert.deepEqual(page.errors, []);
   await page.close();
 });
 

@@ -32,9 +32,9 @@ const siteIndexes = new Map(); // picker value -> {name, manifest}
 // puts the index, Wasm and worker into it.
 let checker = null;
 
-function ask(type, payload) {
+function ask(type, payload, onPage = null) {
   if (!checker) return Promise.reject(new Error("the index is not loaded"));
-  return checker.request(type, payload);
+  return checker.request(type, payload, [], onPage);
 }
 
 // ---------------------------------------------------------------- state --
@@ -371,13 +371,15 @@ async function runCheck() {
   const seq = ++state.seq;
   document.body.dataset.checking = "true";
   $("check-status").textContent = "Checking…";
+  const pages = { seq, started: performance.now(), shown: 0, rows: [] };
   try {
     // A dropped workbook is checked from its bytes, as the command line
     // reads it; the list area shows its rows until it is edited.
     const result = state.workbook
       ? await ask("checkBytes", { bytes: state.workbook.bytes.slice().buffer, options: checkerOptions(opts) })
-      : await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined });
+      : await ask("check", { text, options: checkerOptions(opts), system: state.shapes || undefined }, (page) => showPage(pages, page));
     if (seq !== state.seq) return; // a newer check is on its way
+    settleTable();
     $("options-error").hidden = true;
     state.report = result.report;
     state.coverage = result.coverage;
@@ -393,6 +395,8 @@ async function runCheck() {
     compareView.listAChanged();
   } catch (e) {
     if (seq !== state.seq) return;
+    settleTable();
+    if (pages.shown && state.report) render(); // the findings so far were of this check
     const box = $("options-error");
     box.hidden = false;
     box.textContent = `Could not check: ${pageWords(e.message.replace(/^Error: /, "").replace(/^bad check options: /, ""))}`;
@@ -409,18 +413,73 @@ async function runCheck() {
 
 function findingRows(report) {
   const rows = [];
-  for (const e of report.entries) {
-    for (const f of e.findings) {
-      rows.push({ line: e.line, lines: [e.line], input: e.code ?? e.input.trim(), entry: e, ...pick(f) });
-    }
-  }
+  for (const e of report.entries) entryRows(e, rows);
   for (const f of report.list_findings) {
     rows.push({ line: f.lines[0] ?? 0, lines: f.lines, input: f.codes.join(", "), entry: null, ...pick(f) });
   }
-  // Errors first, then warnings, then info; by line within each.
-  const rank = { error: 0, warning: 1, info: 2 };
-  rows.sort((a, b) => (rank[a.severity] ?? 3) - (rank[b.severity] ?? 3) || a.line - b.line);
-  return rows;
+  return rows.sort(bySeverity);
+}
+
+/** The findings rows of one entry, added to `rows`. */
+function entryRows(e, rows) {
+  for (const f of e.findings) {
+    rows.push({ line: e.line, lines: [e.line], input: e.code ?? e.input.trim(), entry: e, ...pick(f) });
+  }
+}
+
+// Errors first, then warnings, then info; by line within each.
+const RANK = { error: 0, warning: 1, info: 2 };
+const bySeverity = (a, b) => (RANK[a.severity] ?? 3) - (RANK[b.severity] ?? 3) || a.line - b.line;
+
+// While a long list is checked: how far the check is, and the findings of
+// the entries judged so far, at most this often (ms).
+const PAGE_SHOW_EVERY = 400;
+
+/** A page of a long list's entries as they are judged (see rollcall.js checkWithCoverage). */
+function showPage(pages, page) {
+  if (pages.seq !== state.seq) return;
+  if (page.restart) {
+    pages.rows = [];
+    $("check-status").textContent = "Checking again, with the index the list needs…";
+    return;
+  }
+  for (const e of page.entries) entryRows(e, pages.rows);
+  const now = performance.now();
+  // A short list's reply follows at once: nothing to show before it.
+  if (page.done >= page.lines || now - pages.started < 250 || now - pages.shown < PAGE_SHOW_EVERY) return;
+  pages.shown = now;
+  $("check-status").textContent = `Checking… ${page.done.toLocaleString("en-US")} of ${plural(page.lines, "line")} so far.`;
+  renderSoFar(pages.rows);
+}
+
+/** The table takes actions again: the check ended (its findings follow), or failed. */
+function settleTable() {
+  $("findings").tBodies[0].inert = false;
+  $("findings").removeAttribute("aria-busy");
+}
+
+/**
+ * The first findings of the entries judged so far; no action until the
+ * check ends. The rows came in line order, so the first of each severity
+ * are the first of the table.
+ */
+function renderSoFar(rows) {
+  const first = [];
+  for (const sev of ["error", "warning", "info"]) {
+    for (const x of rows) {
+      if (first.length >= ROW_PAGE) break;
+      if (x.severity === sev) first.push(x);
+    }
+  }
+  const body = $("findings").tBodies[0];
+  body.inert = true;
+  $("findings").setAttribute("aria-busy", "true");
+  body.innerHTML = rows.length
+    ? rowsHtml(first, (x) => (x.entry && x.entry.system) || "")
+    : `<tr><td colspan="6" class="hint">No findings so far.</td></tr>`;
+  const more = $("findings-more");
+  more.hidden = false;
+  more.textContent = `${plural(rows.length, "finding")} so far; the table is complete when the check ends.`;
 }
 
 function pick(f) {

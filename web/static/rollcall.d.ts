@@ -9,6 +9,7 @@ import type {
   CheckOptionsInput,
   DraftToken,
   Edit,
+  Entry,
   IndexInfo,
   IndexManifest,
   ReadFacts,
@@ -50,12 +51,19 @@ export interface CheckResult {
   loaded: string[];
 }
 
+/** A page of a long list's entries, as they are judged (or a restart: the pages before it are void). */
+export type CheckPage = { entries: Entry[]; done: number; lines: number; restart?: undefined } | { restart: true };
+
+/** Sees each page of entries as it comes; `all` holds every entry so far. */
+export type OnPage = (page: CheckPage, all: Entry[]) => void;
+
 /** A loaded, verified index in its own worker. */
 export class Checker {
   readonly info: IndexInfo;
   /** Check a list; the report in the CLI's JSON schema. */
   check(list: List, options?: CheckOptionsInput): Promise<Report>;
-  checkWithCoverage(list: List, options?: CheckOptionsInput): Promise<CheckResult>;
+  /** The report with the coverage and timings; `onPage` sees a long list's entries as they are judged. */
+  checkWithCoverage(list: List, options?: CheckOptionsInput, onPage?: OnPage): Promise<CheckResult>;
   /** Check a file as the CLI reads it: a workbook (.xlsx, .xls, .ods; each entry names its sheet and row)
    * or text in any form. The worker loads the workbook reader (a Wasm module of its own) with the first workbook. */
   checkFile(file: Blob | ArrayBuffer | Uint8Array, options?: CheckOptionsInput): Promise<CheckResult>;
@@ -72,7 +80,7 @@ export class Checker {
   /** Lower-case hex SHA-256 of the list's text as UTF-8 (rows joined as `listText` joins them). */
   digest(list: List): Promise<string>;
   /** A request by name to the worker (the protocol is described in worker.js). */
-  request(type: string, payload?: object, transfer?: Transferable[]): Promise<unknown>;
+  request(type: string, payload?: object, transfer?: Transferable[], onPage?: OnPage): Promise<unknown>;
   /** Stop the worker; later calls reject. */
   close(): void;
 }

@@ -35,10 +35,21 @@ class Channel {
     this.nextId = 1;
     this.broken = null;
     worker.onmessage = (event) => {
-      const { id, ok, result, error } = event.data || {};
+      const { id, ok, result, error, page } = event.data || {};
       const p = this.pending.get(id);
       if (!p) return;
+      if (page) {
+        // A check's entries come a page at a time before its reply.
+        if (page.restart) p.entries = [];
+        else for (const e of page.entries) p.entries.push(e);
+        if (p.onPage) p.onPage(page, p.entries);
+        return;
+      }
       this.pending.delete(id);
+      if (ok && result && result.paged) {
+        result.report.entries = p.entries;
+        delete result.paged;
+      }
       if (ok) p.resolve(result);
       else p.reject(new Error(error));
     };
@@ -55,11 +66,16 @@ class Channel {
     this.pending.clear();
   }
 
-  ask(type, payload = {}, transfer = []) {
+  /**
+   * One request; `onPage(page, entries)` sees each page of a check's
+   * entries as it comes (`entries`: all so far), and the reply's report
+   * holds them all.
+   */
+  ask(type, payload = {}, transfer = [], onPage = null) {
     if (this.broken) return Promise.reject(this.broken);
     const id = this.nextId++;
     return new Promise((resolve, reject) => {
-      this.pending.set(id, { resolve, reject });
+      this.pending.set(id, { resolve, reject, onPage, entries: [] });
       this.worker.postMessage({ id, type, ...payload }, transfer);
     });
   }
@@ -212,12 +228,18 @@ export class Checker {
     return (await this.checkWithCoverage(list, options)).report;
   }
 
-  /** The report, the category coverage of the same pass, and timings in ms. */
-  checkWithCoverage(list, options = {}) {
+  /**
+   * The report, the category coverage of the same pass, and timings in ms.
+   * `onPage({entries, done, lines}, all)`, if given, sees the entries of a
+   * long list as they are judged, a page at a time (`done`: the line of the
+   * last one; `all`: every entry so far; a page `{restart: true}` means the
+   * check starts again, as when the list needed a companion index).
+   */
+  checkWithCoverage(list, options = {}, onPage = null) {
     // `system`: a shape-only system (loinc, snomed, ...) for the rows with no
     // system cell; the other options are the CLI's.
     const { system, ...rest } = options ?? {};
-    return this.channel.ask("check", { text: listText(list), options: rest, system: system || undefined });
+    return this.channel.ask("check", { text: listText(list), options: rest, system: system || undefined }, [], onPage);
   }
 
   /**
@@ -268,9 +290,9 @@ export class Checker {
     return this.channel.ask("digest", { text: listText(list) });
   }
 
-  /** A request by name to the worker (see worker.js for the protocol). */
-  request(type, payload = {}, transfer = []) {
-    return this.channel.ask(type, payload, transfer);
+  /** A request by name to the worker (see worker.js for the protocol); `onPage` as in checkWithCoverage. */
+  request(type, payload = {}, transfer = [], onPage = null) {
+    return this.channel.ask(type, payload, transfer, onPage);
   }
 
   /** Stop the worker; later calls reject. */

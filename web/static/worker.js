@@ -13,8 +13,14 @@
 //   -> {id, type: "check", text: string, options: CheckOptionsInput, system?: string}
 //      (system: a shape-only system, loinc, snomed, ...: the rows with no
 //      system cell are checked by its shape rules instead of the index)
-//   <- {id, ok: true, result: {report, coverage, checkMs, totalMs, loaded: string[]}}
-//      (loaded: the systems whose indexes are loaded, this one's first)
+//   <- {id, page: {entries: Entry[], done, lines}}   (none or more, then the reply:
+//      the report's entries a page at a time as they are judged; done: the
+//      line of the last one, lines: the list's; a page {restart: true} says
+//      the check starts again, the pages before it void: the list needed an
+//      index that is now loaded)
+//   <- {id, ok: true, result: {report, coverage, checkMs, totalMs, loaded: string[], paged: true}}
+//      (loaded: the systems whose indexes are loaded, this one's first;
+//      paged: report.entries is empty, its entries were the pages)
 //   -> {id, type: "checkBytes", bytes: ArrayBuffer, options: CheckOptionsInput}
 //   <- the same reply as "check"; a workbook (.xlsx, .xls, .ods) is read by
 //      the workbook module (rollcall-workbook.js and its Wasm, loaded on
@@ -341,17 +347,47 @@ function needed(report) {
   const wanted = new Set(
     (report.summary.by_system || []).filter((p) => p.checked === "not-loaded").map((p) => p.system),
   );
-  // The companion (ICD-9-CM beside ICD-10-CM) once the list holds its codes.
-  const other = wasm_bindgen.companionOf(report.vocabulary);
-  if (other && report.entries.some((e) => e.status === "other-system" && e.system === other)) {
-    wanted.add(other);
-  }
+  for (const name of companionNeeded(report.vocabulary, report.entries)) wanted.add(name);
   return [...wanted].filter((name) => !companions.has(name));
 }
 
-async function check(text, options, system, bytes) {
+/** The companion (ICD-9-CM beside ICD-10-CM) once the entries hold its codes, unless it is loaded. */
+function companionNeeded(vocabulary, entries) {
+  const other = wasm_bindgen.companionOf(vocabulary);
+  return other && !companions.has(other) && entries.some((e) => e.status === "other-system" && e.system === other)
+    ? [other]
+    : [];
+}
+
+// Entries per page of a paged check: the first page small, so the table
+// starts to fill at once, the rest larger (fewer, cheaper messages).
+const FIRST_PAGE = 500;
+const PAGE = 5000;
+
+/**
+ * A pasted list checked in pages (Checker.checkPaged): each page of entries
+ * goes to the page as it is judged; the reply's report has no entries. A
+ * page naming a companion that is not loaded stops the check, which starts
+ * again once it is loaded. Returns the report without entries, or null
+ * when stopped (with the companions to load).
+ */
+function checkInPages(id, text, options) {
+  const want = [];
+  const vocabulary = checker.info().vocabulary;
+  const rest = checker.checkPaged(text, options, FIRST_PAGE, PAGE, (json, done, lines) => {
+    const entries = JSON.parse(json);
+    want.push(...companionNeeded(vocabulary, entries));
+    if (want.length) return false;
+    self.postMessage({ id, page: { entries, done, lines } });
+    return true;
+  });
+  return { report: rest === undefined ? null : JSON.parse(rest), want };
+}
+
+async function check(id, text, options, system, bytes) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
+  if (!bytes && !system) return checkPasted(id, text, options, t0);
   // A dropped file's bytes are read as the command line reads them: a
   // workbook's cells by the workbook module, then its sheets by the checker.
   let sheets = null;
@@ -394,6 +430,23 @@ async function check(text, options, system, bytes) {
   return { report, coverage, checkMs: t1 - t0, totalMs: t2 - t0, loaded: checker.loaded() };
 }
 
+/** A pasted list, checked in pages (see checkInPages), again once the companions it names are loaded. */
+async function checkPasted(id, text, options, t0) {
+  let { report, want } = checkInPages(id, text, options);
+  let any = false;
+  for (const name of report ? needed(report) : want) any = (await companion(name)) || any;
+  if (!report || any) {
+    // Stopped, or the list named a system whose index is now loaded: the
+    // pages so far are void. A companion is tried once, so this check runs
+    // to its end (what could not be loaded is named as without it).
+    self.postMessage({ id, page: { restart: true } });
+    ({ report } = checkInPages(id, text, options));
+  }
+  const t1 = performance.now();
+  const coverage = checker.coverage();
+  return { report, coverage, checkMs: t1 - t0, totalMs: performance.now() - t0, loaded: checker.loaded(), paged: true };
+}
+
 function timelines(codes) {
   if (!checker) throw new Error("the index is not loaded");
   return checker.timelines(codes);
@@ -420,10 +473,10 @@ self.onmessage = async (event) => {
         result = await load(unpacked ? await unpacked : msg.bytes, msg.manifest);
         break;
       case "check":
-        result = await check(String(msg.text ?? ""), msg.options ?? {}, msg.system ? String(msg.system) : null);
+        result = await check(id, String(msg.text ?? ""), msg.options ?? {}, msg.system ? String(msg.system) : null);
         break;
       case "checkBytes":
-        result = await check("", msg.options ?? {}, null, new Uint8Array(msg.bytes));
+        result = await check(id, "", msg.options ?? {}, null, new Uint8Array(msg.bytes));
         break;
       case "read":
         result = JSON.parse(wasm_bindgen.readDraft(String(msg.text ?? ""), msg.reading ? String(msg.reading) : undefined));

@@ -461,13 +461,18 @@ fn a_check_in_pages_gives_the_whole_report() {
         let whole: serde_json::Value =
             serde_json::from_str(&c.check_json(list, options(opts)).unwrap()).unwrap();
         let whole_coverage = js_sys::JSON::stringify(&c.coverage().unwrap()).unwrap();
-        for size in [1, 3, 1000] {
+        for (first, size) in [(1, 1), (1, 3), (2, 1000), (1000, 1000)] {
             let pages = std::rc::Rc::new(std::cell::RefCell::new(Vec::<serde_json::Value>::new()));
             let seen = pages.clone();
             let on_page = Closure::<dyn FnMut(String, f64, f64) -> bool>::new(
                 move |json: String, done: f64, lines: f64| {
                     let page: Vec<serde_json::Value> = serde_json::from_str(&json).unwrap();
-                    assert!(page.len() <= size && !page.is_empty());
+                    let cap = if seen.borrow().is_empty() {
+                        first
+                    } else {
+                        size
+                    };
+                    assert!(page.len() <= cap && !page.is_empty());
                     assert_eq!(page.last().unwrap()["line"].as_f64().unwrap(), done);
                     assert!(done <= lines);
                     seen.borrow_mut().extend(page);
@@ -478,6 +483,7 @@ fn a_check_in_pages_gives_the_whole_report() {
                 .check_paged(
                     list.to_string(),
                     options(opts),
+                    first as u32,
                     size as u32,
                     on_page.as_ref().unchecked_ref(),
                 )
@@ -486,7 +492,7 @@ fn a_check_in_pages_gives_the_whole_report() {
             let mut paged: serde_json::Value = serde_json::from_str(&rest).unwrap();
             assert_eq!(paged["entries"], serde_json::json!([]));
             paged["entries"] = serde_json::Value::Array(pages.borrow().clone());
-            assert_eq!(paged, whole, "pages of {size}: {list:.40}");
+            assert_eq!(paged, whole, "pages of {first}, then {size}: {list:.40}");
             let coverage = js_sys::JSON::stringify(&c.coverage().unwrap()).unwrap();
             assert_eq!(coverage, whole_coverage);
         }
@@ -509,6 +515,7 @@ fn a_check_in_pages_stops_when_asked() {
         .check_paged(
             list.to_string(),
             options(r#"{"on":"2024-01-01"}"#),
+            2,
             2,
             stop.as_ref().unchecked_ref(),
         )
