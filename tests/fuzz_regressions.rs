@@ -391,3 +391,75 @@ fn icd9cm_codes_past_its_last_release_stay_retired_without_a_coverage_warning() 
         .iter()
         .all(|f| f.kind != Kind::BeyondCoverage));
 }
+
+/// An unclosed quote on every sampled line of a comma list once made the
+/// layout guess index past its table. Each line keeps its entry and its
+/// code is still found (named in the finding's suggestions or read).
+#[test]
+fn a_comma_list_with_an_unclosed_quote_on_every_line_is_read() {
+    let index = icd10cm();
+    for text in [
+        "E11.9,\"Type 2 diabetes\n",
+        "E11.9,\"Type 2 diabetes\nI10,\"Essential hypertension\n",
+        "code,label\nE11.9,\"Type 2 diabetes\n",
+    ] {
+        let r = rollcall::check(&index, text, &on("2024-01-01"));
+        let lines = text.lines().count();
+        assert_eq!(r.summary.lines, lines, "{text:?}");
+        let e = r
+            .entries
+            .iter()
+            .find(|e| e.input.starts_with("E11.9"))
+            .unwrap();
+        let named = e.code.as_deref() == Some("E11.9")
+            || e.findings
+                .iter()
+                .any(|f| f.suggestions.iter().any(|s| s.code == "E11.9"));
+        assert!(named, "E11.9 lost in {text:?}: {e:?}");
+    }
+}
+
+/// Lone CR line ends (old Mac files): each line its own entry, none folded
+/// into the label before it.
+#[test]
+fn lone_carriage_returns_end_lines() {
+    let r = rollcall::check(
+        &icd10cm(),
+        "E11.9 Type 2 diabetes\rI10 Essential hypertension\rE78.5\r",
+        &on("2024-01-01"),
+    );
+    let codes: Vec<_> = r.entries.iter().map(|e| e.code.as_deref()).collect();
+    assert_eq!(codes, [Some("E11.9"), Some("I10"), Some("E78.5")]);
+}
+
+/// A UTF-8 byte-order mark (as a spreadsheet's "CSV UTF-8" writes) before
+/// a system column's header: the column is still the system of each row.
+/// 0DTJ4ZZ is in icd10pcs-codes-FY2024.txt; 2345-7 has a correct mod 10
+/// check digit (LOINC Users' Guide).
+#[test]
+fn a_byte_order_mark_does_not_hide_the_system_column() {
+    let cm = icd10cm();
+    let pcs = Index::open(harness::ICD10PCS).unwrap();
+    let text = "\u{feff}System,Code\nICD-10-PCS,0DTJ4ZZ\nLOINC,2345-7\nICD-10-CM,E11.9\n";
+    let (r, _) = rollcall::mixed::check_listed(
+        rollcall::mixed::Primary::Index(&cm),
+        &[&pcs],
+        text,
+        &on("2024-01-01"),
+    );
+    let systems: Vec<_> = r
+        .entries
+        .iter()
+        .filter(|e| e.code.is_some())
+        .map(|e| (e.line, e.system.as_deref()))
+        .collect();
+    assert_eq!(
+        systems,
+        [
+            (2, Some("icd10pcs")),
+            (3, Some("loinc")),
+            (4, Some("icd10cm"))
+        ]
+    );
+    assert_eq!(r.summary.errors, 0);
+}
