@@ -224,3 +224,55 @@ fn compare_checks_with_the_icd9_index_at_hand() {
     );
     assert_eq!((c.agreement.only_a, c.agreement.only_b), (0, 1));
 }
+
+/// The targets the official forward file gives a source code, undotted.
+fn forward_targets(source: &str) -> Vec<String> {
+    gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz")
+        .into_iter()
+        .filter(|r| r.source == source)
+        .map(|r| r.target)
+        .collect()
+}
+
+/// An ICD-9-CM code reads alike on a line of a plain list, in a CSV and in
+/// markdown drafts: a code of another system in the list's ICD-10-CM, with
+/// its GEM targets (icd9cm-to-icd10cm-gem-2015.csv, line 5848:
+/// "4280","I509","10000", approximate), not a code checked in ICD-9-CM's
+/// own index, where it would be only retired.
+#[test]
+fn an_icd9_code_reads_alike_in_a_plain_list_a_table_and_a_draft() {
+    let (i9, cm) = (icd9_index(), index());
+    assert_eq!(forward_targets("4280"), ["I509"]);
+    let read = |text: &str| {
+        rollcall::mixed::check_list(
+            rollcall::mixed::Primary::Index(&cm),
+            &[&i9],
+            text,
+            &period("2019-01-01", "2024-12-31"),
+        )
+    };
+    let plain = read("428.0\n");
+    let e = &plain.entries[0];
+    assert_eq!(e.status, Status::OtherSystem);
+    assert_eq!(e.system.as_deref(), Some("icd9cm"));
+    let f = &e.findings[0];
+    let offered: Vec<&str> = f.suggestions.iter().map(|s| s.code.as_str()).collect();
+    assert_eq!(offered, ["I50.9"]);
+    assert!(f.suggestions[0].reason.contains("approximate"));
+    for text in [
+        "code,label\n428.0,\"Congestive heart failure, unspecified\"\n",
+        "- 428.0 Congestive heart failure, unspecified\n",
+        "## Heart failure\n\n1. **428.0** (Congestive heart failure, unspecified)\n",
+    ] {
+        let r = read(text);
+        let e = r
+            .entries
+            .iter()
+            .find(|e| e.code.is_some())
+            .expect("an entry");
+        assert_eq!(e.status, Status::OtherSystem, "{text}");
+        assert_eq!(e.system.as_deref(), Some("icd9cm"), "{text}");
+        assert_eq!(e.findings, plain.entries[0].findings, "{text}");
+        assert!(r.summary.by_system.is_empty(), "{text}");
+    }
+}
