@@ -276,3 +276,74 @@ fn an_icd9_code_reads_alike_in_a_plain_list_a_table_and_a_draft() {
         assert!(r.summary.by_system.is_empty(), "{text}");
     }
 }
+
+/// A retired ICD-9-CM code checked in ICD-9-CM, with ICD-10-CM at hand,
+/// is offered its GEM targets, whose rows say what to code its data as
+/// after 2015-09-30 (icd9cm-to-icd10cm-gem-2015.csv, line 5848: 4280 to
+/// I509, approximate); without ICD-10-CM at hand nothing is offered, as
+/// the final ICD-9-CM release has no code in use after that day.
+#[test]
+fn a_retired_icd9_code_is_offered_its_gem_targets() {
+    let (i9, cm) = (icd9_index(), index());
+    let check = |others: &[&rollcall::Index<Vec<u8>>], from: &str, to: &str| {
+        rollcall::mixed::check_list(
+            rollcall::mixed::Primary::Index(&i9),
+            others,
+            "428.0\n",
+            &period(from, to),
+        )
+    };
+    let r = check(&[&cm], "2019-01-01", "2024-12-31");
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::Retired);
+    let f = &e.findings[0];
+    assert_eq!(f.kind, Kind::Retired);
+    assert!(
+        f.message.contains("2015-09-30") && f.message.contains("ICD-9-CM to ICD-10-CM"),
+        "{}",
+        f.message
+    );
+    let offered: Vec<String> = f
+        .suggestions
+        .iter()
+        .map(|s| s.code.replace('.', ""))
+        .collect();
+    assert_eq!(offered, forward_targets("4280"));
+    assert!(f.suggestions[0].reason.contains("approximate"));
+    // A period that ICD-9-CM's last day cuts: its retired part is mapped.
+    let r = check(&[&cm], "2015-01-01", "2016-12-31");
+    let f = &r.entries[0].findings[0];
+    assert_eq!(f.kind, Kind::PartialPeriod);
+    assert!(f.message.contains("mapped to I50.9"), "{}", f.message);
+    assert_eq!(f.suggestions[0].code, "I50.9");
+    // Alone, the ICD-9-CM index names nothing.
+    let r = check(&[], "2019-01-01", "2024-12-31");
+    assert!(r.entries[0].findings[0].suggestions.is_empty());
+}
+
+/// A combination row's targets are all offered for a retired ICD-9-CM
+/// code, each as the official forward file lists them (the first source
+/// with a combination flag, taken from the file itself).
+#[test]
+fn a_retired_icd9_code_with_a_combination_is_offered_every_target() {
+    let (i9, cm) = (icd9_index(), index());
+    let rows = gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz");
+    let comb = rows
+        .iter()
+        .find(|r| r.flags.as_bytes()[2] == b'1')
+        .expect("a combination row");
+    let r = rollcall::mixed::check_list(
+        rollcall::mixed::Primary::Index(&i9),
+        &[&cm],
+        &format!("{}\n", comb.source),
+        &period("2019-01-01", "2024-12-31"),
+    );
+    let f = &r.entries[0].findings[0];
+    assert!(f.message.contains("combination"), "{}", f.message);
+    let offered: Vec<String> = f
+        .suggestions
+        .iter()
+        .map(|s| s.code.replace('.', ""))
+        .collect();
+    assert_eq!(offered, forward_targets(&comb.source));
+}

@@ -42,8 +42,10 @@ pub(crate) fn segments(
     out
 }
 
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn judge_dates(
     view: &View<'_>,
+    others: &[View<'_>],
     options: &CheckOptions,
     period: &Period,
     ctx: &ListContext,
@@ -170,7 +172,7 @@ pub(crate) fn judge_dates(
             (_, Some(last)) if last < period.from => {
                 e.status = Status::Retired;
                 let last_valid = billable.iter().map(|p| p.to).max().unwrap_or(last);
-                let facts = retired_before(view, period, ctx, ord, shown, last_valid);
+                let facts = retired_before(view, others, period, ctx, ord, shown, last_valid);
                 e.findings.push(facts.finding());
             }
             (Some(first), _) if first > period.to => {
@@ -226,7 +228,7 @@ pub(crate) fn judge_dates(
     // Mixed: billable on part of the period.
     e.status = Status::Partial;
     e.findings
-        .push(partial_period(view, ctx, ord, shown, &segs).finding());
+        .push(partial_period(view, others, ctx, ord, shown, &segs).finding());
 }
 
 /// A code retired before the period starts, as facts;
@@ -244,12 +246,17 @@ pub(crate) struct RetiredBefore {
     pub replacements: Vec<Suggestion>,
     /// How many of the replacements the list already reaches.
     pub listed: usize,
+    /// When its own release names nothing in use: its targets in another
+    /// index at hand by a mapping (an ICD-9-CM code's ICD-10-CM targets in
+    /// the GEMs), some of them billable in the period.
+    pub mapped: Option<Mapped>,
 }
 
 /// The facts of a code at `ord` whose last billable day, `last_valid`,
-/// lies before `period`.
+/// lies before `period`; `others` are the indexes at hand.
 pub(crate) fn retired_before(
     view: &View<'_>,
+    others: &[View<'_>],
     period: &Period,
     ctx: &ListContext,
     ord: u32,
@@ -290,13 +297,36 @@ pub(crate) fn retired_before(
                 .is_some_and(|o| ctx.reached.contains(&o))
         })
         .count();
+    let mapped = if replacements.is_empty() {
+        mapped_in_use(view, others, ord, period)
+    } else {
+        None
+    };
     RetiredBefore {
         code: shown.to_string(),
         last_valid,
         period_from: period.from,
         replacements,
         listed,
+        mapped,
     }
+}
+
+/// The code at `ord` mapped into the first index at hand that has a
+/// mapping from `view`'s vocabulary with a target billable in `within`
+/// (ICD-9-CM into ICD-10-CM; never the reverse, whose targets all ended
+/// in 2015, for a period after it).
+pub(crate) fn mapped_in_use(
+    view: &View<'_>,
+    others: &[View<'_>],
+    ord: u32,
+    within: &Period,
+) -> Option<Mapped> {
+    let code = view.code(ord);
+    others
+        .iter()
+        .filter_map(|o| mapped_into(view, &code, o, within))
+        .find(|m| m.in_period > 0)
 }
 
 /// A code billable on part of the period only, as facts;
@@ -331,6 +361,15 @@ pub(crate) enum PartState {
     NotYetValid(Named),
     /// Retired; its data coded as these codes.
     Retired(Named),
+    /// Retired with nothing in its own release to code its data as; the
+    /// mapping `title` (the GEMs) gives these targets in another index at
+    /// hand (whose codes the list's count does not reach).
+    Mapped {
+        /// The mapping's title.
+        title: String,
+        /// Its targets.
+        targets: Named,
+    },
 }
 
 /// Codes a finding names: the first three as a message shows them, how
@@ -360,6 +399,7 @@ impl Named {
 /// billable on some of them only.
 pub(crate) fn partial_period(
     view: &View<'_>,
+    others: &[View<'_>],
     ctx: &ListContext,
     ord: u32,
     shown: &str,
@@ -409,11 +449,29 @@ pub(crate) fn partial_period(
                     &cover,
                     format!("{}: covers {} to {}", successor_source(view), p.from, p.to),
                 );
+                let mapped = (!before && cover.is_empty())
+                    .then(|| mapped_in_use(view, others, ord, &p))
+                    .flatten();
                 let named = Named::of(view, ctx, &cover);
-                if before {
-                    PartState::NotYetValid(named)
-                } else {
-                    PartState::Retired(named)
+                match mapped {
+                    Some(m) => {
+                        for t in &m.targets {
+                            if sugg.len() < NAMED_LIMIT && !sugg.iter().any(|s| s.code == t.code) {
+                                sugg.push(t.clone());
+                            }
+                        }
+                        let codes: Vec<String> = m.targets.iter().map(|t| t.code.clone()).collect();
+                        PartState::Mapped {
+                            title: m.title,
+                            targets: Named {
+                                shown: codes.iter().take(3).cloned().collect(),
+                                count: codes.len(),
+                                listed: 0,
+                            },
+                        }
+                    }
+                    None if before => PartState::NotYetValid(named),
+                    None => PartState::Retired(named),
                 }
             }
         };
@@ -445,7 +503,7 @@ mod tests {
         let ord = view.ordinal(code).unwrap();
         let segs = segments(view, ord, &within_coverage(view, &span(from, to)));
         let ctx = context(view, reached);
-        partial_period(view, &ctx, ord, &view.display(code), &segs)
+        partial_period(view, &[], &ctx, ord, &view.display(code), &segs)
     }
 
     fn named(shown: &[&str], count: usize, listed: usize) -> Named {
@@ -467,7 +525,7 @@ mod tests {
         let period = span("2020-01-01", "2020-12-31");
         let facts = |reached: &[&str]| {
             let ctx = context(&view, reached);
-            retired_before(&view, &period, &ctx, ord, "R00.1", day("2019-09-30"))
+            retired_before(&view, &[], &period, &ctx, ord, "R00.1", day("2019-09-30"))
         };
         let alone = facts(&[]);
         assert_eq!(alone.last_valid, day("2019-09-30"));

@@ -193,7 +193,7 @@ pub(crate) fn judge(
                 e.findings.extend(found.iter().cloned());
             } else {
                 let before = e.findings.len();
-                judge_dates(view, options, period, ctx, ord, &shown, e);
+                judge_dates(view, others, options, period, ctx, ord, &shown, e);
                 memo.dates
                     .insert(ord, (e.status, e.findings[before..].to_vec()));
             }

@@ -56,7 +56,6 @@ pub(crate) fn known_elsewhere(
     code: &str,
     period: &Period,
 ) -> Option<(String, String, Vec<Suggestion>)> {
-    let own = view.meta().vocabulary.as_str();
     for other in others {
         // A dot where the other system puts none (`E88.00` for E880.0) says
         // the code is not from there.
@@ -82,36 +81,10 @@ pub(crate) fn known_elsewhere(
                 .join(", ")
         );
         let mut sugg = Vec::new();
-        // The mapping may live in either index (the GEMs of both directions
-        // are kept with ICD-9-CM).
-        let mapping = other
-            .mapping(&meta.vocabulary, own)
-            .or_else(|| view.mapping(&meta.vocabulary, own));
-        match mapping {
+        match mapped_into(other, &other.code(ord), view, period) {
             Some(m) => {
-                let rows = m.lookup(&other.code(ord));
-                let words = crate::mapping::flag_words(&rows);
-                message.push_str(&format!("; {}: {words}", m.title));
-                for r in rows.iter().filter(|r| !r.flags.no_map) {
-                    let Some(t) = view.ordinal(&r.target) else {
-                        sugg.push(Suggestion {
-                            code: r.target.clone(),
-                            description: String::new(),
-                            reason: format!(
-                                "{} target, not in any {} release from {} on",
-                                m.title,
-                                view.meta().title,
-                                view.meta().coverage_from
-                            ),
-                        });
-                        continue;
-                    };
-                    let mut reason = crate::mapping::row_words(&r.flags);
-                    if !view.billable_in(t, period) {
-                        reason.push_str(", but not billable in the period");
-                    }
-                    sugg.push(suggestion(view, t, reason));
-                }
+                message.push_str(&format!("; {}: {}", m.title, m.words));
+                sugg = m.targets;
             }
             None => message.push_str(&format!(
                 "; rollcall has no mapping from {} into {}",
@@ -122,6 +95,67 @@ pub(crate) fn known_elsewhere(
         return Some((meta.vocabulary.clone(), message, sugg));
     }
     None
+}
+
+/// A code's targets in another vocabulary by a mapping (the GEMs), as facts.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub(crate) struct Mapped {
+    /// The mapping's title (`General Equivalence Mappings (2015), ICD-9-CM
+    /// to ICD-10-CM`).
+    pub title: String,
+    /// The flags of the code's rows, in words.
+    pub words: String,
+    /// Each target the rows name, with its flags in words and its status
+    /// in the period.
+    pub targets: Vec<Suggestion>,
+    /// How many of the targets are billable on some day of the period.
+    pub in_period: usize,
+}
+
+/// `code`, a code of `from`, mapped into the vocabulary of `into`, when
+/// either index keeps a mapping between the two (the GEMs of both
+/// directions are kept with ICD-9-CM).
+pub(crate) fn mapped_into(
+    from: &View<'_>,
+    code: &str,
+    into: &View<'_>,
+    period: &Period,
+) -> Option<Mapped> {
+    let (source, target) = (&from.meta().vocabulary, &into.meta().vocabulary);
+    let m = from
+        .mapping(source, target)
+        .or_else(|| into.mapping(source, target))?;
+    let rows = m.lookup(code);
+    let mut targets = Vec::new();
+    let mut in_period = 0;
+    for r in rows.iter().filter(|r| !r.flags.no_map) {
+        let Some(t) = into.ordinal(&r.target) else {
+            targets.push(Suggestion {
+                code: r.target.clone(),
+                description: String::new(),
+                reason: format!(
+                    "{} target, not in any {} release from {} on",
+                    m.title,
+                    into.meta().title,
+                    into.meta().coverage_from
+                ),
+            });
+            continue;
+        };
+        let mut reason = crate::mapping::row_words(&r.flags);
+        if into.billable_in(t, period) {
+            in_period += 1;
+        } else {
+            reason.push_str(", but not billable in the period");
+        }
+        targets.push(suggestion(into, t, reason));
+    }
+    Some(Mapped {
+        title: m.title.to_string(),
+        words: crate::mapping::flag_words(&rows),
+        targets,
+        in_period,
+    })
 }
 
 /// When `code`, a code of `view`, is also a code of another index at hand

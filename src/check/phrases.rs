@@ -96,13 +96,20 @@ impl RetiredBefore {
                 msg.push_str(&format!(" ({} already in the list)", self.listed));
             }
         }
+        if let Some(m) = &self.mapped {
+            msg.push_str(&format!("; {}: {}", m.title, m.words));
+        }
         msg
     }
 
     /// The `retired` finding, an error.
     pub(crate) fn finding(self) -> Finding {
         let message = self.message();
-        Finding::new(Kind::Retired, Severity::Error, message, self.replacements)
+        let offered = match self.mapped {
+            Some(m) if self.replacements.is_empty() => m.targets,
+            _ => self.replacements,
+        };
+        Finding::new(Kind::Retired, Severity::Error, message, offered)
     }
 }
 
@@ -142,6 +149,12 @@ impl Part {
                     if under.count == 1 { "" } else { "s" },
                     under.names(),
                     under.in_list()
+                )
+            }
+            PartState::Mapped { title, targets } => {
+                return format!(
+                    "from {from} to {to} retired, mapped to {} by the {title}",
+                    targets.names()
                 )
             }
             PartState::NotYetValid(named) => ("not yet valid", named),
