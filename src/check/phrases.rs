@@ -171,3 +171,141 @@ impl Part {
         }
     }
 }
+
+impl BeyondCoverage {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        format!(
+            "the index knows {} until {}; the period runs past it, so codes are judged up to that day",
+            self.title, self.coverage_to
+        )
+    }
+
+    /// The `beyond-coverage` finding, a warning on the whole list.
+    pub(crate) fn finding(self) -> ListFinding {
+        ListFinding {
+            kind: Kind::BeyondCoverage,
+            severity: Severity::Warning,
+            lines: vec![],
+            codes: vec![],
+            message: self.message(),
+            suggestions: vec![],
+            coverage_to: Some(self.coverage_to),
+        }
+    }
+}
+
+impl Duplicate {
+    /// The sentence for people: `E11.9 is on lines 1, 4 and 7; keep one of them`.
+    pub(crate) fn message(&self) -> String {
+        let l: Vec<String> = self.lines.iter().map(|n| n.to_string()).collect();
+        let lines = match l.split_last() {
+            Some((last, rest)) if !rest.is_empty() => format!("{} and {last}", rest.join(", ")),
+            _ => l.join(", "),
+        };
+        format!("{} is on lines {lines}; keep one of them", self.code)
+    }
+
+    /// The `duplicate` finding, a warning.
+    pub(crate) fn finding(self) -> ListFinding {
+        ListFinding {
+            coverage_to: None,
+            kind: Kind::Duplicate,
+            severity: Severity::Warning,
+            message: self.message(),
+            codes: vec![self.code],
+            lines: self.lines,
+            suggestions: vec![],
+        }
+    }
+}
+
+impl RollUp {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let all = if self.codes.len() == 2 {
+            "both".to_string()
+        } else {
+            format!("all {}", self.codes.len())
+        };
+        let node = &self.node;
+        match &self.pattern {
+            None => format!(
+                "{all} codes under {node} are in the list; {node} stands for them all (and for itself) where a query takes a code with everything under it"
+            ),
+            Some(pat) => format!(
+                "{all} billable codes under {node} in the period are in the list; {pat} matches exactly these"
+            ),
+        }
+    }
+
+    /// The `roll-up` finding, a note, offering the pattern (or the node).
+    pub(crate) fn finding(self) -> ListFinding {
+        let message = self.message();
+        let n = self.codes.len();
+        let suggestion = match self.pattern {
+            None => Suggestion {
+                code: self.node,
+                description: self.description,
+                reason: format!("one code in place of {n} lines"),
+            },
+            Some(pat) => Suggestion {
+                code: pat,
+                description: self.description,
+                reason: format!("replaces the {n} lines with one pattern"),
+            },
+        };
+        ListFinding {
+            coverage_to: None,
+            kind: Kind::RollUp,
+            severity: Severity::Info,
+            lines: self.lines,
+            codes: self.codes,
+            message,
+            suggestions: vec![suggestion],
+        }
+    }
+}
+
+impl SiblingGap {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let shown: Vec<String> = self.missing.iter().take(3).cloned().collect();
+        format!(
+            "the list has {} of the {} {} under {}{}; missing: {}",
+            self.have,
+            self.of,
+            if self.graph {
+                "codes"
+            } else {
+                "billable codes"
+            },
+            self.node,
+            if self.in_period { " in the period" } else { "" },
+            names(&shown, self.missing.len())
+        )
+    }
+
+    /// The `sibling-gap` finding, a note, offering the first missing codes.
+    pub(crate) fn finding(self) -> ListFinding {
+        let message = self.message();
+        let reason = format!("under {}, not in the list", self.node);
+        ListFinding {
+            coverage_to: None,
+            kind: Kind::SiblingGap,
+            severity: Severity::Info,
+            lines: self.lines,
+            codes: self.missing,
+            message,
+            suggestions: self
+                .offered
+                .into_iter()
+                .map(|(code, description)| Suggestion {
+                    code,
+                    description,
+                    reason: reason.clone(),
+                })
+                .collect(),
+        }
+    }
+}
