@@ -635,6 +635,40 @@ mod tests {
         );
     }
 
+    /// A code of "old" (ended 2015-09-30, `testing::old`) retired before
+    /// the period, with "tiny" at hand: its targets by the mapping, one of
+    /// them billable in the period; alone, nothing.
+    #[test]
+    fn a_code_of_an_ended_vocabulary_is_offered_its_mapped_targets() {
+        let (old, tiny) = (old(), index(ten()));
+        let view = old.view();
+        let ord = view.ordinal("4280").unwrap();
+        let period = span("2020-01-01", "2020-12-31");
+        let ctx = context(&view, &[]);
+        let last = day("2015-09-30");
+        let facts = retired_before(&view, &[tiny.view()], &period, &ctx, ord, "428.0", last);
+        assert!(facts.replacements.is_empty());
+        let mapped = facts.mapped.expect("mapped into tiny");
+        assert_eq!(
+            (mapped.title.as_str(), mapped.in_period),
+            ("Old to Tiny", 1)
+        );
+        let alone = retired_before(&view, &[], &period, &ctx, ord, "428.0", last);
+        assert_eq!(alone.mapped, None);
+        // Cut by its last day, the part after it is mapped (the whole
+        // period, as for a vocabulary whose last release the index holds:
+        // "old" is no known system, so the check would stop at its coverage).
+        let segs = segments(&view, ord, &span("2015-01-01", "2016-12-31"));
+        let facts = partial_period(&view, &[tiny.view()], &ctx, ord, "428.0", &segs);
+        assert_eq!(
+            facts.parts[1].state,
+            PartState::Mapped {
+                title: "Old to Tiny".into(),
+                targets: named(&["I10", "R00.1"], 2, 0),
+            }
+        );
+    }
+
     /// A code retired before the period: its last valid day and its
     /// successor are the finding's facts (the entries of `ten`).
     #[test]

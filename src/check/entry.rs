@@ -20,18 +20,13 @@ pub(crate) fn judge(
     let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
     // A code of another system at hand (ICD-9-CM beside ICD-10-CM).
     if let Item::Malformed { written, .. } | Item::Unknown { written, .. } = &item {
-        if let Some((system, message, sugg)) = known_elsewhere(view, others, written, period) {
+        if let Some(known) = known_elsewhere(view, others, written, period) {
             e.status = Status::OtherSystem;
-            e.system = Some(system);
+            e.system = Some(known.system.clone());
             if matches!(item, Item::Malformed { .. }) {
                 e.code = Some(written.clone());
             }
-            e.findings.push(Finding::new(
-                Kind::OtherSystem,
-                Severity::Warning,
-                message,
-                sugg,
-            ));
+            e.findings.push(known.finding());
             return;
         }
     }
@@ -70,12 +65,12 @@ pub(crate) fn judge(
                     .collect()
             };
             let f = match other {
-                Some((systems, message)) => {
+                Some(shape) => {
                     e.status = Status::OtherSystem;
-                    if let [one] = systems.as_slice() {
+                    if let [one] = shape.systems().as_slice() {
                         e.system = Some(one.name().to_string());
                     }
-                    Finding::new(Kind::OtherSystem, Severity::Warning, message, sugg)
+                    Finding::new(Kind::OtherSystem, Severity::Warning, shape.message(), sugg)
                 }
                 None => {
                     e.status = Status::Malformed;
@@ -197,8 +192,8 @@ pub(crate) fn judge(
                 memo.dates
                     .insert(ord, (e.status, e.findings[before..].to_vec()));
             }
-            if let Some(f) = also_elsewhere(view, others, &code, &shown) {
-                e.findings.push(f);
+            if let Some(also) = also_elsewhere(view, others, &code, &shown) {
+                e.findings.push(also.finding());
             }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);

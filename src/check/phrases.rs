@@ -309,3 +309,97 @@ impl SiblingGap {
         }
     }
 }
+
+/// `2014-10-01 to 2015-09-30, ...`: days a message names.
+fn spans(periods: &[Period]) -> String {
+    periods
+        .iter()
+        .map(|p| format!("{} to {}", p.from, p.to))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+impl OtherShape {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let (written, title) = (&self.written, &self.own);
+        match self.fits.as_slice() {
+            [(s, note)] => format!(
+                "\"{written}\" is not {} {title} code; it {note}, so it looks like {} {} code. Check it in a list of its own with --system {}{}",
+                article(title),
+                s.article(),
+                s.title(),
+                s.name(),
+                if s.bundled() {
+                    ", whose bundled index checks it fully"
+                } else {
+                    "; rollcall checks that system by shape only"
+                }
+            ),
+            many => format!(
+                "\"{written}\" is not {article} {title} code; it has the shape of a code of {}. Say which system it is from (--system NAME) and check it in a list of its own",
+                many.iter()
+                    .map(|(s, _)| format!("{} ({})", s.title(), s.name()))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                article = article(title)
+            ),
+        }
+    }
+}
+
+impl KnownElsewhere {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let mut message = format!(
+            "{} is not {} {} code; it is {} {} code ({}), valid {}",
+            self.code,
+            article(&self.own),
+            self.own,
+            article(&self.title),
+            self.title,
+            self.description,
+            spans(&self.valid)
+        );
+        match &self.mapped {
+            Some(m) => message.push_str(&format!("; {}: {}", m.title, m.words)),
+            None => message.push_str(&format!(
+                "; rollcall has no mapping from {} into {}",
+                self.title, self.own
+            )),
+        }
+        message
+    }
+
+    /// The `other-system` finding, a warning, offering the mapping's targets.
+    pub(crate) fn finding(self) -> Finding {
+        let message = self.message();
+        let targets = self.mapped.map(|m| m.targets).unwrap_or_default();
+        Finding::new(Kind::OtherSystem, Severity::Warning, message, targets)
+    }
+}
+
+impl AlsoElsewhere {
+    /// The sentence for people.
+    pub(crate) fn message(&self) -> String {
+        let valid = if self.spans.is_empty() {
+            String::new()
+        } else {
+            format!(", valid {}", spans(&self.spans))
+        };
+        format!(
+            "{} is also {} {} code ({}{valid}); it is checked as {} {} code, the list's system. If the list meant the other, check it with that system",
+            self.code,
+            article(&self.title),
+            self.title,
+            self.description,
+            article(&self.own),
+            self.own,
+        )
+    }
+
+    /// The `two-systems` finding, a note.
+    pub(crate) fn finding(self) -> Finding {
+        Finding::new(Kind::TwoSystems, Severity::Info, self.message(), vec![])
+    }
+}
