@@ -57,11 +57,12 @@ pub(crate) fn judge(
                 && !view.is_graph();
             let sugg: Vec<Suggestion> = if other.is_none() && typed && *suggestions_left > 0 {
                 *suggestions_left -= 1;
-                near_suggestions(view, &undotted, e.label.as_deref(), period, memo).suggestions
+                let near = near_suggestions(view, &undotted, e.label.as_deref(), period, memo);
+                offer(view, &near.offered)
             } else {
                 label_candidates(view, e.label.as_deref(), &undotted, period, &[], memo)
                     .into_iter()
-                    .map(|(o, why)| suggestion(view, o, why))
+                    .map(|(o, fit)| suggestion(view, o, fit.reason()))
                     .collect()
             };
             let f = match other {
@@ -128,9 +129,9 @@ pub(crate) fn judge(
                     cov.to
                 )
             };
-            if let Some(extra) = seventh_note(view, &c) {
+            if let Some(seventh) = seventh_note(view, &c) {
                 msg.push_str("; ");
-                msg.push_str(&extra);
+                msg.push_str(&seventh.phrase());
             }
             let mut sugg = Vec::new();
             let key = (c.clone(), e.label.clone());
@@ -141,7 +142,7 @@ pub(crate) fn judge(
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
                 let near = near_suggestions(view, &c, e.label.as_deref(), period, memo);
-                sugg = with_every_seventh(view, &c, near.suggestions);
+                sugg = offer(view, &with_every_seventh(view, &c, near.offered));
                 if near.label_first {
                     msg.push_str(&format!("; its label fits {} best", sugg[0].code));
                 }
@@ -173,7 +174,10 @@ pub(crate) fn judge(
                 let mut sugg = vec![suggestion(view, ord, "the official form")];
                 let letter_read = changes.iter().any(|c| c.contains(" read as "));
                 if let (true, Some(label)) = (letter_read, e.label.as_deref()) {
-                    sugg.extend(other_readings(view, &written, ord, label, period));
+                    sugg.extend(offer(
+                        view,
+                        &other_readings(view, &written, ord, label, period),
+                    ));
                 }
                 e.findings.push(Finding::new(
                     Kind::Normalized,

@@ -403,3 +403,62 @@ impl AlsoElsewhere {
         Finding::new(Kind::TwoSystems, Severity::Info, self.message(), vec![])
     }
 }
+
+impl NearBy {
+    /// `one character different, same category, but not billable in the period`.
+    pub(crate) fn words(&self) -> String {
+        let mut why = match self.edit {
+            Edit::Swap => "two neighbouring characters swapped",
+            Edit::One => "one character different",
+            Edit::Two => "two characters different",
+        }
+        .to_string();
+        if self.same_category {
+            why.push_str(", same category");
+        }
+        if !self.in_period {
+            why.push_str(", but not billable in the period");
+        }
+        why
+    }
+}
+
+impl Offered {
+    /// Why the code is offered, in words.
+    pub(crate) fn reason(&self) -> String {
+        match self {
+            Offered::Near(near) => near.words(),
+            Offered::Label(fit) => fit.reason(),
+            Offered::Both(near, fit) => format!("{}; {}", near.words(), fit.words(false)),
+            Offered::Seventh => "a 7th character the tabular list allows here".into(),
+            Offered::OtherReading { written } => {
+                format!("one character from \"{written}\"; the label fits it better")
+            }
+        }
+    }
+}
+
+/// The codes offered, each with why, as suggestions.
+pub(crate) fn offer(view: &View<'_>, offered: &[(u32, Offered)]) -> Vec<Suggestion> {
+    offered
+        .iter()
+        .map(|(o, why)| suggestion(view, *o, why.reason()))
+        .collect()
+}
+
+impl SeventhNotAllowed {
+    /// `the 7th character Z is not one the tabular list allows under S52.5: A (initial encounter), ...`.
+    pub(crate) fn phrase(&self) -> String {
+        let allowed: Vec<String> = self
+            .allowed
+            .iter()
+            .map(|(c, m)| format!("{c} ({m})"))
+            .collect();
+        format!(
+            "the 7th character {} is not one the tabular list allows under {}: {}",
+            self.written,
+            self.node,
+            allowed.join(", ")
+        )
+    }
+}
