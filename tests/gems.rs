@@ -224,3 +224,126 @@ fn compare_checks_with_the_icd9_index_at_hand() {
     );
     assert_eq!((c.agreement.only_a, c.agreement.only_b), (0, 1));
 }
+
+/// The targets the official forward file gives a source code, undotted.
+fn forward_targets(source: &str) -> Vec<String> {
+    gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz")
+        .into_iter()
+        .filter(|r| r.source == source)
+        .map(|r| r.target)
+        .collect()
+}
+
+/// An ICD-9-CM code reads alike on a line of a plain list, in a CSV and in
+/// markdown drafts: a code of another system in the list's ICD-10-CM, with
+/// its GEM targets (icd9cm-to-icd10cm-gem-2015.csv, line 5848:
+/// "4280","I509","10000", approximate), not a code checked in ICD-9-CM's
+/// own index, where it would be only retired.
+#[test]
+fn an_icd9_code_reads_alike_in_a_plain_list_a_table_and_a_draft() {
+    let (i9, cm) = (icd9_index(), index());
+    assert_eq!(forward_targets("4280"), ["I509"]);
+    let read = |text: &str| {
+        rollcall::mixed::check_list(
+            rollcall::mixed::Primary::Index(&cm),
+            &[&i9],
+            text,
+            &period("2019-01-01", "2024-12-31"),
+        )
+    };
+    let plain = read("428.0\n");
+    let e = &plain.entries[0];
+    assert_eq!(e.status, Status::OtherSystem);
+    assert_eq!(e.system.as_deref(), Some("icd9cm"));
+    let f = &e.findings[0];
+    let offered: Vec<&str> = f.suggestions.iter().map(|s| s.code.as_str()).collect();
+    assert_eq!(offered, ["I50.9"]);
+    assert!(f.suggestions[0].reason.contains("approximate"));
+    for text in [
+        "code,label\n428.0,\"Congestive heart failure, unspecified\"\n",
+        "- 428.0 Congestive heart failure, unspecified\n",
+        "## Heart failure\n\n1. **428.0** (Congestive heart failure, unspecified)\n",
+    ] {
+        let r = read(text);
+        let e = r
+            .entries
+            .iter()
+            .find(|e| e.code.is_some())
+            .expect("an entry");
+        assert_eq!(e.status, Status::OtherSystem, "{text}");
+        assert_eq!(e.system.as_deref(), Some("icd9cm"), "{text}");
+        assert_eq!(e.findings, plain.entries[0].findings, "{text}");
+        assert!(r.summary.by_system.is_empty(), "{text}");
+    }
+}
+
+/// A retired ICD-9-CM code checked in ICD-9-CM, with ICD-10-CM at hand,
+/// is offered its GEM targets, whose rows say what to code its data as
+/// after 2015-09-30 (icd9cm-to-icd10cm-gem-2015.csv, line 5848: 4280 to
+/// I509, approximate); without ICD-10-CM at hand nothing is offered, as
+/// the final ICD-9-CM release has no code in use after that day.
+#[test]
+fn a_retired_icd9_code_is_offered_its_gem_targets() {
+    let (i9, cm) = (icd9_index(), index());
+    let check = |others: &[&rollcall::Index<Vec<u8>>], from: &str, to: &str| {
+        rollcall::mixed::check_list(
+            rollcall::mixed::Primary::Index(&i9),
+            others,
+            "428.0\n",
+            &period(from, to),
+        )
+    };
+    let r = check(&[&cm], "2019-01-01", "2024-12-31");
+    let e = &r.entries[0];
+    assert_eq!(e.status, Status::Retired);
+    let f = &e.findings[0];
+    assert_eq!(f.kind, Kind::Retired);
+    assert!(
+        f.message.contains("2015-09-30") && f.message.contains("ICD-9-CM to ICD-10-CM"),
+        "{}",
+        f.message
+    );
+    let offered: Vec<String> = f
+        .suggestions
+        .iter()
+        .map(|s| s.code.replace('.', ""))
+        .collect();
+    assert_eq!(offered, forward_targets("4280"));
+    assert!(f.suggestions[0].reason.contains("approximate"));
+    // A period that ICD-9-CM's last day cuts: its retired part is mapped.
+    let r = check(&[&cm], "2015-01-01", "2016-12-31");
+    let f = &r.entries[0].findings[0];
+    assert_eq!(f.kind, Kind::PartialPeriod);
+    assert!(f.message.contains("mapped to I50.9"), "{}", f.message);
+    assert_eq!(f.suggestions[0].code, "I50.9");
+    // Alone, the ICD-9-CM index names nothing.
+    let r = check(&[], "2019-01-01", "2024-12-31");
+    assert!(r.entries[0].findings[0].suggestions.is_empty());
+}
+
+/// A combination row's targets are all offered for a retired ICD-9-CM
+/// code, each as the official forward file lists them (the first source
+/// with a combination flag, taken from the file itself).
+#[test]
+fn a_retired_icd9_code_with_a_combination_is_offered_every_target() {
+    let (i9, cm) = (icd9_index(), index());
+    let rows = gem_file("icd9cm-to-icd10cm-gem-2015.csv.gz");
+    let comb = rows
+        .iter()
+        .find(|r| r.flags.as_bytes()[2] == b'1')
+        .expect("a combination row");
+    let r = rollcall::mixed::check_list(
+        rollcall::mixed::Primary::Index(&i9),
+        &[&cm],
+        &format!("{}\n", comb.source),
+        &period("2019-01-01", "2024-12-31"),
+    );
+    let f = &r.entries[0].findings[0];
+    assert!(f.message.contains("combination"), "{}", f.message);
+    let offered: Vec<String> = f
+        .suggestions
+        .iter()
+        .map(|s| s.code.replace('.', ""))
+        .collect();
+    assert_eq!(offered, forward_targets(&comb.source));
+}

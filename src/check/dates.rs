@@ -42,8 +42,10 @@ pub(crate) fn segments(
     out
 }
 
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn judge_dates(
     view: &View<'_>,
+    others: &[View<'_>],
     options: &CheckOptions,
     period: &Period,
     ctx: &ListContext,
@@ -170,7 +172,7 @@ pub(crate) fn judge_dates(
             (_, Some(last)) if last < period.from => {
                 e.status = Status::Retired;
                 let last_valid = billable.iter().map(|p| p.to).max().unwrap_or(last);
-                let facts = retired_before(view, period, ctx, ord, shown, last_valid);
+                let facts = retired_before(view, others, period, ctx, ord, shown, last_valid);
                 e.findings.push(facts.finding());
             }
             (Some(first), _) if first > period.to => {
@@ -226,7 +228,7 @@ pub(crate) fn judge_dates(
     // Mixed: billable on part of the period.
     e.status = Status::Partial;
     e.findings
-        .push(partial_period(view, ctx, ord, shown, &segs).finding());
+        .push(partial_period(view, others, ctx, ord, shown, &segs).finding());
 }
 
 /// A code retired before the period starts, as facts;
@@ -244,12 +246,17 @@ pub(crate) struct RetiredBefore {
     pub replacements: Vec<Suggestion>,
     /// How many of the replacements the list already reaches.
     pub listed: usize,
+    /// When its own release names nothing in use: its targets in another
+    /// index at hand by a mapping (an ICD-9-CM code's ICD-10-CM targets in
+    /// the GEMs), some of them billable in the period.
+    pub mapped: Option<Mapped>,
 }
 
 /// The facts of a code at `ord` whose last billable day, `last_valid`,
-/// lies before `period`.
+/// lies before `period`; `others` are the indexes at hand.
 pub(crate) fn retired_before(
     view: &View<'_>,
+    others: &[View<'_>],
     period: &Period,
     ctx: &ListContext,
     ord: u32,
@@ -290,13 +297,36 @@ pub(crate) fn retired_before(
                 .is_some_and(|o| ctx.reached.contains(&o))
         })
         .count();
+    let mapped = if replacements.is_empty() {
+        mapped_in_use(view, others, ord, period)
+    } else {
+        None
+    };
     RetiredBefore {
         code: shown.to_string(),
         last_valid,
         period_from: period.from,
         replacements,
         listed,
+        mapped,
     }
+}
+
+/// The code at `ord` mapped into the first index at hand that has a
+/// mapping from `view`'s vocabulary with a target billable in `within`
+/// (ICD-9-CM into ICD-10-CM; never the reverse, whose targets all ended
+/// in 2015, for a period after it).
+pub(crate) fn mapped_in_use(
+    view: &View<'_>,
+    others: &[View<'_>],
+    ord: u32,
+    within: &Period,
+) -> Option<Mapped> {
+    let code = view.code(ord);
+    others
+        .iter()
+        .filter_map(|o| mapped_into(view, &code, o, within))
+        .find(|m| m.in_period > 0)
 }
 
 /// A code billable on part of the period only, as facts;
@@ -331,6 +361,15 @@ pub(crate) enum PartState {
     NotYetValid(Named),
     /// Retired; its data coded as these codes.
     Retired(Named),
+    /// Retired with nothing in its own release to code its data as; the
+    /// mapping `title` (the GEMs) gives these targets in another index at
+    /// hand (whose codes the list's count does not reach).
+    Mapped {
+        /// The mapping's title.
+        title: String,
+        /// Its targets.
+        targets: Named,
+    },
 }
 
 /// Codes a finding names: the first three as a message shows them, how
@@ -360,6 +399,7 @@ impl Named {
 /// billable on some of them only.
 pub(crate) fn partial_period(
     view: &View<'_>,
+    others: &[View<'_>],
     ctx: &ListContext,
     ord: u32,
     shown: &str,
@@ -409,11 +449,29 @@ pub(crate) fn partial_period(
                     &cover,
                     format!("{}: covers {} to {}", successor_source(view), p.from, p.to),
                 );
+                let mapped = (!before && cover.is_empty())
+                    .then(|| mapped_in_use(view, others, ord, &p))
+                    .flatten();
                 let named = Named::of(view, ctx, &cover);
-                if before {
-                    PartState::NotYetValid(named)
-                } else {
-                    PartState::Retired(named)
+                match mapped {
+                    Some(m) => {
+                        for t in &m.targets {
+                            if sugg.len() < NAMED_LIMIT && !sugg.iter().any(|s| s.code == t.code) {
+                                sugg.push(t.clone());
+                            }
+                        }
+                        let codes: Vec<String> = m.targets.iter().map(|t| t.code.clone()).collect();
+                        PartState::Mapped {
+                            title: m.title,
+                            targets: Named {
+                                shown: codes.iter().take(3).cloned().collect(),
+                                count: codes.len(),
+                                listed: 0,
+                            },
+                        }
+                    }
+                    None if before => PartState::NotYetValid(named),
+                    None => PartState::Retired(named),
                 }
             }
         };
@@ -445,7 +503,7 @@ mod tests {
         let ord = view.ordinal(code).unwrap();
         let segs = segments(view, ord, &within_coverage(view, &span(from, to)));
         let ctx = context(view, reached);
-        partial_period(view, &ctx, ord, &view.display(code), &segs)
+        partial_period(view, &[], &ctx, ord, &view.display(code), &segs)
     }
 
     fn named(shown: &[&str], count: usize, listed: usize) -> Named {
@@ -467,7 +525,7 @@ mod tests {
         let period = span("2020-01-01", "2020-12-31");
         let facts = |reached: &[&str]| {
             let ctx = context(&view, reached);
-            retired_before(&view, &period, &ctx, ord, "R00.1", day("2019-09-30"))
+            retired_before(&view, &[], &period, &ctx, ord, "R00.1", day("2019-09-30"))
         };
         let alone = facts(&[]);
         assert_eq!(alone.last_valid, day("2019-09-30"));
@@ -574,6 +632,40 @@ mod tests {
         assert_eq!(
             facts.message(),
             "I48.2 is billable for part of the period only: billable from 2019-01-01 to 2019-09-30; from 2019-10-01 to 2024-12-31 a header over 2 billable codes (I48.20 and I48.21), 1 of them in the list"
+        );
+    }
+
+    /// A code of "old" (ended 2015-09-30, `testing::old`) retired before
+    /// the period, with "tiny" at hand: its targets by the mapping, one of
+    /// them billable in the period; alone, nothing.
+    #[test]
+    fn a_code_of_an_ended_vocabulary_is_offered_its_mapped_targets() {
+        let (old, tiny) = (old(), index(ten()));
+        let view = old.view();
+        let ord = view.ordinal("4280").unwrap();
+        let period = span("2020-01-01", "2020-12-31");
+        let ctx = context(&view, &[]);
+        let last = day("2015-09-30");
+        let facts = retired_before(&view, &[tiny.view()], &period, &ctx, ord, "428.0", last);
+        assert!(facts.replacements.is_empty());
+        let mapped = facts.mapped.expect("mapped into tiny");
+        assert_eq!(
+            (mapped.title.as_str(), mapped.in_period),
+            ("Old to Tiny", 1)
+        );
+        let alone = retired_before(&view, &[], &period, &ctx, ord, "428.0", last);
+        assert_eq!(alone.mapped, None);
+        // Cut by its last day, the part after it is mapped (the whole
+        // period, as for a vocabulary whose last release the index holds:
+        // "old" is no known system, so the check would stop at its coverage).
+        let segs = segments(&view, ord, &span("2015-01-01", "2016-12-31"));
+        let facts = partial_period(&view, &[tiny.view()], &ctx, ord, "428.0", &segs);
+        assert_eq!(
+            facts.parts[1].state,
+            PartState::Mapped {
+                title: "Old to Tiny".into(),
+                targets: named(&["I10", "R00.1"], 2, 0),
+            }
         );
     }
 

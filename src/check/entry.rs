@@ -20,18 +20,13 @@ pub(crate) fn judge(
     let cov = Period::new(view.meta().coverage_from, view.meta().coverage_to);
     // A code of another system at hand (ICD-9-CM beside ICD-10-CM).
     if let Item::Malformed { written, .. } | Item::Unknown { written, .. } = &item {
-        if let Some((system, message, sugg)) = known_elsewhere(view, others, written, period) {
+        if let Some(known) = known_elsewhere(view, others, written, period) {
             e.status = Status::OtherSystem;
-            e.system = Some(system);
+            e.system = Some(known.system.clone());
             if matches!(item, Item::Malformed { .. }) {
                 e.code = Some(written.clone());
             }
-            e.findings.push(Finding::new(
-                Kind::OtherSystem,
-                Severity::Warning,
-                message,
-                sugg,
-            ));
+            e.findings.push(known.finding());
             return;
         }
     }
@@ -62,20 +57,21 @@ pub(crate) fn judge(
                 && !view.is_graph();
             let sugg: Vec<Suggestion> = if other.is_none() && typed && *suggestions_left > 0 {
                 *suggestions_left -= 1;
-                near_suggestions(view, &undotted, e.label.as_deref(), period, memo).suggestions
+                let near = near_suggestions(view, &undotted, e.label.as_deref(), period, memo);
+                offer(view, &near.offered)
             } else {
                 label_candidates(view, e.label.as_deref(), &undotted, period, &[], memo)
                     .into_iter()
-                    .map(|(o, why)| suggestion(view, o, why))
+                    .map(|(o, fit)| suggestion(view, o, fit.reason()))
                     .collect()
             };
             let f = match other {
-                Some((systems, message)) => {
+                Some(shape) => {
                     e.status = Status::OtherSystem;
-                    if let [one] = systems.as_slice() {
+                    if let [one] = shape.systems().as_slice() {
                         e.system = Some(one.name().to_string());
                     }
-                    Finding::new(Kind::OtherSystem, Severity::Warning, message, sugg)
+                    Finding::new(Kind::OtherSystem, Severity::Warning, shape.message(), sugg)
                 }
                 None => {
                     e.status = Status::Malformed;
@@ -133,9 +129,9 @@ pub(crate) fn judge(
                     cov.to
                 )
             };
-            if let Some(extra) = seventh_note(view, &c) {
+            if let Some(seventh) = seventh_note(view, &c) {
                 msg.push_str("; ");
-                msg.push_str(&extra);
+                msg.push_str(&seventh.phrase());
             }
             let mut sugg = Vec::new();
             let key = (c.clone(), e.label.clone());
@@ -146,7 +142,7 @@ pub(crate) fn judge(
             if *suggestions_left > 0 {
                 *suggestions_left -= 1;
                 let near = near_suggestions(view, &c, e.label.as_deref(), period, memo);
-                sugg = with_every_seventh(view, &c, near.suggestions);
+                sugg = offer(view, &with_every_seventh(view, &c, near.offered));
                 if near.label_first {
                     msg.push_str(&format!("; its label fits {} best", sugg[0].code));
                 }
@@ -178,7 +174,10 @@ pub(crate) fn judge(
                 let mut sugg = vec![suggestion(view, ord, "the official form")];
                 let letter_read = changes.iter().any(|c| c.contains(" read as "));
                 if let (true, Some(label)) = (letter_read, e.label.as_deref()) {
-                    sugg.extend(other_readings(view, &written, ord, label, period));
+                    sugg.extend(offer(
+                        view,
+                        &other_readings(view, &written, ord, label, period),
+                    ));
                 }
                 e.findings.push(Finding::new(
                     Kind::Normalized,
@@ -193,12 +192,12 @@ pub(crate) fn judge(
                 e.findings.extend(found.iter().cloned());
             } else {
                 let before = e.findings.len();
-                judge_dates(view, options, period, ctx, ord, &shown, e);
+                judge_dates(view, others, options, period, ctx, ord, &shown, e);
                 memo.dates
                     .insert(ord, (e.status, e.findings[before..].to_vec()));
             }
-            if let Some(f) = also_elsewhere(view, others, &code, &shown) {
-                e.findings.push(f);
+            if let Some(also) = also_elsewhere(view, others, &code, &shown) {
+                e.findings.push(also.finding());
             }
             if let Some(f) = redundant(view, period, ctx, ord, line) {
                 e.findings.push(f);

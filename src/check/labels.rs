@@ -86,18 +86,49 @@ fn names_other(view: &View<'_>, o: u32, reading: &[String]) -> bool {
     !reading.contains(&other) && crate::words::words(&view.description(o)).contains(&other)
 }
 
+/// How well a code suggested for a label fits it, as facts; [`LabelFit::reason`]
+/// writes the words.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct LabelFit {
+    /// The share of the label's words (by rarity) its description has, 0 to 1.
+    pub fit: f32,
+    /// It starts with the same three characters as what the list holds.
+    pub same_category: bool,
+}
+
+impl LabelFit {
+    /// The fit `f` of the code at `o`, suggested for `near`, what the list holds.
+    pub fn of(view: &View<'_>, f: &Fit, near: &str, o: u32) -> LabelFit {
+        let code = view.code(o);
+        LabelFit {
+            fit: f.label,
+            // `near` is what the list holds: its first three bytes may split a character.
+            same_category: near.get(..3).is_some_and(|head| code.starts_with(head)),
+        }
+    }
+
+    /// `its description fits the label (80% of the label's words)`, and
+    /// `, same category` when `category` and it is.
+    pub fn words(&self, category: bool) -> String {
+        let mut r = format!(
+            "its description fits the label ({}% of the label's words)",
+            (self.fit * 100.0).round()
+        );
+        if category && self.same_category {
+            r.push_str(", same category");
+        }
+        r
+    }
+
+    /// Why the code is suggested, in words.
+    pub fn reason(&self) -> String {
+        self.words(true)
+    }
+}
+
 /// Why a code is suggested for a label, in words.
 pub fn reason(view: &View<'_>, f: &Fit, near: &str, o: u32) -> String {
-    let mut r = format!(
-        "its description fits the label ({}% of the label's words)",
-        (f.label * 100.0).round()
-    );
-    let code = view.code(o);
-    // `near` is what the list holds: its first three bytes may split a character.
-    if near.get(..3).is_some_and(|head| code.starts_with(head)) {
-        r.push_str(", same category");
-    }
-    r
+    LabelFit::of(view, f, near, o).reason()
 }
 
 /// What the label check found beside one code, as facts; [`Judgement::finding`]

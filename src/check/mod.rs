@@ -35,6 +35,7 @@ pub(crate) use context::*;
 pub use coverage::*;
 use dates::*;
 use entry::*;
+use list_level::{BeyondCoverage, Duplicate, RollUp, SiblingGap};
 pub use options::*;
 use other_systems::*;
 pub(crate) use phrases::*;

@@ -3,7 +3,10 @@
 //! each rule is tested on one retired or one partial-period code at a time,
 //! without the bundled release.
 
-use crate::model::{Chapter, CodeEntry, Hierarchy, Meta, Period, Release, Section, Successor};
+use crate::model::{
+    Chapter, CodeEntry, Hierarchy, MapFlags, MapRow, Mapping, Meta, Period, Release, Section,
+    Successor,
+};
 use crate::{check, CheckOptions, Date, Index, Report};
 
 /// A day written `YYYY-MM-DD`.
@@ -76,15 +79,57 @@ pub(crate) fn ten() -> Vec<CodeEntry> {
 }
 
 /// An index of `codes` (sorted here), opened and verified.
-pub(crate) fn index(mut codes: Vec<CodeEntry>) -> Index<Vec<u8>> {
+pub(crate) fn index(codes: Vec<CodeEntry>) -> Index<Vec<u8>> {
+    index_of("tiny", "Tiny", always(), codes, Vec::new())
+}
+
+/// A second tiny vocabulary, "old", that ended on 2015-09-30 the day
+/// before the ten codes' coverage starts (the shape of ICD-9-CM beside
+/// ICD-10-CM; invented codes): 428.0 with a mapping into `ten` (to I10,
+/// approximate; to R00.1, retired in `ten` since 2019), and I10, a code of
+/// both written alike.
+pub(crate) fn old() -> Index<Vec<u8>> {
+    let days = span("2010-10-01", "2015-09-30");
+    let row = |target: &str| MapRow {
+        source: "4280".into(),
+        target: target.into(),
+        flags: MapFlags {
+            approximate: true,
+            ..MapFlags::default()
+        },
+    };
+    let mapping = Mapping {
+        name: "old-tiny".into(),
+        title: "Old to Tiny".into(),
+        from: "old".into(),
+        to: "tiny".into(),
+        rows: vec![row("I10"), row("R001")],
+    };
+    let codes = vec![
+        header("428", "Heart failure", &[days]),
+        billable("4280", "Congestive heart failure, unspecified", &[days]),
+        billable("I10", "Invented old code I10", &[days]),
+    ];
+    index_of("old", "Old", days, codes, vec![mapping])
+}
+
+/// An index of `codes` (sorted here) in the vocabulary `name`, covering
+/// `coverage`, opened and verified.
+fn index_of(
+    name: &str,
+    title: &str,
+    coverage: Period,
+    mut codes: Vec<CodeEntry>,
+    mappings: Vec<Mapping>,
+) -> Index<Vec<u8>> {
     codes.sort_by(|a, b| a.code.cmp(&b.code));
     let release = Release {
         meta: Meta {
-            vocabulary: "tiny".into(),
-            title: "Tiny".into(),
+            vocabulary: name.into(),
+            title: title.into(),
             release: "T1".into(),
-            coverage_from: day("2015-10-01"),
-            coverage_to: day("2027-03-31"),
+            coverage_from: coverage.from,
+            coverage_to: coverage.to,
             sources: Vec::new(),
             dot_after: 3,
             dot_rules: Vec::new(),
@@ -103,7 +148,7 @@ pub(crate) fn index(mut codes: Vec<CodeEntry>) -> Index<Vec<u8>> {
             chapter: 0,
         }],
         seventh: Vec::new(),
-        mappings: Vec::new(),
+        mappings,
         hierarchy: Hierarchy::Prefix,
         aliases: Vec::new(),
         notes: Vec::new(),

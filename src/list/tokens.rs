@@ -216,17 +216,20 @@ pub fn names_system(w: &str) -> Option<crate::systems::System> {
 }
 
 /// The system a code's shape alone makes clear among the bundled systems,
-/// for a draft checked as ICD-10-CM: an HPO term, an ICD-10-PCS code (seven
-/// characters starting with a digit, which no ICD-10-CM code does), an
-/// ICD-9-CM number (no ICD-10-CM code starts with a digit).
+/// for a draft checked as ICD-10-CM: an HPO term, or an ICD-10-PCS code
+/// (seven characters starting with a digit, which no ICD-10-CM code does).
+///
+/// An ICD-9-CM number is left to the check: it is a code of another system
+/// in the list's own, named with its GEM targets where the ICD-9-CM index is
+/// at hand, as the same code on a line of a plain list is (checked in
+/// ICD-9-CM's own index it would be only "retired", since that whole system
+/// was).
 pub fn system_by_shape(w: &str) -> Option<crate::systems::System> {
     use crate::systems::System;
     if hpo(w) {
         Some(System::Hpo)
     } else if pcs(&w.to_ascii_uppercase()) && w.as_bytes()[0].is_ascii_digit() {
         Some(System::Icd10pcs)
-    } else if icd9(w) && w.as_bytes()[0].is_ascii_digit() {
-        Some(System::Icd9cm)
     } else {
         None
     }
@@ -320,7 +323,7 @@ mod tests {
         use crate::systems::System;
         assert_eq!(system_by_shape("0DTJ4ZZ"), Some(System::Icd10pcs));
         assert_eq!(system_by_shape("HP:0001250"), Some(System::Hpo));
-        assert_eq!(system_by_shape("250.00"), Some(System::Icd9cm));
+        assert_eq!(system_by_shape("250.00"), None);
         assert_eq!(system_by_shape("E11.9"), None);
         assert_eq!(names_system("(ICD-10-PCS)"), Some(System::Icd10pcs));
         assert_eq!(names_system("Procedures"), None);

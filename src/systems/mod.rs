@@ -65,6 +65,30 @@ pub fn bundled_systems() -> impl Iterator<Item = System> {
     ALL.into_iter().filter(|s| s.bundled())
 }
 
+/// The packed copy of a file served beside the page (`icd10cm.rcx.gz`):
+/// gzip, for a server that sends files as they are. The page's build
+/// (`index-manifest --pack`) writes it and names it in the file's manifest.
+pub fn packed_copy(file: &str) -> String {
+    format!("{file}.gz")
+}
+
+/// The encoding of a packed copy, as its manifest names it.
+pub const PACKED_ENCODING: &str = "gzip";
+
+/// Whether `file`, the packed copy a manifest names in `encoding`, is one
+/// the page fetches and unpacks: gzip, and a plain file name beside the
+/// index (letters, digits, `.`, `_` and `-`, starting with a letter or
+/// digit, ending `.gz`), never a path or another site.
+pub fn packed_copy_ok(file: &str, encoding: &str) -> bool {
+    encoding == PACKED_ENCODING
+        && file.len() > ".gz".len()
+        && file.ends_with(".gz")
+        && file.as_bytes()[0].is_ascii_alphanumeric()
+        && file
+            .bytes()
+            .all(|b| b.is_ascii_alphanumeric() || matches!(b, b'.' | b'_' | b'-'))
+}
+
 impl System {
     /// The name used by `--system` and in JSON.
     pub fn name(self) -> &'static str {
@@ -123,6 +147,12 @@ impl System {
             s if s.bundled() => Some(format!("manifest-{}.json", s.name())),
             _ => None,
         }
+    }
+
+    /// The file of the system's bundled index, in `vocab/` and beside the
+    /// page (`icd10cm.rcx`); none for a system with no bundled index.
+    pub fn index_file(self) -> Option<String> {
+        self.bundled().then(|| format!("{}.rcx", self.name()))
     }
 
     /// The file of the bundled notes of the system (the tabular list's
@@ -293,5 +323,36 @@ mod tests {
         let bundled: Vec<&str> = bundled_systems().map(System::name).collect();
         assert_eq!(bundled, ["icd10cm", "icd10pcs", "icd9cm", "hpo"]);
         assert!(DEFAULT.bundled());
+        // And their files: vocab/icd10cm.rcx and the rest, and the notes.
+        assert_eq!(System::Icd9cm.index_file().as_deref(), Some("icd9cm.rcx"));
+        assert_eq!(System::Loinc.index_file(), None);
+        for s in bundled_systems() {
+            let file = s.index_file().expect("a bundled index");
+            let path = format!("{}/vocab/{file}", env!("CARGO_MANIFEST_DIR"));
+            assert!(std::path::Path::new(&path).is_file(), "{path}");
+        }
+    }
+
+    /// The packed copy the build writes is one the page fetches; a path, a
+    /// name of another site or another encoding is not (common practice:
+    /// a manifest names a file beside it, never where else to fetch from).
+    #[test]
+    fn a_packed_copy_is_a_gzip_file_beside_the_index() {
+        assert_eq!(packed_copy("icd10cm.rcx"), "icd10cm.rcx.gz");
+        for s in bundled_systems() {
+            let packed = packed_copy(&s.index_file().unwrap());
+            assert!(packed_copy_ok(&packed, PACKED_ENCODING), "{packed}");
+        }
+        for (file, encoding) in [
+            ("icd10cm.rcx.gz", "br"),
+            ("icd10cm.rcx", "gzip"),
+            ("../icd10cm.rcx.gz", "gzip"),
+            ("sub/icd10cm.rcx.gz", "gzip"),
+            ("https://elsewhere.example/x.gz", "gzip"),
+            (".gz", "gzip"),
+            ("-x.gz", "gzip"),
+        ] {
+            assert!(!packed_copy_ok(file, encoding), "{file} {encoding}");
+        }
     }
 }

@@ -1,6 +1,7 @@
 //! The core's policy on systems, for the page and the worker: which have a
-//! bundled index and the manifest it is described by, and the companion
-//! kept at hand beside each (`rollcall::systems`).
+//! bundled index and the manifest it is described by, the packed copy of
+//! an index the page may fetch, and the companion kept at hand beside each
+//! (`rollcall::systems`).
 
 use crate::js::{to_js, JsBundledSystems};
 use rollcall::systems::{self, System};
@@ -14,6 +15,15 @@ use wasm_bindgen::JsCast;
 #[wasm_bindgen(js_name = indexManifest)]
 pub fn index_manifest(name: &str) -> Option<String> {
     System::parse(name).and_then(|s| s.index_manifest())
+}
+
+/// The packed copy a manifest names (`packed: {file, encoding}`), when it
+/// is one the page fetches and unpacks: the core's `systems::packed_copy_ok`
+/// (gzip, a plain file name beside the index); else `undefined`, and the
+/// index itself is fetched.
+#[wasm_bindgen(js_name = packedFile)]
+pub fn packed_file(file: &str, encoding: &str) -> Option<String> {
+    systems::packed_copy_ok(file, encoding).then(|| file.to_string())
 }
 
 /// The bundled index kept at hand beside a list of the system `name`

@@ -372,8 +372,9 @@ function notOffered(name, site) {
 }
 
 /**
- * The packed copy of the manifest's index (`NAME.rcx.gz`, written by
- * `index-manifest --pack`), when the source is the manifest's own file and
+ * The packed copy of the manifest's index, as the manifest names it (written
+ * by `index-manifest --pack`, whose name the worker checks with the core's
+ * rule before it unpacks it), when the source is the manifest's own file and
  * the browser can unpack gzip: a server that sends files as they are then
  * sends a fifth of the bytes. Resolves to `{bytes, packed}`, or null when
  * there is no packed copy to use (none named, another file asked for, or the
@@ -381,11 +382,11 @@ function notOffered(name, site) {
  */
 async function packedBytes(source, manifest, onProgress) {
   const packed = manifest && manifest.packed;
-  if (!packed || packed.encoding !== "gzip" || typeof DecompressionStream !== "function") return null;
+  if (!packed || typeof DecompressionStream !== "function") return null;
   if (!(typeof source === "string" || source instanceof URL)) return null;
   const base = globalThis.document ? document.baseURI : globalThis.location.href;
   const url = new URL(source, base);
-  if (nameOf(url) !== manifest.file || !/^[A-Za-z0-9][A-Za-z0-9._-]*\.gz$/.test(String(packed.file))) return null;
+  if (nameOf(url) !== manifest.file) return null;
   let res;
   try {
     res = await fetch(new URL(packed.file, url), { cache: "no-cache" });
@@ -407,7 +408,7 @@ async function openIn(channel, source, options) {
   try {
     info = await channel.ask(
       "load",
-      { bytes: bytes.buffer, manifest, packed: packed ? { file: packed.packed.file, encoding: "gzip" } : null },
+      { bytes: bytes.buffer, manifest, packed: packed ? { file: packed.packed.file, encoding: packed.packed.encoding } : null },
       [bytes.buffer],
     );
   } catch (e) {

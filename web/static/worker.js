@@ -123,12 +123,14 @@ async function gunzip(bytes, name) {
 }
 
 /** The bytes of the index a manifest names: its packed copy where the
- * manifest names one and the server has it, else the file itself. */
+ * manifest names one the core accepts (packedFile) and the server has it,
+ * else the file itself. */
 async function fetchIndexFile(manifest) {
   const packed = manifest.packed;
-  if (CAN_UNPACK && packed && packed.encoding === "gzip" && /^[A-Za-z0-9][A-Za-z0-9._-]*\.gz$/.test(String(packed.file))) {
-    const res = await fetch(`./${packed.file}`);
-    if (res.ok) return gunzip(new Uint8Array(await res.arrayBuffer()), packed.file);
+  const file = CAN_UNPACK && packed ? wasm_bindgen.packedFile(String(packed.file), String(packed.encoding)) : undefined;
+  if (file) {
+    const res = await fetch(`./${file}`);
+    if (res.ok) return gunzip(new Uint8Array(await res.arrayBuffer()), file);
   }
   return new Uint8Array(await (await fetch(`./${manifest.file}`)).arrayBuffer());
 }
@@ -470,6 +472,10 @@ self.onmessage = async (event) => {
         result = true;
         break;
       case "load":
+        // The page fetched the copy its manifest names; the core says whether it is one.
+        if (msg.packed && !wasm_bindgen.packedFile(String(msg.packed.file), String(msg.packed.encoding))) {
+          throw new Error(`the manifest names a packed copy “${msg.packed.file}” that is not a gzip file beside the index; write the manifest again with index-manifest --pack`);
+        }
         result = await load(unpacked ? await unpacked : msg.bytes, msg.manifest);
         break;
       case "check":

@@ -522,3 +522,16 @@ fn a_check_in_pages_stops_when_asked() {
         .unwrap();
     assert_eq!((r, calls.get()), (None, 1));
 }
+
+/// The packed copy the worker fetches is the one the build names
+/// (`index-manifest --pack`: `icd10cm.rcx.gz`, gzip), never a path or
+/// another encoding (common practice: a manifest names a file beside it).
+#[wasm_bindgen_test]
+fn the_packed_copy_a_manifest_names_is_checked_by_the_core() {
+    assert_eq!(
+        rollcall_web::packed_file("icd10cm.rcx.gz", "gzip").as_deref(),
+        Some("icd10cm.rcx.gz")
+    );
+    assert_eq!(rollcall_web::packed_file("../icd10cm.rcx.gz", "gzip"), None);
+    assert_eq!(rollcall_web::packed_file("icd10cm.rcx.gz", "br"), None);
+}

@@ -101,24 +101,27 @@ pub(crate) enum Target {
     Shapes(System),
 }
 
-pub(crate) type Opened = std::sync::OnceLock<Result<Index<&'static [u8]>, String>>;
+type Opened = std::sync::OnceLock<Result<Index<&'static [u8]>, String>>;
 
-/// A bundled index, opened once into `cell`.
-pub(crate) fn opened(
-    cell: &'static Opened,
-    system: System,
-) -> Result<&'static Index<&'static [u8]>, String> {
-    cell.get_or_init(|| {
-        bundled(system).unwrap_or_else(|| Err(format!("{} is not bundled", system.name())))
-    })
-    .as_ref()
-    .map_err(|e| e.clone())
+/// The bundled index of `system`, opened once (each kept for the run).
+pub(crate) fn opened(system: System) -> Result<&'static Index<&'static [u8]>, String> {
+    static ONCE: [Opened; BUNDLED_INDEXES.len()] =
+        [const { std::sync::OnceLock::new() }; BUNDLED_INDEXES.len()];
+    let at = BUNDLED_INDEXES
+        .iter()
+        .position(|(s, _, _)| *s == system)
+        .ok_or_else(|| format!("{} is not bundled", system.name()))?;
+    ONCE[at]
+        .get_or_init(|| {
+            bundled(system).unwrap_or_else(|| Err(format!("{} is not bundled", system.name())))
+        })
+        .as_ref()
+        .map_err(|e| e.clone())
 }
 
 /// The bundled ICD-9-CM index, opened once.
 pub(crate) fn icd9() -> Result<&'static Index<&'static [u8]>, String> {
-    static ONCE: Opened = std::sync::OnceLock::new();
-    opened(&ONCE, System::Icd9cm)
+    opened(System::Icd9cm)
 }
 
 /// The bundled indexes a check of `text` needs beside its own vocabulary
@@ -155,22 +158,16 @@ pub(crate) fn check_draft(
     Ok(check_listed_draft(primary, &refs, draft, opts).0)
 }
 
-/// Other indexes at hand for a check: ICD-9-CM (with the GEMs) beside an
-/// ICD-10-CM list, so old codes in a new list are named with their targets.
+/// Other indexes at hand for a check: the companion of the index's
+/// system (`System::companion`: ICD-9-CM, with the GEMs, beside an
+/// ICD-10-CM list, so old codes in a new list are named with their
+/// targets, and ICD-10-CM beside ICD-9-CM for the backward GEMs).
 pub(crate) fn companions<D: AsRef<[u8]>>(i: &Index<D>) -> Result<Vec<View<'static>>, String> {
-    Ok(match i.meta().vocabulary.as_str() {
-        "icd10cm" => vec![icd9()?.view()],
-        // And the other way: an ICD-10-CM code in an ICD-9-CM list is named
-        // with its backward GEM targets.
-        "icd9cm" => vec![icd10cm()?.view()],
-        _ => Vec::new(),
-    })
-}
-
-/// The bundled ICD-10-CM index, opened once.
-pub(crate) fn icd10cm() -> Result<&'static Index<&'static [u8]>, String> {
-    static ONCE: Opened = std::sync::OnceLock::new();
-    opened(&ONCE, System::Icd10cm)
+    System::parse(&i.meta().vocabulary)
+        .and_then(System::companion)
+        .map(|s| opened(s).map(|c| c.view()))
+        .into_iter()
+        .collect()
 }
 
 /// The day checked when none is given: the index's own default (inside its
