@@ -939,3 +939,26 @@ fn a_report_read_only_in_part_still_ends_with_the_exit_status_of_its_findings() 
         assert!(err(&o).is_empty(), "{format}: {}", err(&o));
     }
 }
+
+/// The ICD-9-CM index ends on 2015-09-30 (its last release, FY2015): with
+/// no day given the list is checked on that day, and the CLI says so; with
+/// a study period given there is nothing to say.
+#[test]
+fn the_day_moved_into_the_coverage_is_told_only_when_no_day_is_given() {
+    let none = rollcall(&["check", "-", "--system", "icd9cm"], Some("428.0\n"));
+    assert!(err(&none).contains("no date given"), "{}", err(&none));
+    let period = rollcall(
+        &[
+            "check",
+            "-",
+            "--system",
+            "icd9cm",
+            "--from",
+            "2019-10-01",
+            "--to",
+            "2024-09-30",
+        ],
+        Some("428.0\n"),
+    );
+    assert!(!err(&period).contains("no date given"), "{}", err(&period));
+}

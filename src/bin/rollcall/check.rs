@@ -8,7 +8,7 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
         return Err("--valueset-url goes with --format fhir".into());
     }
     let target = target(a)?;
-    let opts = options(a, default_day(&target)).map_err(|Usage(m)| m)?;
+    let opts = options(a, default_day(&target, a)).map_err(|Usage(m)| m)?;
     let file = match a.files.as_slice() {
         [one] => one.as_str(),
         [] => return Err("check needs a list: a FILE, or - for standard input".into()),

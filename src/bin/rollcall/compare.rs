@@ -4,7 +4,7 @@ use super::*;
 
 pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
     let target = target(a)?;
-    let opts = options(a, default_day(&target)).map_err(|Usage(m)| m)?;
+    let opts = options(a, default_day(&target, a)).map_err(|Usage(m)| m)?;
     let [fa, fb] = a.files.as_slice() else {
         return Err(format!(
             "compare needs two lists, A and B (got {}); - reads one of them from standard input",

@@ -172,12 +172,14 @@ pub(crate) fn companions<D: AsRef<[u8]>>(i: &Index<D>) -> Result<Vec<View<'stati
 
 /// The day checked when none is given: the index's own default (inside its
 /// coverage), or today for a check by shape.
-pub(crate) fn default_day(target: &Target) -> Date {
+pub(crate) fn default_day(target: &Target, a: &Args) -> Date {
+    // Said only when it is the day checked: no day or period was given.
+    let none_given = a.on.is_none() && a.from.is_none() && a.to.is_none();
     match target {
         Target::Index(l) => {
             let meta = l.index().meta();
             let day = meta.default_day(today());
-            if meta.default_day_moved(today()) && !meta.snapshot() {
+            if none_given && meta.default_day_moved(today()) && !meta.snapshot() {
                 eprintln!(
                     "rollcall: no date given; the {} index covers {} to {}, so the list is checked on {day}",
                     meta.title, meta.coverage_from, meta.coverage_to

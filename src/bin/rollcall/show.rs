@@ -7,7 +7,7 @@ pub(crate) fn run(a: &Args, format: &str) -> Result<ExitCode, String> {
         return Err("show needs one or more codes, e.g. rollcall show E11.6".into());
     }
     let target = target(a)?;
-    let opts = options(a, default_day(&target)).map_err(|Usage(m)| m)?;
+    let opts = options(a, default_day(&target, a)).map_err(|Usage(m)| m)?;
     let codes: Vec<&str> = a.files.iter().map(String::as_str).collect();
     let cards = match target {
         Target::Index(mut l) => {
