@@ -137,6 +137,15 @@ impl System {
         }
     }
 
+    /// Whether the companion's codes are offered for this system's retired
+    /// codes (through the GEMs), so that the companion is wanted beside a
+    /// list with retired codes: a frozen system's codes were replaced by the
+    /// companion's (ICD-9-CM by ICD-10-CM); ICD-10-CM codes are never
+    /// offered ICD-9-CM ones.
+    pub fn companion_replaces(self) -> bool {
+        self.frozen() && self.companion().is_some()
+    }
+
     /// The name of the manifest beside the page that describes the system's
     /// bundled index (release, coverage, size, SHA-256): `index-manifest.json`
     /// for the page's default, ICD-10-CM, `manifest-NAME.json` for the

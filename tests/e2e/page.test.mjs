@@ -622,6 +622,35 @@ test("another code system's index is fetched when picked, and checks as the CLI 
   await page.close();
 });
 
+// The GEMs (icd9cm-to-icd10cm-gem-2015.csv, line 5848: "4280","I509"):
+// retired ICD-9-CM codes are offered their ICD-10-CM targets, as on the
+// command line, where the ICD-10-CM index is always at hand; the page
+// fetches it for them.
+test("an ICD-9-CM list with retired codes gets their GEM targets, the ICD-10-CM index fetched for them", async () => {
+  const list = path.join(OUT, "icd9-list.txt");
+  fs.writeFileSync(list, "428.0\n250.00\n");
+  const period = { from: "2019-10-01", to: "2024-09-30" };
+  const want = cli(list, ["--system", "icd9cm", "--from", period.from, "--to", period.to]);
+  const suggested = (report) =>
+    report.entries.flatMap((e) => e.findings.map((f) => `${e.line} ${f.kind}: ${(f.suggestions || []).map((x) => x.code).join(" ")}`)).sort();
+  assert.ok(suggested(want).some((x) => /^1 retired: .*I50\.9/.test(x)), JSON.stringify(suggested(want)));
+  const page = await openPage();
+  await waitReady(page);
+  await setOptions(page, period);
+  await page.fill("#list", fs.readFileSync(list, "utf8"));
+  await page.selectOption("#opt-system", "icd9cm");
+  await page.waitForFunction(() => document.body.dataset.state === "ready" && /ICD-9-CM/.test(document.querySelector("#index-ready").textContent), null, { timeout: 30_000 });
+  await checkNow(page);
+  assert.deepEqual(await pageFindingKeys(page), findingKeys(want));
+  const shown = await page.$$eval("#findings tbody tr[data-row]", (rows) =>
+    rows.map((r) => `${r.dataset.line} ${r.dataset.kind}: ${[...r.querySelectorAll("button.suggestion code")].map((c) => c.textContent).join(" ")}`),
+  );
+  assert.deepEqual(shown.sort(), suggested(want));
+  assert.match(await page.$eval("#systems-line", (p) => p.dataset.loaded || ""), /icd10cm/);
+  assert.deepEqual(page.errors, []);
+  await page.close();
+});
+
 test("a list with a system column is checked per system as the CLI does, the PCS index fetched only then", async () => {
   // demo-data/mixed-list.tsv: ICD-10-CM, ICD-10-PCS (02703ZZ and 02100Z9, in
   // the FY2024 PCS code file), ICD-9-CM (250.00, CMS32_DESC_LONG_DX.txt),

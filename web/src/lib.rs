@@ -41,4 +41,4 @@ pub use js::{
 pub use manifest::{
     describe_index, describe_notes, sha256_hex_of, IndexInfo, NotesInfo, SourceInfo,
 };
-pub use systems::{bundled_systems, companion_of, index_manifest, packed_file};
+pub use systems::{bundled_systems, companion_of, companion_replaces, index_manifest, packed_file};

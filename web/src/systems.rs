@@ -36,6 +36,14 @@ pub fn companion_of(name: &str) -> Option<String> {
         .map(|s| s.name().to_string())
 }
 
+/// Whether a list of this system with retired or partly valid codes wants
+/// its companion, whose codes replace them (ICD-10-CM beside ICD-9-CM): the
+/// core's `System::companion_replaces`.
+#[wasm_bindgen(js_name = companionReplaces)]
+pub fn companion_replaces(name: &str) -> bool {
+    System::parse(name).is_some_and(|s| s.companion_replaces())
+}
+
 /// One system with a bundled index, as [`bundled_systems`] lists it.
 #[derive(Serialize)]
 struct Bundled {

@@ -353,12 +353,18 @@ function needed(report) {
   return [...wanted].filter((name) => !companions.has(name));
 }
 
-/** The companion (ICD-9-CM beside ICD-10-CM) once the entries hold its codes, unless it is loaded. */
+/**
+ * The companion once the entries need it, unless it is loaded: ICD-9-CM
+ * beside ICD-10-CM once they hold its codes; ICD-10-CM beside ICD-9-CM also
+ * once they hold retired or partly valid codes, which its codes replace.
+ */
 function companionNeeded(vocabulary, entries) {
   const other = wasm_bindgen.companionOf(vocabulary);
-  return other && !companions.has(other) && entries.some((e) => e.status === "other-system" && e.system === other)
-    ? [other]
-    : [];
+  if (!other || companions.has(other)) return [];
+  const replaces = wasm_bindgen.companionReplaces(vocabulary);
+  const wants = (e) =>
+    (e.status === "other-system" && e.system === other) || (replaces && (e.status === "retired" || e.status === "partial"));
+  return entries.some(wants) ? [other] : [];
 }
 
 // Entries per page of a paged check: the first page small, so the table
