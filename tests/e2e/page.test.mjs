@@ -646,7 +646,16 @@ test("an ICD-9-CM list with retired codes gets their GEM targets, the ICD-10-CM 
     rows.map((r) => `${r.dataset.line} ${r.dataset.kind}: ${[...r.querySelectorAll("button.suggestion code")].map((c) => c.textContent).join(" ")}`),
   );
   assert.deepEqual(shown.sort(), suggested(want));
-  assert.match(await page.$eval("#systems-line", (p) => p.dataset.loaded || ""), /icd10cm/);
+  // Away to ICD-10-CM and back: the new ICD-9-CM checker gets its companion again.
+  for (const [system, title] of [["icd10cm", /ICD-10-CM/], ["icd9cm", /ICD-9-CM/]]) {
+    await page.selectOption("#opt-system", system);
+    await page.waitForFunction((t) => document.body.dataset.state === "ready" && new RegExp(t).test(document.querySelector("#index-ready").textContent), title.source, { timeout: 30_000 });
+  }
+  await checkNow(page);
+  const again = await page.$$eval("#findings tbody tr[data-row]", (rows) =>
+    rows.map((r) => `${r.dataset.line} ${r.dataset.kind}: ${[...r.querySelectorAll("button.suggestion code")].map((c) => c.textContent).join(" ")}`),
+  );
+  assert.deepEqual(again.sort(), suggested(want));
   assert.deepEqual(page.errors, []);
   await page.close();
 });

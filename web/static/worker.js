@@ -235,6 +235,8 @@ async function load(bytes, manifest) {
     }
   }
   checker = c;
+  // The new checker has none of the old one's companions.
+  companions.clear();
   info.default_day = c.defaultDay();
   return info;
 }
@@ -395,6 +397,10 @@ function checkInPages(id, text, options) {
 async function check(id, text, options, system, bytes) {
   if (!checker) throw new Error("the index is not loaded");
   const t0 = performance.now();
+  // A companion an earlier check started to fetch is waited for, so that
+  // this check has it as that one will (a check does not wait for a fetch
+  // it did not start otherwise: it sees the companion as asked for).
+  await Promise.all(companions.values());
   if (!bytes && !system) return checkPasted(id, text, options, t0);
   // A dropped file's bytes are read as the command line reads them: a
   // workbook's cells by the workbook module, then its sheets by the checker.

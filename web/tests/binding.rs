@@ -535,3 +535,22 @@ fn the_packed_copy_a_manifest_names_is_checked_by_the_core() {
     assert_eq!(rollcall_web::packed_file("../icd10cm.rcx.gz", "gzip"), None);
     assert_eq!(rollcall_web::packed_file("icd10cm.rcx.gz", "br"), None);
 }
+
+/// A retired ICD-9-CM code is offered its ICD-10-CM targets once the
+/// ICD-10-CM index is at hand (icd9cm-to-icd10cm-gem-2015.csv, line 5848:
+/// "4280","I509"), in a whole check and in pages alike.
+#[wasm_bindgen_test]
+fn a_retired_icd9cm_code_gets_its_gem_targets_with_icd10cm_at_hand() {
+    let mut c = Checker::new(include_bytes!("../../vocab/icd9cm.rcx").to_vec()).unwrap();
+    assert!(rollcall_web::companion_replaces("icd9cm"));
+    assert!(!rollcall_web::companion_replaces("icd10cm"));
+    c.add_companion(INDEX.to_vec()).unwrap();
+    let opts = r#"{"from":"2019-10-01","to":"2024-09-30"}"#;
+    let v: serde_json::Value =
+        serde_json::from_str(&c.check_json("428.0\n", options(opts)).unwrap()).unwrap();
+    assert_eq!(v["entries"][0]["status"], "retired");
+    assert_eq!(
+        v["entries"][0]["findings"][0]["suggestions"][0]["code"],
+        "I50.9"
+    );
+}
