@@ -49,43 +49,53 @@ pub const ABBREVIATIONS: &[(&str, &str)] = &[
 /// ```
 pub fn words(text: &str) -> Vec<String> {
     let mut out = Vec::new();
-    let folded = fold(text);
-    let spaced = slashed(&folded);
-    for raw in spaced.split(|c: char| !c.is_ascii_alphanumeric()) {
-        if raw.is_empty() || STOP_WORDS.contains(&raw) {
+    // Folded text is ASCII and lower case; ASCII text is lowered as it is read.
+    let folded = if text.is_ascii() {
+        std::borrow::Cow::Borrowed(text)
+    } else {
+        std::borrow::Cow::Owned(fold(text))
+    };
+    let b = folded.as_bytes();
+    let lower = |k: usize| b.get(k).map(u8::to_ascii_lowercase);
+    let mut raw = String::new();
+    let mut i = 0;
+    while i < b.len() {
+        if !b[i].is_ascii_alphanumeric() {
+            i += 1;
             continue;
         }
-        match ABBREVIATIONS.binary_search_by(|(a, _)| (*a).cmp(raw)) {
-            Ok(i) => out.extend(ABBREVIATIONS[i].1.split(' ').map(stem)),
-            Err(_) => out.push(stem(raw)),
+        // `w/o` and `w/` at the start of a word are spelt out, before the
+        // slash is taken as a separator.
+        let start = i == 0 || !b[i - 1].is_ascii_alphanumeric();
+        if start && lower(i) == Some(b'w') && b.get(i + 1) == Some(&b'/') {
+            let without = lower(i + 2) == Some(b'o')
+                && b.get(i + 3).is_none_or(|c| !c.is_ascii_alphanumeric());
+            push_word(&mut out, if without { "without" } else { "with" });
+            i += if without { 3 } else { 2 };
+            continue;
         }
+        let end = b[i..]
+            .iter()
+            .position(|c| !c.is_ascii_alphanumeric())
+            .map_or(b.len(), |n| i + n);
+        raw.clear();
+        raw.extend(b[i..end].iter().map(|c| c.to_ascii_lowercase() as char));
+        push_word(&mut out, &raw);
+        i = end;
     }
     out
 }
 
-/// `w/o` and `w/` at the start of a word spelt out, before the slash is
-/// taken as a separator.
-fn slashed(text: &str) -> String {
-    let b = text.as_bytes();
-    let mut s = String::with_capacity(text.len() + 8);
-    let mut i = 0;
-    while i < b.len() {
-        let start = i == 0 || !b[i - 1].is_ascii_alphanumeric();
-        if start
-            && b[i..].starts_with(b"w/o")
-            && b.get(i + 3).is_none_or(|c| !c.is_ascii_alphanumeric())
-        {
-            s.push_str(" without ");
-            i += 3;
-        } else if start && b[i..].starts_with(b"w/") {
-            s.push_str(" with ");
-            i += 2;
-        } else {
-            s.push(b[i] as char);
-            i += 1;
-        }
+/// One word as split (lower case, ASCII): left out when a stop word,
+/// expanded when an abbreviation, else its plural `s` taken off.
+fn push_word(out: &mut Vec<String>, raw: &str) {
+    if STOP_WORDS.contains(&raw) {
+        return;
     }
-    s
+    match ABBREVIATIONS.binary_search_by(|(a, _)| (*a).cmp(raw)) {
+        Ok(i) => out.extend(ABBREVIATIONS[i].1.split(' ').map(stem)),
+        Err(_) => out.push(stem(raw)),
+    }
 }
 
 /// The distinct words of `text`, sorted.
@@ -162,5 +172,61 @@ mod tests {
         );
         assert_eq!(words("Abscess; diabetes"), ["abscess", "diabete"]);
         assert_eq!(words("DM w/o"), ["diabete", "mellitus", "without"]);
+    }
+
+    /// The words as first written (fold, spell out `w/` and `w/o`, then
+    /// split), the oracle for the one-pass reading: on every text of up to
+    /// five characters over a small alphabet, and on both synonym tables.
+    #[test]
+    fn one_pass_reads_as_the_plain_rule() {
+        fn slashed(text: &str) -> String {
+            let b = text.as_bytes();
+            let mut s = String::new();
+            let mut i = 0;
+            while i < b.len() {
+                let start = i == 0 || !b[i - 1].is_ascii_alphanumeric();
+                if start
+                    && b[i..].starts_with(b"w/o")
+                    && b.get(i + 3).is_none_or(|c| !c.is_ascii_alphanumeric())
+                {
+                    s.push_str(" without ");
+                    i += 3;
+                } else if start && b[i..].starts_with(b"w/") {
+                    s.push_str(" with ");
+                    i += 2;
+                } else {
+                    s.push(b[i] as char);
+                    i += 1;
+                }
+            }
+            s
+        }
+        fn plain(text: &str) -> Vec<String> {
+            let mut out = Vec::new();
+            for raw in slashed(&fold(text)).split(|c: char| !c.is_ascii_alphanumeric()) {
+                if !raw.is_empty() {
+                    push_word(&mut out, raw);
+                }
+            }
+            out
+        }
+        let alphabet = ["w", "W", "/", "o", "O", "s", " ", "é", "1", "dm"];
+        for len in 0..=5u32 {
+            for n in 0..alphabet.len().pow(len) {
+                let mut text = String::new();
+                let mut k = n;
+                for _ in 0..len {
+                    text.push_str(alphabet[k % alphabet.len()]);
+                    k /= alphabet.len();
+                }
+                assert_eq!(words(&text), plain(&text), "{text:?}");
+            }
+        }
+        for line in crate::synonyms::CLINICAL
+            .lines()
+            .chain(crate::synonyms::HPO.lines())
+        {
+            assert_eq!(words(line), plain(line), "{line:?}");
+        }
     }
 }

@@ -333,13 +333,12 @@ pub fn lines_of(text: &str) -> impl Iterator<Item = &str> {
 /// bytes ([`read_bytes`]); given text, it reads the text as a table.
 pub fn read(text: &str, reading: Reading) -> Draft {
     match choose(text, reading) {
-        Choice::Laid(laid) => Draft::finish(
-            table::read_laid_out(text, laid.detected),
-            laid.reading,
-            laid.form,
-            laid.forced,
-            laid.count,
-        ),
+        Choice::Laid(laid) => {
+            // One line read for each line of the text.
+            let lines = table::read_laid_out(text, laid.detected);
+            let count = lines.len();
+            Draft::finish(lines, laid.reading, laid.form, laid.forced, count)
+        }
         Choice::Read(draft) => draft,
     }
 }
@@ -350,7 +349,6 @@ struct Laid {
     reading: Reading,
     form: &'static str,
     forced: bool,
-    count: usize,
 }
 
 /// How [`read`] reads a text: laid out (line by line), or read whole.
@@ -360,14 +358,12 @@ enum Choice {
 }
 
 fn choose(text: &str, reading: Reading) -> Choice {
-    let count = lines_of(text).count();
     let laid = |detected: Detected, reading, form, forced| {
         Choice::Laid(Laid {
             detected,
             reading,
             form,
             forced,
-            count,
         })
     };
     match reading {
@@ -472,10 +468,11 @@ impl Listing {
     pub fn of(text: String, reading: Reading) -> Listing {
         Listing(match choose(&text, reading) {
             Choice::Laid(laid) => {
-                let lines = table::laid_out(&text, laid.detected)
-                    .map(|l| (l.number, matches!(l.kind, LineKind::Entry { .. })));
-                let facts =
-                    ReadFacts::counted(lines, laid.reading, laid.form, laid.forced, laid.count);
+                // Lines are numbered from 1 without a gap: the last number is their count.
+                let mut count = 0;
+                let lines = table::entry_lines(&text, laid.detected).inspect(|&(n, _)| count = n);
+                let mut facts = ReadFacts::counted(lines, laid.reading, laid.form, laid.forced, 0);
+                facts.lines = count;
                 Kept::Laid {
                     text,
                     detected: laid.detected,

@@ -3,6 +3,7 @@
 //! comes back, so the report can account for each one.
 
 use super::{lines_of, InputLine, LineKind};
+use std::borrow::Cow;
 
 /// How the list was laid out.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -119,68 +120,135 @@ pub(crate) fn heading_word(cell: &str) -> Option<String> {
 /// Splits one CSV line (RFC 4180 quoting, on one line). `Err` for an
 /// unterminated quote.
 pub fn split_csv(line: &str) -> Result<Vec<String>, String> {
-    if !line.as_bytes().contains(&b'"') {
-        return Ok(line.split(',').map(str::to_string).collect());
-    }
-    let mut out = Vec::new();
-    let mut rest = line;
-    loop {
-        let lead = rest.len() - rest.trim_start().len();
-        if rest[lead..].starts_with('"') {
-            // A quoted cell: up to the closing quote, "" standing for one quote.
-            let body = &rest[lead + 1..];
-            let mut cell = String::new();
-            let mut i = 0;
-            loop {
-                let Some(q) = body[i..].find('"') else {
-                    return Err(
-                        "a quoted cell is not closed; add the closing \" or remove the opening one"
-                            .into(),
-                    );
-                };
-                cell.push_str(&body[i..i + q]);
-                i += q + 1;
-                if body[i..].starts_with('"') {
-                    cell.push('"');
-                    i += 1;
-                } else {
-                    break;
-                }
-            }
-            let after = &body[i..];
-            match after.find(',') {
-                Some(c) => {
-                    cell.push_str(after[..c].trim());
-                    out.push(cell);
-                    rest = &after[c + 1..];
-                }
-                None => {
-                    cell.push_str(after.trim());
-                    out.push(cell);
-                    return Ok(out);
-                }
-            }
-        } else {
-            match rest.find(',') {
-                Some(c) => {
-                    out.push(rest[..c].to_string());
-                    rest = &rest[c + 1..];
-                }
-                None => {
-                    out.push(rest.to_string());
-                    return Ok(out);
-                }
-            }
-        }
+    csv_cells(line).map(|c| c.map(Cow::into_owned)).collect()
+}
+
+/// The cells of one CSV line, as [`split_csv`] reads them, each borrowed
+/// from the line unless unquoting changed it; an `Err` (an unterminated
+/// quote) ends them.
+fn csv_cells(line: &str) -> CsvCells<'_> {
+    CsvCells {
+        rest: Some(line),
+        quotes: line.as_bytes().contains(&b'"'),
     }
 }
 
-fn split(layout: Layout, line: &str) -> Result<Vec<String>, String> {
-    match layout {
-        Layout::Tsv(..) => Ok(line.split('\t').map(str::to_string).collect()),
-        Layout::Csv(..) => split_csv(line),
-        Layout::Plain => Ok(vec![line.to_string()]),
+struct CsvCells<'t> {
+    /// What is left of the line; `None` once its last cell is read.
+    rest: Option<&'t str>,
+    /// Whether the line has a quote at all (else it splits at every comma).
+    quotes: bool,
+}
+
+impl<'t> Iterator for CsvCells<'t> {
+    type Item = Result<Cow<'t, str>, String>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        let rest = self.rest?;
+        if self.quotes {
+            let lead = rest.len() - rest.trim_start().len();
+            if rest[lead..].starts_with('"') {
+                return Some(match quoted(&rest[lead + 1..]) {
+                    Ok((cell, after)) => {
+                        self.rest = after;
+                        Ok(cell)
+                    }
+                    Err(e) => {
+                        self.rest = None;
+                        Err(e)
+                    }
+                });
+            }
+        }
+        // Cells are short: a plain loop finds the comma sooner than a
+        // vectorised search would start.
+        Some(Ok(Cow::Borrowed(
+            match rest.bytes().position(|b| b == b',') {
+                Some(c) => {
+                    self.rest = Some(&rest[c + 1..]);
+                    &rest[..c]
+                }
+                None => {
+                    self.rest = None;
+                    rest
+                }
+            },
+        )))
     }
+}
+
+/// A quoted cell, `body` starting after its opening quote: up to the
+/// closing quote, `""` standing for one quote, then what follows the quote
+/// up to the next comma (trimmed); and the rest of the line after that
+/// comma, if there is one.
+fn quoted(body: &str) -> Result<(Cow<'_, str>, Option<&str>), String> {
+    let unclosed =
+        || "a quoted cell is not closed; add the closing \" or remove the opening one".to_string();
+    let q = body.find('"').ok_or_else(unclosed)?;
+    let mut cell = Cow::Borrowed(&body[..q]);
+    let mut i = q + 1;
+    if body[i..].starts_with('"') {
+        // A doubled quote: the cell is written out.
+        let mut s = String::new();
+        i = 0;
+        loop {
+            let q = body[i..].find('"').ok_or_else(unclosed)?;
+            s.push_str(&body[i..i + q]);
+            i += q + 1;
+            if body[i..].starts_with('"') {
+                s.push('"');
+                i += 1;
+            } else {
+                break;
+            }
+        }
+        cell = Cow::Owned(s);
+    }
+    let after = &body[i..];
+    let (tail, rest) = match after.find(',') {
+        Some(c) => (after[..c].trim(), Some(&after[c + 1..])),
+        None => (after.trim(), None),
+    };
+    if !tail.is_empty() {
+        cell.to_mut().push_str(tail);
+    }
+    Ok((cell, rest))
+}
+
+/// The code, label and system cells of one row (the columns `want` names),
+/// trimmed, borrowed from the line where they can be. The whole row is
+/// read, so a bad quote in any cell makes it unreadable.
+fn cells<'t>(
+    layout: Layout,
+    line: &'t str,
+    want: [Option<usize>; 3],
+) -> Result<[Option<Cow<'t, str>>; 3], String> {
+    let mut got: [Option<Cow<'t, str>>; 3] = [None, None, None];
+    let mut take = |i: usize, cell: Cow<'t, str>| {
+        for (g, w) in got.iter_mut().zip(want) {
+            if w == Some(i) {
+                *g = Some(match cell {
+                    Cow::Borrowed(c) => Cow::Borrowed(c.trim()),
+                    Cow::Owned(ref c) => Cow::Owned(c.trim().to_string()),
+                });
+            }
+        }
+    };
+    match layout {
+        Layout::Tsv(..) => {
+            let last = want.iter().flatten().max().copied().unwrap_or(0);
+            for (i, cell) in line.split('\t').enumerate().take(last + 1) {
+                take(i, Cow::Borrowed(cell));
+            }
+        }
+        Layout::Csv(..) => {
+            for (i, cell) in csv_cells(line).enumerate() {
+                take(i, cell?);
+            }
+        }
+        Layout::Plain => take(0, Cow::Borrowed(line)),
+    }
+    Ok(got)
 }
 
 /// Decides the layout from the first lines that hold data.
@@ -363,6 +431,54 @@ pub fn read_laid_out(text: &str, detected: Detected) -> Vec<InputLine> {
 
 /// The lines of [`read_laid_out`], each read when it is asked for.
 pub fn laid_out(text: &str, detected: Detected) -> impl Iterator<Item = InputLine> + '_ {
+    rows(text, detected).map(|(number, line, row)| InputLine::new(number, line, row.into_kind()))
+}
+
+/// Each line of [`laid_out`] by its number, and whether it holds a code,
+/// without the line being written out.
+pub(crate) fn entry_lines(
+    text: &str,
+    detected: Detected,
+) -> impl Iterator<Item = (usize, bool)> + '_ {
+    rows(text, detected).map(|(number, _, row)| (number, row.is_entry()))
+}
+
+/// A line of a laid-out list as read, its cells borrowed from the text.
+enum Row<'t> {
+    /// What the line is, read whole (a plain line; no code in a table's row).
+    Kind(LineKind),
+    /// A table's row with a code: the code, label and system cells, trimmed
+    /// (label and system not empty).
+    Cells {
+        code: Cow<'t, str>,
+        label: Option<Cow<'t, str>>,
+        system: Option<Cow<'t, str>>,
+    },
+}
+
+impl Row<'_> {
+    fn is_entry(&self) -> bool {
+        matches!(self, Row::Cells { .. } | Row::Kind(LineKind::Entry { .. }))
+    }
+
+    fn into_kind(self) -> LineKind {
+        match self {
+            Row::Kind(k) => k,
+            Row::Cells {
+                code,
+                label,
+                system,
+            } => LineKind::Entry {
+                code: code.into_owned(),
+                label: label.map(Cow::into_owned),
+                system: system.map(Cow::into_owned),
+            },
+        }
+    }
+}
+
+/// Every line of `text` (numbered from 1, as written) and what it holds.
+fn rows(text: &str, detected: Detected) -> impl Iterator<Item = (usize, &str, Row<'_>)> + '_ {
     let Detected {
         layout,
         headings,
@@ -370,47 +486,36 @@ pub fn laid_out(text: &str, detected: Detected) -> impl Iterator<Item = InputLin
     } = detected;
     let mut seen_data = false;
     lines_of(text).enumerate().map(move |(i, line)| {
-        let kind = if let Some(k) = is_skip(line) {
-            k
+        let row = if let Some(k) = is_skip(line) {
+            Row::Kind(k)
         } else {
             let first_data = !seen_data;
             seen_data = true;
             match layout {
-                Layout::Plain => plain_entry(line),
-                Layout::Csv(c, l) | Layout::Tsv(c, l) => match split(layout, line) {
-                    Err(msg) => LineKind::Unreadable(msg),
-                    Ok(cells) => {
-                        let code = cells
-                            .get(c)
-                            .map(|s| s.trim().to_string())
-                            .unwrap_or_default();
-                        let label = l
-                            .and_then(|l| cells.get(l))
-                            .map(|s| s.trim().to_string())
-                            .filter(|s| !s.is_empty());
-                        let system = system_column
-                            .and_then(|s| cells.get(s))
-                            .map(|s| s.trim().to_string())
-                            .filter(|s| !s.is_empty());
+                Layout::Plain => Row::Kind(plain_entry(line)),
+                Layout::Csv(c, l) | Layout::Tsv(c, l) => match cells(layout, line, [Some(c), l, system_column]) {
+                    Err(msg) => Row::Kind(LineKind::Unreadable(msg)),
+                    Ok([code, label, system]) => {
+                        let code = code.unwrap_or_default();
                         if first_data && headings {
-                            LineKind::Headings
+                            Row::Kind(LineKind::Headings)
                         } else if code.is_empty() {
-                            LineKind::Unreadable(format!(
+                            Row::Kind(LineKind::Unreadable(format!(
                                 "the code column (column {}) is empty on this row; put the code there or delete the row",
                                 c + 1
-                            ))
+                            )))
                         } else {
-                            LineKind::Entry {
+                            Row::Cells {
                                 code,
-                                label,
-                                system,
+                                label: label.filter(|s| !s.is_empty()),
+                                system: system.filter(|s| !s.is_empty()),
                             }
                         }
                     }
                 },
             }
         };
-        InputLine::new(i + 1, line, kind)
+        (i + 1, line, row)
     })
 }
 
@@ -510,6 +615,23 @@ mod tests {
         assert_eq!(lines[0].kind, LineKind::Comment);
         assert_eq!(lines[2].kind, LineKind::Blank);
         assert!(matches!(lines[3].kind, LineKind::Unreadable(_)));
+    }
+
+    /// RFC 4180, section 2, rules 5 to 7: a quoted cell may hold commas,
+    /// and a doubled quote inside it stands for one.
+    #[test]
+    fn quoted_cells_as_rfc_4180_writes_them() {
+        assert_eq!(
+            split_csv(r#"E11.9,"Type 2, no ""complications""",x"#).unwrap(),
+            ["E11.9", r#"Type 2, no "complications""#, "x"]
+        );
+        // Beyond the RFC (the reader's own rule): text after a closing quote
+        // joins the cell, trimmed.
+        assert_eq!(split_csv(r#" "a" b ,"c""#).unwrap(), ["ab", "c"]);
+        assert_eq!(split_csv("a,,b,").unwrap(), ["a", "", "b", ""]);
+        // An unclosed quote in a cell after the code still makes the row unreadable.
+        let (_, lines) = parse_list("code,label,note\nE11.9,DM,\"open\nI10,HTN,\n");
+        assert!(matches!(lines[1].kind, LineKind::Unreadable(ref m) if m.contains("quoted")));
     }
 
     #[test]
